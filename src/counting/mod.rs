@@ -1,0 +1,3 @@
+//! Exact counters that do not list states.
+
+pub mod lattice;

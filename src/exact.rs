@@ -1,0 +1,301 @@
+//! Exact decimal input and output, and integer square roots.
+//!
+//! Parameters enter zsum as text and are read as exact rationals: `"4.0026"`
+//! is 40026/10000, `"1e-3"` is 1/1000 and `"27/4"` is 27/4, never a binary
+//! float. Output goes the other way: [`format_sig`] rounds an exact rational
+//! to a number of significant digits, correctly (round half to even), so every
+//! printed digit is a digit of the exact value.
+
+use crate::error::{Error, Result};
+use num_bigint::{BigInt, BigUint, Sign};
+use num_integer::Integer;
+use num_rational::BigRational;
+use num_traits::{One, Signed, ToPrimitive, Zero};
+
+/// Largest decimal exponent accepted in input, to keep a typo such as
+/// `1e999999999` from allocating a huge integer.
+pub const MAX_DECIMAL_EXPONENT: i64 = 400;
+
+/// `10^n` as a big integer.
+pub fn pow10(n: u32) -> BigInt {
+    num_traits::pow(BigInt::from(10u8), n as usize)
+}
+
+/// Reads an exact rational from text.
+///
+/// Accepted: an optional sign, digits with an optional decimal point, an
+/// optional exponent (`e` or `E`), or a fraction `p/q` of two such numbers.
+/// Underscores between digits are ignored.
+///
+/// ```
+/// use zsum::exact::parse_rational;
+/// use num_rational::BigRational;
+/// assert_eq!(parse_rational("27/4").unwrap(), BigRational::new(27.into(), 4.into()));
+/// assert_eq!(parse_rational("-1.5e-3").unwrap(), BigRational::new((-3).into(), 2000.into()));
+/// assert!(parse_rational("1.2.3").is_err());
+/// ```
+pub fn parse_rational(text: &str) -> Result<BigRational> {
+    let t = text.trim();
+    if let Some((num, den)) = t.split_once('/') {
+        let n = parse_decimal(num).map_err(|_| bad_number(text))?;
+        let d = parse_decimal(den).map_err(|_| bad_number(text))?;
+        if d.is_zero() {
+            return Err(Error::invalid(
+                "fraction",
+                format!("{text:?}"),
+                "the denominator must not be zero",
+            ));
+        }
+        return Ok(n / d);
+    }
+    parse_decimal(t).map_err(|_| bad_number(text))
+}
+
+fn bad_number(text: &str) -> Error {
+    Error::parse(
+        "number",
+        text,
+        "a decimal such as 2, 0.5, 1.25e-3 or a fraction such as 27/4",
+    )
+}
+
+fn parse_decimal(text: &str) -> std::result::Result<BigRational, ()> {
+    let t: String = text.trim().chars().filter(|&c| c != '_').collect();
+    let (neg, body) = match t.as_bytes().first() {
+        Some(b'-') => (true, &t[1..]),
+        Some(b'+') => (false, &t[1..]),
+        _ => (false, &t[..]),
+    };
+    let (mantissa, exponent) = match body.find(['e', 'E']) {
+        Some(i) => (&body[..i], Some(&body[i + 1..])),
+        None => (body, None),
+    };
+    let (int_part, frac_part) = match mantissa.split_once('.') {
+        Some((a, b)) => (a, b),
+        None => (mantissa, ""),
+    };
+    if int_part.is_empty() && frac_part.is_empty() {
+        return Err(());
+    }
+    if !int_part.bytes().all(|b| b.is_ascii_digit())
+        || !frac_part.bytes().all(|b| b.is_ascii_digit())
+    {
+        return Err(());
+    }
+    let mut exp: i64 = match exponent {
+        None => 0,
+        Some(e) => {
+            let digits = e.strip_prefix(['+', '-']).unwrap_or(e);
+            if digits.is_empty() || !digits.bytes().all(|b| b.is_ascii_digit()) || digits.len() > 6
+            {
+                return Err(());
+            }
+            e.parse::<i64>().map_err(|_| ())?
+        }
+    };
+    let digits = format!("{int_part}{frac_part}");
+    let mut value: BigInt = digits.parse().map_err(|_| ())?;
+    exp -= frac_part.len() as i64;
+    if exp.abs() > MAX_DECIMAL_EXPONENT + digits.len() as i64 {
+        return Err(());
+    }
+    if neg {
+        value = -value;
+    }
+    Ok(if exp >= 0 {
+        BigRational::from_integer(value * pow10(exp as u32))
+    } else {
+        BigRational::new(value, pow10((-exp) as u32))
+    })
+}
+
+/// Writes an exact rational as its shortest text: an integer (`"6"`) or a
+/// reduced fraction (`"27/4"`). This is the machine form used in JSON.
+pub fn rational_string(r: &BigRational) -> String {
+    if r.is_integer() {
+        r.numer().to_string()
+    } else {
+        format!("{}/{}", r.numer(), r.denom())
+    }
+}
+
+/// Rounds `x` to `digits` significant digits, half to even, and writes it in
+/// plain notation for moderate magnitudes or scientific notation otherwise.
+/// Every digit printed is a correct digit of the exact value.
+///
+/// ```
+/// use zsum::exact::{format_sig, parse_rational};
+/// let x = parse_rational("2/3").unwrap();
+/// assert_eq!(format_sig(&x, 5), "0.66667");
+/// assert_eq!(format_sig(&parse_rational("123456789").unwrap(), 3), "1.23e8");
+/// assert_eq!(format_sig(&parse_rational("0.125").unwrap(), 2), "0.12");
+/// ```
+pub fn format_sig(x: &BigRational, digits: u32) -> String {
+    let digits = digits.max(1);
+    if x.is_zero() {
+        return "0".to_string();
+    }
+    let neg = x.is_negative();
+    let a = x.abs();
+    let (m, e) = round_sig(&a, digits);
+    let mut s = m.to_string();
+    let out = if (-5..15).contains(&e) {
+        if e >= 0 {
+            let int_len = (e + 1) as usize;
+            if s.len() <= int_len {
+                s.push_str(&"0".repeat(int_len - s.len()));
+                s
+            } else {
+                let frac = s.split_off(int_len);
+                format!("{s}.{frac}")
+            }
+        } else {
+            format!("0.{}{}", "0".repeat((-e - 1) as usize), s)
+        }
+    } else {
+        let rest = s.split_off(1);
+        if rest.is_empty() {
+            format!("{s}e{e}")
+        } else {
+            format!("{s}.{rest}e{e}")
+        }
+    };
+    if neg {
+        format!("-{out}")
+    } else {
+        out
+    }
+}
+
+/// Returns `(m, e)` with `10^(digits-1) <= m < 10^digits` and
+/// `x ≈ m · 10^(e - digits + 1)`, rounded half to even; `x > 0`.
+fn round_sig(x: &BigRational, digits: u32) -> (BigUint, i64) {
+    let mut e = decimal_exponent(x);
+    loop {
+        let shift = digits as i64 - 1 - e;
+        let scaled = if shift >= 0 {
+            x * BigRational::from_integer(pow10(shift as u32))
+        } else {
+            x / BigRational::from_integer(pow10((-shift) as u32))
+        };
+        let m = round_half_even(&scaled);
+        let hi = pow10(digits);
+        if m >= hi {
+            // Rounding carried into a new digit (e.g. 9.99 -> 10.0).
+            e += 1;
+            continue;
+        }
+        let m = m.to_biguint().expect("positive");
+        return (m, e);
+    }
+}
+
+/// floor(log10(x)) for x > 0, exactly.
+pub fn decimal_exponent(x: &BigRational) -> i64 {
+    let n = x.numer().abs();
+    let d = x.denom().clone();
+    let mut e = n.to_string().len() as i64 - d.to_string().len() as i64;
+    // Now 10^(e-1) < x < 10^(e+1); fix up to floor.
+    let ten_pow = |k: i64| -> BigRational {
+        if k >= 0 {
+            BigRational::from_integer(pow10(k as u32))
+        } else {
+            BigRational::new(BigInt::one(), pow10((-k) as u32))
+        }
+    };
+    let ax = x.abs();
+    while ten_pow(e) > ax {
+        e -= 1;
+    }
+    while ten_pow(e + 1) <= ax {
+        e += 1;
+    }
+    e
+}
+
+/// Rounds a rational to the nearest integer, ties to even.
+pub fn round_half_even(x: &BigRational) -> BigInt {
+    let fl = x.floor();
+    let frac = x - &fl;
+    let half = BigRational::new(BigInt::one(), BigInt::from(2));
+    let f = fl.to_integer();
+    match frac.cmp(&half) {
+        std::cmp::Ordering::Less => f,
+        std::cmp::Ordering::Greater => f + 1,
+        std::cmp::Ordering::Equal => {
+            if f.is_even() {
+                f
+            } else {
+                f + 1
+            }
+        }
+    }
+}
+
+/// The integer part of a non-negative rational, as a big unsigned integer.
+pub fn floor_nonneg(x: &BigRational) -> BigUint {
+    if x.is_negative() {
+        return BigUint::zero();
+    }
+    x.floor()
+        .to_integer()
+        .to_biguint()
+        .unwrap_or_else(BigUint::zero)
+}
+
+/// floor(sqrt(n)) for a 64-bit integer, exact.
+pub fn isqrt_u64(n: u64) -> u64 {
+    let mut r = (n as f64).sqrt() as u64;
+    while r.checked_mul(r).is_none_or(|sq| sq > n) {
+        r -= 1;
+    }
+    while (r + 1).checked_mul(r + 1).is_some_and(|sq| sq <= n) {
+        r += 1;
+    }
+    r
+}
+
+/// floor(sqrt(n)) for a 128-bit integer, exact.
+pub fn isqrt_u128(n: u128) -> u128 {
+    if n <= u64::MAX as u128 {
+        return isqrt_u64(n as u64) as u128;
+    }
+    let mut r = (n as f64).sqrt() as u128;
+    while r.checked_mul(r).is_none_or(|sq| sq > n) {
+        r -= 1;
+    }
+    while (r + 1).checked_mul(r + 1).is_some_and(|sq| sq <= n) {
+        r += 1;
+    }
+    r
+}
+
+/// An upper bound on sqrt(x) for x >= 0, as a rational with denominator
+/// `2^bits` (the bound exceeds the root by at most `2^-bits`).
+pub fn sqrt_upper(x: &BigRational, bits: u32) -> BigRational {
+    if !x.is_positive() {
+        return BigRational::zero();
+    }
+    let scale = BigInt::one() << (2 * bits as usize);
+    // ceil(x * 4^bits) then ceil(sqrt(.)).
+    let scaled = (x * BigRational::from_integer(scale)).ceil().to_integer();
+    let r = scaled.sqrt();
+    let r = if &r * &r < scaled { r + 1 } else { r };
+    BigRational::new(r, BigInt::one() << bits as usize)
+}
+
+/// A rational strictly above π (355/113 exceeds π by 2.7e-7).
+pub fn pi_upper() -> BigRational {
+    BigRational::new(BigInt::from(355), BigInt::from(113))
+}
+
+/// Converts a non-negative rational to `u128` by flooring; `None` if it does
+/// not fit.
+pub fn floor_to_u128(x: &BigRational) -> Option<u128> {
+    floor_nonneg(x).to_u128()
+}
+
+/// A signed big integer from an unsigned one.
+pub fn to_bigint(u: &BigUint) -> BigInt {
+    BigInt::from_biguint(Sign::Plus, u.clone())
+}

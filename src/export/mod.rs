@@ -1,0 +1,97 @@
+//! Output formats. Every answer is one result struct that is both
+//! [`serde::Serialize`] (for JSON) and [`Tabular`] (for CSV and the aligned
+//! table), so the three formats always carry the same values.
+
+mod csv_format;
+mod json;
+mod table;
+
+use crate::error::{Error, ErrorKind, Result};
+use serde::Serialize;
+use std::path::Path;
+
+pub use csv_format::to_csv;
+pub use json::to_json;
+pub use table::to_table;
+
+/// A result that can be laid out as rows and columns.
+pub trait Tabular {
+    /// Lines printed above a table (as `#` comments): what was computed and
+    /// in which units.
+    fn preamble(&self) -> Vec<String>;
+    /// Column headings.
+    fn columns(&self) -> Vec<String>;
+    /// The rows, each as long as `columns()`.
+    fn rows(&self) -> Vec<Vec<String>>;
+    /// Lines printed below a table (as `#` comments).
+    fn summary(&self) -> Vec<String> {
+        Vec::new()
+    }
+}
+
+/// An output format.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub enum Format {
+    /// Aligned human table with a header naming the units.
+    #[default]
+    Table,
+    /// JSON, the machine interface; exact numbers as strings.
+    Json,
+    /// CSV with one header row.
+    Csv,
+}
+
+impl Format {
+    /// Reads a format name: `table`, `json` or `csv`.
+    pub fn parse(text: &str) -> Result<Self> {
+        match text {
+            "table" => Ok(Format::Table),
+            "json" => Ok(Format::Json),
+            "csv" => Ok(Format::Csv),
+            other => Err(Error::parse("format", other, "one of table, json, csv")),
+        }
+    }
+}
+
+/// Renders a result in the given format.
+pub fn render<T: Serialize + Tabular>(result: &T, format: Format) -> Result<String> {
+    match format {
+        Format::Table => Ok(to_table(result)),
+        Format::Json => to_json(result),
+        Format::Csv => to_csv(result),
+    }
+}
+
+/// Writes `contents` to `path` all at once: to a temporary file beside it,
+/// then renamed over it, so a failure never leaves a partial file.
+pub fn write_atomic(path: &Path, contents: &str) -> Result<()> {
+    let dir = match path.parent() {
+        Some(p) if !p.as_os_str().is_empty() => p.to_path_buf(),
+        _ => std::path::PathBuf::from("."),
+    };
+    let name = path
+        .file_name()
+        .ok_or_else(|| {
+            Error::new(
+                ErrorKind::Io,
+                format!(
+                    "output path {:?} does not name a file",
+                    path.display().to_string()
+                ),
+            )
+        })?
+        .to_string_lossy()
+        .to_string();
+    let tmp = dir.join(format!(".{name}.zsum-tmp-{}", std::process::id()));
+    let io_err = |e: std::io::Error, what: &str, p: &Path| {
+        Error::new(
+            ErrorKind::Io,
+            format!("cannot {what} {:?}: {e}", p.display().to_string()),
+        )
+    };
+    std::fs::write(&tmp, contents).map_err(|e| io_err(e, "write", path))?;
+    std::fs::rename(&tmp, path).map_err(|e| {
+        let _ = std::fs::remove_file(&tmp);
+        io_err(e, "write", path)
+    })
+}

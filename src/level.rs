@@ -1,0 +1,295 @@
+//! Exact, degeneracy-weighted level lists.
+//!
+//! A [`Level`] is an exact rational energy and a big-integer degeneracy. A
+//! [`LevelList`] keeps its levels sorted by energy with equal energies merged
+//! and zero degeneracies dropped, in one stated [`EnergyUnit`]. All operations
+//! (union, product, shift, scale, truncation) are exact.
+
+use crate::error::{Error, ErrorKind, Result};
+use crate::exact::rational_string;
+use crate::units::EnergyUnit;
+use num_bigint::BigUint;
+use num_rational::BigRational;
+use num_traits::{Signed, Zero};
+use serde::{Deserialize, Serialize};
+use std::cmp::Ordering;
+
+/// One energy level: an exact energy and the number of states at it.
+#[derive(Debug, Clone, PartialEq, Eq, Hash, Serialize, Deserialize)]
+pub struct Level {
+    /// The energy, exact, in the unit of the list that holds it.
+    #[serde(with = "crate::serde_exact::ratio")]
+    pub energy: BigRational,
+    /// The number of states sharing this energy.
+    #[serde(with = "crate::serde_exact::uint")]
+    pub degeneracy: BigUint,
+}
+
+impl Level {
+    /// A level with the given energy and degeneracy.
+    pub fn new(energy: BigRational, degeneracy: impl Into<BigUint>) -> Self {
+        Level {
+            energy,
+            degeneracy: degeneracy.into(),
+        }
+    }
+}
+
+/// Levels sorted by strictly increasing energy, each with a positive
+/// degeneracy, in one unit.
+///
+/// ```
+/// use zsum::level::{Level, LevelList};
+/// use zsum::units::EnergyUnit;
+/// use num_rational::BigRational;
+/// let e = |n: i64| BigRational::from_integer(n.into());
+/// // A two-level system with a doubly degenerate upper level...
+/// let a = LevelList::new(EnergyUnit::Kelvin, vec![Level::new(e(0), 1u32), Level::new(e(10), 2u32)]);
+/// // ...times itself: energies add, degeneracies multiply.
+/// let aa = a.product(&a).unwrap();
+/// let degs: Vec<String> = aa.iter().map(|l| l.degeneracy.to_string()).collect();
+/// assert_eq!(degs, ["1", "4", "4"]);
+/// assert_eq!(aa.total_states(), 9u32.into());
+/// ```
+#[derive(Debug, Clone, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(try_from = "RawLevelList")]
+pub struct LevelList {
+    unit: EnergyUnit,
+    levels: Vec<Level>,
+}
+
+#[derive(Deserialize)]
+struct RawLevelList {
+    unit: EnergyUnit,
+    levels: Vec<Level>,
+}
+
+impl TryFrom<RawLevelList> for LevelList {
+    type Error = Error;
+    fn try_from(raw: RawLevelList) -> Result<Self> {
+        Ok(LevelList::new(raw.unit, raw.levels))
+    }
+}
+
+impl LevelList {
+    /// Builds a list from levels in any order: sorts by energy, merges equal
+    /// energies (adding degeneracies) and drops levels of degeneracy zero.
+    pub fn new(unit: EnergyUnit, mut levels: Vec<Level>) -> Self {
+        levels.sort_by(|a, b| a.energy.cmp(&b.energy));
+        let mut out: Vec<Level> = Vec::with_capacity(levels.len());
+        for l in levels {
+            if l.degeneracy.is_zero() {
+                continue;
+            }
+            match out.last_mut() {
+                Some(last) if last.energy == l.energy => last.degeneracy += l.degeneracy,
+                _ => out.push(l),
+            }
+        }
+        LevelList { unit, levels: out }
+    }
+
+    /// Builds a list from levels already sorted by strictly increasing energy
+    /// with positive degeneracies. The order is checked in debug builds only;
+    /// callers (the models) guarantee it.
+    pub(crate) fn from_sorted(unit: EnergyUnit, levels: Vec<Level>) -> Self {
+        debug_assert!(levels.windows(2).all(|w| w[0].energy < w[1].energy));
+        debug_assert!(levels.iter().all(|l| !l.degeneracy.is_zero()));
+        LevelList { unit, levels }
+    }
+
+    /// An empty list in the given unit.
+    pub fn empty(unit: EnergyUnit) -> Self {
+        LevelList {
+            unit,
+            levels: Vec::new(),
+        }
+    }
+
+    /// The unit of every energy in the list.
+    pub fn unit(&self) -> &EnergyUnit {
+        &self.unit
+    }
+
+    /// The levels, lowest first.
+    pub fn levels(&self) -> &[Level] {
+        &self.levels
+    }
+
+    /// Iterates over the levels, lowest first.
+    pub fn iter(&self) -> std::slice::Iter<'_, Level> {
+        self.levels.iter()
+    }
+
+    /// Number of distinct levels.
+    pub fn len(&self) -> usize {
+        self.levels.len()
+    }
+
+    /// Whether the list has no levels.
+    pub fn is_empty(&self) -> bool {
+        self.levels.is_empty()
+    }
+
+    /// The lowest level, if any.
+    pub fn ground(&self) -> Option<&Level> {
+        self.levels.first()
+    }
+
+    /// Total number of states (sum of degeneracies).
+    pub fn total_states(&self) -> BigUint {
+        self.levels.iter().map(|l| &l.degeneracy).sum()
+    }
+
+    /// Number of states with energy at most `e`: N(≤ e).
+    pub fn count_up_to(&self, e: &BigRational) -> BigUint {
+        let end = self.levels.partition_point(|l| &l.energy <= e);
+        self.levels[..end].iter().map(|l| &l.degeneracy).sum()
+    }
+
+    /// The cumulative count N(≤ E_i) at every level energy E_i.
+    pub fn cumulative(&self) -> Vec<(BigRational, BigUint)> {
+        let mut n = BigUint::zero();
+        self.levels
+            .iter()
+            .map(|l| {
+                n += &l.degeneracy;
+                (l.energy.clone(), n.clone())
+            })
+            .collect()
+    }
+
+    /// The levels with energy at most `cutoff`.
+    pub fn truncated(&self, cutoff: &BigRational) -> LevelList {
+        let end = self.levels.partition_point(|l| &l.energy <= cutoff);
+        LevelList {
+            unit: self.unit.clone(),
+            levels: self.levels[..end].to_vec(),
+        }
+    }
+
+    fn same_unit(&self, other: &LevelList, op: &str) -> Result<()> {
+        if self.unit == other.unit {
+            Ok(())
+        } else {
+            Err(Error::new(
+                ErrorKind::Mismatch,
+                format!(
+                    "cannot form the {op} of a list in {} with a list in {}: convert one first \
+                     (LevelList::converted)",
+                    self.unit, other.unit
+                ),
+            ))
+        }
+    }
+
+    /// The union of two lists (a mixture): every state of both, with
+    /// degeneracies added where energies coincide. Units must agree.
+    pub fn union(&self, other: &LevelList) -> Result<LevelList> {
+        self.same_unit(other, "union")?;
+        let mut out = Vec::with_capacity(self.len() + other.len());
+        let (mut i, mut j) = (0, 0);
+        let (a, b) = (&self.levels, &other.levels);
+        while i < a.len() || j < b.len() {
+            let ord = match (a.get(i), b.get(j)) {
+                (Some(x), Some(y)) => x.energy.cmp(&y.energy),
+                (Some(_), None) => Ordering::Less,
+                _ => Ordering::Greater,
+            };
+            match ord {
+                Ordering::Less => {
+                    out.push(a[i].clone());
+                    i += 1;
+                }
+                Ordering::Greater => {
+                    out.push(b[j].clone());
+                    j += 1;
+                }
+                Ordering::Equal => {
+                    out.push(Level::new(
+                        a[i].energy.clone(),
+                        &a[i].degeneracy + &b[j].degeneracy,
+                    ));
+                    i += 1;
+                    j += 1;
+                }
+            }
+        }
+        Ok(LevelList::from_sorted(self.unit.clone(), out))
+    }
+
+    /// The product of two lists: the levels of two independent subsystems
+    /// taken together. Energies add and degeneracies multiply, exactly.
+    pub fn product(&self, other: &LevelList) -> Result<LevelList> {
+        self.product_impl(other, None)
+    }
+
+    /// The product of two lists, keeping only combined energies at most
+    /// `cutoff`. Cheaper than [`LevelList::product`] followed by truncation:
+    /// pairs above the cutoff are never formed.
+    pub fn product_up_to(&self, other: &LevelList, cutoff: &BigRational) -> Result<LevelList> {
+        self.product_impl(other, Some(cutoff))
+    }
+
+    fn product_impl(&self, other: &LevelList, cutoff: Option<&BigRational>) -> Result<LevelList> {
+        self.same_unit(other, "product")?;
+        let mut pairs = Vec::new();
+        for a in &self.levels {
+            for b in &other.levels {
+                let e = &a.energy + &b.energy;
+                if cutoff.is_some_and(|c| &e > c) {
+                    break; // `other` is sorted: every later b is higher still
+                }
+                pairs.push(Level::new(e, &a.degeneracy * &b.degeneracy));
+            }
+        }
+        Ok(LevelList::new(self.unit.clone(), pairs))
+    }
+
+    /// Every energy shifted by `delta` (same unit).
+    pub fn shifted(&self, delta: &BigRational) -> LevelList {
+        LevelList {
+            unit: self.unit.clone(),
+            levels: self
+                .levels
+                .iter()
+                .map(|l| Level::new(&l.energy + delta, l.degeneracy.clone()))
+                .collect(),
+        }
+    }
+
+    /// Every energy multiplied by `factor`, which must be positive (a
+    /// non-positive factor would reverse or collapse the order), with the
+    /// result labelled in `unit`.
+    pub fn scaled(&self, factor: &BigRational, unit: EnergyUnit) -> Result<LevelList> {
+        if !factor.is_positive() {
+            return Err(Error::invalid(
+                "scale factor",
+                rational_string(factor),
+                "it must be greater than zero",
+            ));
+        }
+        Ok(LevelList {
+            unit,
+            levels: self
+                .levels
+                .iter()
+                .map(|l| Level::new(&l.energy * factor, l.degeneracy.clone()))
+                .collect(),
+        })
+    }
+
+    /// The same levels expressed in another unit, exactly.
+    pub fn converted(&self, unit: &EnergyUnit) -> Result<LevelList> {
+        let f = self.unit.factor_to(unit)?;
+        self.scaled(&f, unit.clone())
+    }
+}
+
+impl<'a> IntoIterator for &'a LevelList {
+    type Item = &'a Level;
+    type IntoIter = std::slice::Iter<'a, Level>;
+    fn into_iter(self) -> Self::IntoIter {
+        self.levels.iter()
+    }
+}

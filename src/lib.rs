@@ -1,0 +1,49 @@
+//! # zsum: exact state counting for statistical mechanics
+//!
+//! zsum enumerates the quantum states of standard models into exact,
+//! degeneracy-weighted level lists: energies are rationals
+//! ([`num_rational::BigRational`]) in a stated unit and degeneracies are big
+//! integers ([`num_bigint::BigUint`]). Nothing is rounded until a value is
+//! printed, and then it is rounded correctly.
+//!
+//! ```
+//! use zsum::models::ParticleInBox;
+//! use zsum::spectrum::Spectrum;
+//! use zsum::exact::parse_rational;
+//!
+//! // The cube's levels up to 27 (in units of h^2/(8 m L^2)).
+//! let cube = ParticleInBox::cube(3)?;
+//! let levels = cube.levels_up_to(&parse_rational("27")?)?;
+//! let top = levels.levels().last().unwrap();
+//! // 27 = 3²+3²+3² = 1²+1²+5²: one state plus three.
+//! assert_eq!(top.energy, parse_rational("27")?);
+//! assert_eq!(top.degeneracy, 4u32.into());
+//! // The exact number of states up to 10^6 without listing them.
+//! let n = cube.count_up_to(&parse_rational("1e6")?)?;
+//! assert_eq!(n, cube.levels_up_to(&parse_rational("1e6")?)?.total_states());
+//! # Ok::<(), zsum::Error>(())
+//! ```
+//!
+//! ## Layout
+//! - [`units`]: exact SI constants and energy units.
+//! - [`level`]: [`level::LevelList`], exact and sorted.
+//! - [`spectrum`]: the [`spectrum::Spectrum`] trait.
+//! - [`models`]: the models (particle in a box, ...).
+//! - [`counting`]: exact counts without listing.
+//! - [`report`]: the result structures that every output format writes.
+
+#![forbid(unsafe_code)]
+#![warn(missing_docs)]
+
+pub mod counting;
+pub mod error;
+pub mod exact;
+pub mod export;
+pub mod level;
+pub mod models;
+pub mod report;
+pub mod serde_exact;
+pub mod spectrum;
+pub mod units;
+
+pub use error::{Error, ErrorKind, Result};

@@ -1,0 +1,694 @@
+//! A particle in a box with impenetrable (Dirichlet) walls, in 1, 2 or 3
+//! dimensions.
+//!
+//! The sides are `a_i · L` for a reference length `L` and rational ratios
+//! `a_i`; the quantum numbers are positive integers and the energy is
+//!
+//! ```text
+//! E(n) = Σ_i n_i² / a_i²      in units of h²/(8 m L²).
+//! ```
+//!
+//! With `D` the least common multiple of the denominators of `1/a_i²`, every
+//! energy is an integer `K = Σ w_i n_i²` (with integer weights
+//! `w_i = D / a_i²`) divided by `D`, so levels are exact rationals.
+//!
+//! # Enumeration
+//! Axes with equal weights are interchangeable. The enumeration visits one
+//! representative per family of states (quantum numbers non-decreasing within
+//! each group of equal axes), bounding every coordinate by an integer square
+//! root of what the cutoff leaves, so it never scans a full cube of
+//! candidates. Each representative stands for all distinct permutations of
+//! its quantum numbers within the groups (its family); the level's degeneracy
+//! is the sum of its families' sizes.
+//!
+//! # Where degeneracy comes from
+//! A level holding one family is degenerate because the box's symmetry
+//! requires it ([`Origin::Symmetry`]); a level holding several families,
+//! such as 27 = 3²+3²+3² = 1²+1²+5² in the cube, is degenerate by a
+//! number-theoretic coincidence ([`Origin::Coincidence`]).
+
+use crate::counting::lattice;
+use crate::error::{Error, Result};
+use crate::exact::{floor_nonneg, isqrt_u64, pi_upper, rational_string, sqrt_upper};
+use crate::level::{Level, LevelList};
+use crate::spectrum::{Budget, Spectrum, State};
+use crate::units::EnergyUnit;
+use num_bigint::{BigInt, BigUint};
+use num_integer::Integer;
+use num_rational::BigRational;
+use num_traits::{One, Signed, ToPrimitive, Zero};
+use serde::{Deserialize, Serialize};
+
+/// Largest integer weight `D / a_i²` (and `D`) accepted, so that scaled
+/// energies stay inside 64 bits for any sensible cutoff.
+const MAX_WEIGHT: u64 = 1 << 30;
+
+/// Bytes of working memory per family in the sparse enumeration.
+const SPARSE_BYTES: f64 = 16.0;
+/// Bytes per slot of the dense enumeration (a degeneracy and a family count).
+const DENSE_BYTES: f64 = 12.0;
+/// Bytes per level in the final list (exact energy and degeneracy).
+const LEVEL_BYTES: f64 = 128.0;
+/// Bytes per listed state (quantum numbers and bookkeeping).
+const STATE_BYTES: f64 = 64.0;
+/// Count steps beyond which `count` refuses (a few minutes on one core).
+const MAX_COUNT_STEPS: f64 = 4e11;
+
+/// Why a level is degenerate.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Origin {
+    /// One state only.
+    Single,
+    /// Several states, all permutations of one set of quantum numbers among
+    /// interchangeable axes: required by the box's symmetry.
+    Symmetry,
+    /// States from two or more distinct sets of quantum numbers that happen
+    /// to share the energy.
+    Coincidence,
+}
+
+impl Origin {
+    /// The word used in tables and JSON.
+    pub fn as_str(&self) -> &'static str {
+        match self {
+            Origin::Single => "single",
+            Origin::Symmetry => "symmetry",
+            Origin::Coincidence => "coincidence",
+        }
+    }
+}
+
+/// A level with the number of quantum-number families that share it.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct ClassifiedLevel {
+    /// The level (energy in units of h²/(8 m L²), degeneracy).
+    pub level: Level,
+    /// Number of distinct families (sets of quantum numbers up to the box's
+    /// symmetry) that share this energy.
+    pub families: u64,
+}
+
+impl ClassifiedLevel {
+    /// Where the degeneracy comes from.
+    pub fn origin(&self) -> Origin {
+        if self.families > 1 {
+            Origin::Coincidence
+        } else if self.level.degeneracy > BigUint::one() {
+            Origin::Symmetry
+        } else {
+            Origin::Single
+        }
+    }
+}
+
+/// A particle in a 1-, 2- or 3-dimensional rectangular box.
+///
+/// ```
+/// use zsum::models::ParticleInBox;
+/// use zsum::spectrum::Spectrum;
+/// use num_rational::BigRational;
+/// let cube = ParticleInBox::cube(3).unwrap();
+/// let levels = cube.levels_up_to(&BigRational::from_integer(12.into())).unwrap();
+/// let pairs: Vec<(String, String)> = levels
+///     .iter()
+///     .map(|l| (l.energy.to_string(), l.degeneracy.to_string()))
+///     .collect();
+/// assert_eq!(pairs[..3], [("3".into(), "1".into()), ("6".into(), "3".into()), ("9".into(), "3".into())]);
+/// ```
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct ParticleInBox {
+    sides: Vec<BigRational>,
+    /// `D`: energy = K / D.
+    scale: u64,
+    /// Axes ordered so that equal weights are adjacent: `(weight, axis)`.
+    sorted: Vec<(u64, usize)>,
+}
+
+/// One family of states: a representative in sorted-axis order, its scaled
+/// energy and its size.
+#[derive(Debug, Clone, Copy)]
+struct Family {
+    k: u64,
+    rep: [u64; 3],
+    size: u64,
+}
+
+impl ParticleInBox {
+    /// A box with the given side ratios (one per dimension, 1 to 3), each a
+    /// positive rational, in units of the reference length `L`.
+    pub fn new(sides: Vec<BigRational>) -> Result<Self> {
+        if sides.is_empty() || sides.len() > 3 {
+            return Err(Error::invalid(
+                "number of dimensions",
+                sides.len(),
+                "a box has 1, 2 or 3 dimensions",
+            ));
+        }
+        for s in &sides {
+            if !s.is_positive() {
+                return Err(Error::invalid(
+                    "side",
+                    rational_string(s),
+                    "every side ratio must be greater than zero",
+                ));
+            }
+        }
+        // 1/a² = q²/p² for a = p/q; D = lcm of the p²; w = D q² / p².
+        let too_complex = || {
+            Error::invalid(
+                "side ratios",
+                sides
+                    .iter()
+                    .map(rational_string)
+                    .collect::<Vec<_>>()
+                    .join(":"),
+                "numerators and denominators must be small enough that the energy weights \
+                 stay below 2^30; use simpler ratios",
+            )
+        };
+        let mut d = BigInt::one();
+        for s in &sides {
+            let p2 = s.numer() * s.numer();
+            d = d.lcm(&p2);
+        }
+        let scale = d
+            .to_u64()
+            .filter(|&v| v <= MAX_WEIGHT)
+            .ok_or_else(too_complex)?;
+        let mut sorted = Vec::with_capacity(sides.len());
+        for (axis, s) in sides.iter().enumerate() {
+            let w = &d * s.denom() * s.denom() / (s.numer() * s.numer());
+            let w = w
+                .to_u64()
+                .filter(|&v| v <= MAX_WEIGHT)
+                .ok_or_else(too_complex)?;
+            sorted.push((w, axis));
+        }
+        sorted.sort();
+        Ok(ParticleInBox {
+            sides,
+            scale,
+            sorted,
+        })
+    }
+
+    /// The cube (or square, or segment) of side `L` in `dims` dimensions.
+    pub fn cube(dims: usize) -> Result<Self> {
+        ParticleInBox::new(vec![BigRational::one(); dims])
+    }
+
+    /// Number of dimensions.
+    pub fn dims(&self) -> usize {
+        self.sides.len()
+    }
+
+    /// The side ratios, in the order given.
+    pub fn sides(&self) -> &[BigRational] {
+        &self.sides
+    }
+
+    /// Whether all sides are equal.
+    pub fn is_cubic(&self) -> bool {
+        self.sides.windows(2).all(|w| w[0] == w[1])
+    }
+
+    fn weights(&self) -> Vec<u64> {
+        self.sorted.iter().map(|&(w, _)| w).collect()
+    }
+
+    /// The scaled cutoff `floor(cutoff · D)`, after checking the cutoff lies
+    /// at or above the ground level.
+    fn scaled_cutoff(&self, cutoff: &BigRational) -> Result<u64> {
+        let ground = self.ground_energy();
+        if cutoff < &ground {
+            return Err(Error::invalid(
+                "cutoff",
+                rational_string(cutoff),
+                &format!(
+                    "it lies below the ground level {}; give a cutoff of at least that",
+                    rational_string(&ground)
+                ),
+            ));
+        }
+        let m = floor_nonneg(&(cutoff * BigRational::from_integer(BigInt::from(self.scale))));
+        m.to_u64()
+            .filter(|&v| v <= lattice::MAX_CUTOFF)
+            .ok_or_else(|| {
+                Error::invalid(
+                    "cutoff",
+                    rational_string(cutoff),
+                    "it is beyond the range of exact box enumeration (scaled energies must stay \
+                 below 2^62)",
+                )
+            })
+    }
+
+    /// Weyl's law with the boundary correction for Dirichlet walls: the
+    /// smooth approximation to the number of states with energy ≤ `e`.
+    ///
+    /// 1D: `a√E − 1/2`; 2D: `(π/4)abE − (a+b)√E/2 + 1/4`;
+    /// 3D: `(π/6)abcE^{3/2} − (π/8)(ab+bc+ca)E + (a+b+c)√E/4 − 1/8`.
+    pub fn weyl_estimate(&self, e: f64) -> f64 {
+        use std::f64::consts::PI;
+        let a: Vec<f64> = self
+            .sides
+            .iter()
+            .map(|s| s.to_f64().unwrap_or(1.0))
+            .collect();
+        let r = e.max(0.0).sqrt();
+        match a.as_slice() {
+            [a] => a * r - 0.5,
+            [a, b] => PI / 4.0 * a * b * e - (a + b) * r / 2.0 + 0.25,
+            [a, b, c] => {
+                PI / 6.0 * a * b * c * e * r - PI / 8.0 * (a * b + b * c + c * a) * e
+                    + (a + b + c) * r / 4.0
+                    - 0.125
+            }
+            _ => 0.0,
+        }
+    }
+
+    /// Number of interchangeable-axis permutations (the order of the box's
+    /// permutation symmetry).
+    fn symmetry_order(&self) -> u64 {
+        let mut order = 1u64;
+        let mut run = 1u64;
+        for i in 1..self.sorted.len() {
+            if self.sorted[i].0 == self.sorted[i - 1].0 {
+                run += 1;
+                order *= run;
+            } else {
+                run = 1;
+            }
+        }
+        order
+    }
+
+    /// Visits one representative per family with scaled energy ≤ `m`.
+    fn visit_families(&self, m: u64, f: &mut impl FnMut(Family)) {
+        let w = self.weights();
+        let d = w.len();
+        // For axis i: how many axes from i to the end of its group, and the
+        // least energy the later groups add (all their numbers at 1).
+        let mut run = vec![1u64; d];
+        for i in (0..d.saturating_sub(1)).rev() {
+            if w[i] == w[i + 1] {
+                run[i] = run[i + 1] + 1;
+            }
+        }
+        let mut tail = vec![0u64; d];
+        for i in (0..d).rev() {
+            let next_group = i + run[i] as usize;
+            tail[i] = w[next_group..].iter().sum();
+        }
+        let mut rep = [0u64; 3];
+        self.visit_axis(0, 0, &w, &run, &tail, m, &mut rep, f);
+    }
+
+    #[allow(clippy::too_many_arguments)]
+    fn visit_axis(
+        &self,
+        i: usize,
+        partial: u64,
+        w: &[u64],
+        run: &[u64],
+        tail: &[u64],
+        m: u64,
+        rep: &mut [u64; 3],
+        f: &mut impl FnMut(Family),
+    ) {
+        let d = w.len();
+        let lo = if i > 0 && w[i] == w[i - 1] {
+            rep[i - 1]
+        } else {
+            1
+        };
+        let budget = m - partial; // partial ≤ m by construction
+        if budget < tail[i] {
+            return;
+        }
+        let hi = isqrt_u64((budget - tail[i]) / (w[i] * run[i]));
+        if i + 1 == d {
+            for n in lo..=hi {
+                rep[i] = n;
+                let k = partial + w[i] * n * n;
+                let size = self.family_size(rep, d);
+                f(Family { k, rep: *rep, size });
+            }
+        } else {
+            for n in lo..=hi {
+                rep[i] = n;
+                self.visit_axis(i + 1, partial + w[i] * n * n, w, run, tail, m, rep, f);
+            }
+        }
+    }
+
+    /// Number of distinct permutations of `rep` within groups of equal axes.
+    fn family_size(&self, rep: &[u64; 3], d: usize) -> u64 {
+        let mut size = 1u64;
+        let mut i = 0;
+        while i < d {
+            let mut j = i + 1;
+            while j < d && self.sorted[j].0 == self.sorted[i].0 {
+                j += 1;
+            }
+            size *= match j - i {
+                1 => 1,
+                2 => {
+                    if rep[i] == rep[i + 1] {
+                        1
+                    } else {
+                        2
+                    }
+                }
+                _ => {
+                    let (a, b, c) = (rep[i], rep[i + 1], rep[i + 2]);
+                    if a == b && b == c {
+                        1
+                    } else if a == b || b == c {
+                        3
+                    } else {
+                        6
+                    }
+                }
+            };
+            i = j;
+        }
+        size
+    }
+
+    /// An estimate of the number of families with scaled energy ≤ `m`.
+    fn estimated_families(&self, cutoff: &BigRational) -> f64 {
+        let n = self.count_bound(cutoff).to_f64().unwrap_or(f64::INFINITY);
+        n / self.symmetry_order() as f64 + 1.0
+    }
+
+    /// The levels up to `cutoff` with the number of families at each, within
+    /// `budget`.
+    pub fn classified_levels(
+        &self,
+        cutoff: &BigRational,
+        budget: &Budget,
+    ) -> Result<Vec<ClassifiedLevel>> {
+        let m = self.scaled_cutoff(cutoff)?;
+        let families = self.estimated_families(cutoff);
+        let dense = (m as f64 + 1.0) * DENSE_BYTES;
+        let sparse = families * SPARSE_BYTES;
+        let levels = families.min(m as f64 + 1.0) * LEVEL_BYTES;
+        budget.check(
+            &format!("listing the levels up to {}", rational_string(cutoff)),
+            dense.min(sparse) + levels,
+            "use `count` for the number of states, or a lower cutoff",
+        )?;
+        let d = BigRational::from_integer(BigInt::from(self.scale));
+        let make = |k: u64, deg: u64, fam: u64| ClassifiedLevel {
+            level: Level::new(BigRational::from_integer(BigInt::from(k)) / &d, deg),
+            families: fam,
+        };
+        let mut out = Vec::new();
+        if dense <= sparse.max(64.0 * 1024.0 * 1024.0) {
+            let len = m as usize + 1;
+            let mut deg = vec![0u64; len];
+            let mut fam = vec![0u32; len];
+            self.visit_families(m, &mut |f| {
+                deg[f.k as usize] += f.size;
+                fam[f.k as usize] += 1;
+            });
+            for k in 0..len {
+                if deg[k] > 0 {
+                    out.push(make(k as u64, deg[k], fam[k] as u64));
+                }
+            }
+        } else {
+            let mut all: Vec<(u64, u64)> = Vec::new();
+            self.visit_families(m, &mut |f| all.push((f.k, f.size)));
+            all.sort_unstable();
+            for chunk in all.chunk_by(|a, b| a.0 == b.0) {
+                let deg: u64 = chunk.iter().map(|c| c.1).sum();
+                out.push(make(chunk[0].0, deg, chunk.len() as u64));
+            }
+        }
+        Ok(out)
+    }
+
+    /// The levels up to `cutoff`, each with its families and its states
+    /// listed (sorted), within `budget`.
+    pub fn levels_with_states(
+        &self,
+        cutoff: &BigRational,
+        budget: &Budget,
+    ) -> Result<Vec<(ClassifiedLevel, Vec<State>)>> {
+        let m = self.scaled_cutoff(cutoff)?;
+        let states = self.count_bound(cutoff).to_f64().unwrap_or(f64::INFINITY);
+        budget.check(
+            &format!("listing every state up to {}", rational_string(cutoff)),
+            states * STATE_BYTES + self.estimated_families(cutoff) * SPARSE_BYTES * 2.0,
+            "drop --states to list levels only, use `count`, or give a lower cutoff",
+        )?;
+        let mut all: Vec<Family> = Vec::new();
+        self.visit_families(m, &mut |f| all.push(f));
+        all.sort_unstable_by_key(|f| (f.k, f.rep));
+        let d = BigRational::from_integer(BigInt::from(self.scale));
+        let mut out = Vec::new();
+        for chunk in all.chunk_by(|a, b| a.k == b.k) {
+            let deg: u64 = chunk.iter().map(|c| c.size).sum();
+            let mut states: Vec<State> = chunk.iter().flat_map(|f| self.expand(f)).collect();
+            states.sort();
+            let level = ClassifiedLevel {
+                level: Level::new(
+                    BigRational::from_integer(BigInt::from(chunk[0].k)) / &d,
+                    deg,
+                ),
+                families: chunk.len() as u64,
+            };
+            out.push((level, states));
+        }
+        Ok(out)
+    }
+
+    /// All states of a family, in the original axis order.
+    fn expand(&self, f: &Family) -> Vec<State> {
+        let d = self.dims();
+        let vals = &f.rep[..d];
+        let mut out = Vec::new();
+        // Permute within groups: enumerate all permutations of the whole
+        // tuple that keep each value's weight, then de-duplicate. d ≤ 3, so
+        // at most 6 permutations.
+        let perms: &[[usize; 3]] = &[
+            [0, 1, 2],
+            [0, 2, 1],
+            [1, 0, 2],
+            [1, 2, 0],
+            [2, 0, 1],
+            [2, 1, 0],
+        ];
+        for p in perms {
+            if p[..d].iter().any(|&x| x >= d) {
+                continue;
+            }
+            // The permutation must map each axis to one of equal weight.
+            if (0..d).any(|i| self.sorted[i].0 != self.sorted[p[i]].0) {
+                continue;
+            }
+            let mut s = vec![0i64; d];
+            for i in 0..d {
+                s[self.sorted[i].1] = vals[p[i]] as i64;
+            }
+            out.push(State(s));
+        }
+        out.sort();
+        out.dedup();
+        debug_assert_eq!(out.len() as u64, f.size);
+        out
+    }
+
+    /// The exact number of states with energy at most `cutoff`, counted
+    /// without listing them (see [`crate::counting::lattice`]).
+    ///
+    /// ```
+    /// use zsum::models::ParticleInBox;
+    /// use num_rational::BigRational;
+    /// let cube = ParticleInBox::cube(3).unwrap();
+    /// // 1 + 3 + 3 + 3 + 1 states up to E = 12
+    /// let n = cube.count_up_to(&BigRational::from_integer(12.into())).unwrap();
+    /// assert_eq!(n, 11u32.into());
+    /// ```
+    pub fn count_up_to(&self, cutoff: &BigRational) -> Result<BigUint> {
+        if cutoff < &self.ground_energy() {
+            return Ok(BigUint::zero());
+        }
+        let m = self.scaled_cutoff(cutoff)?;
+        let w = self.weights();
+        let steps = lattice::estimated_steps(&w, m);
+        if steps > MAX_COUNT_STEPS {
+            return Err(Error::budget(format!(
+                "counting the states up to {} would take about {:.0e} steps (hours of work); \
+                 the exact counter goes to about 1e12 for a cube in 3D; use Weyl's law \
+                 for an estimate ({:.6e}) or a lower cutoff",
+                rational_string(cutoff),
+                steps,
+                self.weyl_estimate(cutoff.to_f64().unwrap_or(f64::INFINITY))
+            )));
+        }
+        let n = match w.as_slice() {
+            [w1] => lattice::count_1d(*w1, m),
+            [w1, w2] => lattice::count_2d(*w1, *w2, m),
+            [a, b, c] if a == b && b == c => lattice::count_cube(m / a),
+            [w1, w2, w3] => lattice::count_3d([*w1, *w2, *w3], m),
+            _ => 0,
+        };
+        Ok(BigUint::from(n))
+    }
+}
+
+impl Spectrum for ParticleInBox {
+    fn describe(&self) -> String {
+        let ratio = self
+            .sides
+            .iter()
+            .map(rational_string)
+            .collect::<Vec<_>>()
+            .join(":");
+        let shape = match (self.dims(), self.is_cubic()) {
+            (1, _) => "1D box".to_string(),
+            (2, true) => "square box".to_string(),
+            (3, true) => "cubic box".to_string(),
+            (d, false) => format!("{d}D rectangular box, sides {ratio}"),
+            (d, true) => format!("{d}D box"),
+        };
+        format!("particle in a {shape}")
+    }
+
+    fn unit(&self) -> EnergyUnit {
+        EnergyUnit::Natural {
+            symbol: "h^2/(8 m L^2)".to_string(),
+            joules: None,
+        }
+    }
+
+    fn quantum_numbers(&self) -> Vec<String> {
+        (1..=self.dims()).map(|i| format!("n{i}")).collect()
+    }
+
+    fn ground_energy(&self) -> BigRational {
+        self.sides
+            .iter()
+            .map(|s| (s * s).recip())
+            .fold(BigRational::zero(), |a, b| a + b)
+    }
+
+    fn levels_within(&self, cutoff: &BigRational, budget: &Budget) -> Result<LevelList> {
+        let levels = self.classified_levels(cutoff, budget)?;
+        Ok(LevelList::from_sorted(
+            self.unit(),
+            levels.into_iter().map(|c| c.level).collect(),
+        ))
+    }
+
+    fn states_at(&self, energy: &BigRational) -> Result<Vec<State>> {
+        let scaled = energy * BigRational::from_integer(BigInt::from(self.scale));
+        if !scaled.is_integer() || energy < &self.ground_energy() {
+            return Ok(Vec::new());
+        }
+        let m = self.scaled_cutoff(energy)?;
+        // Families with energy exactly m: visit the families up to m whose
+        // last coordinate is forced; cost is that of the (d-1)-dim problem.
+        let w = self.weights();
+        let steps = match w.as_slice() {
+            [_] => 1.0,
+            [w1, _] => (m as f64 / *w1 as f64).sqrt(),
+            [w1, w2, _] => m as f64 / (*w1 as f64 * *w2 as f64).sqrt(),
+            _ => f64::INFINITY,
+        };
+        if steps > MAX_COUNT_STEPS {
+            return Err(Error::budget(format!(
+                "finding the states at {} would take about {steps:.0e} steps; choose a lower level",
+                rational_string(energy)
+            )));
+        }
+        let mut states = Vec::new();
+        let d = w.len();
+        self.visit_exact(m, &w, &mut |f| states.extend(self.expand(&f)), d);
+        states.sort();
+        Ok(states)
+    }
+
+    fn count_bound(&self, energy: &BigRational) -> BigUint {
+        if energy < &self.ground_energy() {
+            return BigUint::zero();
+        }
+        // Each state n ≥ 1 owns the unit cell [n-1, n]^d, which lies inside
+        // the region x ≥ 0, Σ (x_i/a_i)² ≤ E; the cells are disjoint, so the
+        // count is at most that region's volume.
+        let prod: BigRational = self.sides.iter().fold(BigRational::one(), |a, s| a * s);
+        let root = sqrt_upper(energy, 32);
+        let int = |n: i64| BigRational::from_integer(BigInt::from(n));
+        let volume = match self.dims() {
+            1 => prod * root,
+            2 => pi_upper() / int(4) * prod * energy,
+            _ => pi_upper() / int(6) * prod * energy * root,
+        };
+        floor_nonneg(&volume)
+    }
+}
+
+impl ParticleInBox {
+    /// Visits the families with scaled energy exactly `m`.
+    fn visit_exact(&self, m: u64, w: &[u64], f: &mut impl FnMut(Family), d: usize) {
+        // Enumerate the first d-1 coordinates as a (d-1)-dim family walk,
+        // then solve for the last.
+        let last = d - 1;
+        let mut rep = [0u64; 3];
+        let mut rec = |rep: &mut [u64; 3], partial: u64| {
+            if partial > m {
+                return;
+            }
+            let rem = m - partial;
+            if rem % w[last] != 0 {
+                return;
+            }
+            let sq = rem / w[last];
+            let n = isqrt_u64(sq);
+            let lo = if last > 0 && w[last] == w[last - 1] {
+                rep[last - 1]
+            } else {
+                1
+            };
+            if n * n == sq && n >= lo {
+                rep[last] = n;
+                let size = self.family_size(rep, d);
+                f(Family {
+                    k: m,
+                    rep: *rep,
+                    size,
+                });
+            }
+        };
+        match d {
+            1 => rec(&mut rep, 0),
+            2 => {
+                let mut a = 1;
+                while w[0] * a * a < m {
+                    rep[0] = a;
+                    rec(&mut rep, w[0] * a * a);
+                    a += 1;
+                }
+            }
+            _ => {
+                let mut a = 1;
+                while w[0] * a * a < m {
+                    rep[0] = a;
+                    let lo_b = if w[1] == w[0] { a } else { 1 };
+                    let mut b = lo_b;
+                    while w[0] * a * a + w[1] * b * b < m {
+                        rep[1] = b;
+                        rec(&mut rep, w[0] * a * a + w[1] * b * b);
+                        b += 1;
+                    }
+                    a += 1;
+                }
+            }
+        }
+    }
+}

@@ -1,0 +1,112 @@
+//! The [`Spectrum`] trait: anything whose levels can be enumerated exactly.
+//!
+//! A spectrum describes; it never sums. It knows its natural energy unit,
+//! the names of its quantum numbers, how to list its levels up to a cutoff,
+//! which states make up a level, and a rigorous upper bound on the number of
+//! states up to any energy (the summation engine bounds truncated tails with
+//! it). Temperature and floating point never appear here.
+
+use crate::error::{Error, Result};
+use crate::level::LevelList;
+use crate::units::EnergyUnit;
+use num_bigint::BigUint;
+use num_rational::BigRational;
+use serde::{Deserialize, Serialize};
+
+/// One quantum state: the values of the spectrum's quantum numbers, in the
+/// order of [`Spectrum::quantum_numbers`].
+#[derive(Debug, Clone, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize, Deserialize)]
+#[serde(transparent)]
+pub struct State(pub Vec<i64>);
+
+/// A limit on the memory that one enumeration may use.
+///
+/// Work is estimated before it starts (for a box, from Weyl's law); work
+/// whose estimate exceeds the budget is refused with advice instead of
+/// exhausting the machine.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct Budget {
+    bytes: u64,
+}
+
+impl Budget {
+    /// The default budget, 2 GiB.
+    pub const DEFAULT_BYTES: u64 = 2 << 30;
+
+    /// A budget of `bytes` bytes.
+    pub fn bytes(bytes: u64) -> Self {
+        Budget { bytes }
+    }
+
+    /// The budget in bytes.
+    pub fn limit(&self) -> u64 {
+        self.bytes
+    }
+
+    /// Refuses work estimated at `estimate` bytes if it exceeds the budget;
+    /// `what` names the work and `advice` says how to proceed.
+    pub fn check(&self, what: &str, estimate: f64, advice: &str) -> Result<()> {
+        if estimate > self.bytes as f64 {
+            Err(Error::budget(format!(
+                "{what} would need about {} of memory, more than the budget of {}; {advice}",
+                human_bytes(estimate),
+                human_bytes(self.bytes as f64)
+            )))
+        } else {
+            Ok(())
+        }
+    }
+}
+
+impl Default for Budget {
+    fn default() -> Self {
+        Budget::bytes(Self::DEFAULT_BYTES)
+    }
+}
+
+/// Writes a byte count as e.g. `"1.5 GiB"`.
+pub fn human_bytes(b: f64) -> String {
+    const UNITS: [&str; 6] = ["B", "KiB", "MiB", "GiB", "TiB", "PiB"];
+    let mut v = b;
+    let mut i = 0;
+    while v >= 1024.0 && i + 1 < UNITS.len() {
+        v /= 1024.0;
+        i += 1;
+    }
+    if i == UNITS.len() - 1 && v >= 1024.0 {
+        return format!("{b:.1e} B");
+    }
+    format!("{v:.1} {}", UNITS[i])
+}
+
+/// A quantum system whose levels can be enumerated exactly.
+pub trait Spectrum {
+    /// A short human description, e.g. `particle in a 3D box, sides 1:1:2`.
+    fn describe(&self) -> String;
+
+    /// The unit of every energy this spectrum produces.
+    fn unit(&self) -> EnergyUnit;
+
+    /// Names of the quantum numbers that label a state, in order.
+    fn quantum_numbers(&self) -> Vec<String>;
+
+    /// The lowest energy.
+    fn ground_energy(&self) -> BigRational;
+
+    /// All levels with energy at most `cutoff`, refusing work beyond
+    /// `budget`.
+    fn levels_within(&self, cutoff: &BigRational, budget: &Budget) -> Result<LevelList>;
+
+    /// All levels with energy at most `cutoff`, within the default budget.
+    fn levels_up_to(&self, cutoff: &BigRational) -> Result<LevelList> {
+        self.levels_within(cutoff, &Budget::default())
+    }
+
+    /// The states that make up the level at `energy`, sorted; empty if no
+    /// level lies there.
+    fn states_at(&self, energy: &BigRational) -> Result<Vec<State>>;
+
+    /// A rigorous upper bound on the number of states with energy at most
+    /// `energy` (never below the true count).
+    fn count_bound(&self, energy: &BigRational) -> BigUint;
+}
