@@ -125,6 +125,30 @@ pub struct ParticleInBox {
     sorted: Vec<(u64, usize)>,
 }
 
+/// A run of families that differ only in the last (sorted) quantum number,
+/// which runs over `lo..=hi`.
+#[derive(Debug, Clone, Copy)]
+struct Row {
+    axis: usize,
+    partial: u64,
+    w: u64,
+    lo: u64,
+    hi: u64,
+    rep: [u64; 3],
+    size_first: u64,
+    size_rest: u64,
+}
+
+impl Row {
+    fn size(&self, n: u64) -> u64 {
+        if n == self.lo {
+            self.size_first
+        } else {
+            self.size_rest
+        }
+    }
+}
+
 /// One family of states: a representative in sorted-axis order, its scaled
 /// energy and its size.
 #[derive(Debug, Clone, Copy)]
@@ -285,8 +309,9 @@ impl ParticleInBox {
         order
     }
 
-    /// Visits one representative per family with scaled energy ≤ `m`.
-    fn visit_families(&self, m: u64, f: &mut impl FnMut(Family)) {
+    /// Visits every row of families with scaled energy ≤ `m`: a row fixes
+    /// all quantum numbers but the last and gives the last one's range.
+    fn visit_rows(&self, m: u64, f: &mut impl FnMut(&Row)) {
         let w = self.weights();
         let d = w.len();
         // For axis i: how many axes from i to the end of its group, and the
@@ -306,6 +331,21 @@ impl ParticleInBox {
         self.visit_axis(0, 0, &w, &run, &tail, m, &mut rep, f);
     }
 
+    /// Visits one representative per family with scaled energy ≤ `m`.
+    fn visit_families(&self, m: u64, f: &mut impl FnMut(Family)) {
+        self.visit_rows(m, &mut |row: &Row| {
+            let mut rep = row.rep;
+            for n in row.lo..=row.hi {
+                rep[row.axis] = n;
+                f(Family {
+                    k: row.partial + row.w * n * n,
+                    rep,
+                    size: row.size(n),
+                });
+            }
+        });
+    }
+
     #[allow(clippy::too_many_arguments)]
     fn visit_axis(
         &self,
@@ -316,7 +356,7 @@ impl ParticleInBox {
         tail: &[u64],
         m: u64,
         rep: &mut [u64; 3],
-        f: &mut impl FnMut(Family),
+        f: &mut impl FnMut(&Row),
     ) {
         let d = w.len();
         let lo = if i > 0 && w[i] == w[i - 1] {
@@ -329,19 +369,39 @@ impl ParticleInBox {
             return;
         }
         let hi = isqrt_u64((budget - tail[i]) / (w[i] * run[i]));
+        if hi < lo {
+            return;
+        }
         if i + 1 == d {
-            for n in lo..=hi {
-                rep[i] = n;
-                let k = partial + w[i] * n * n;
-                let size = self.family_size(rep, d);
-                f(Family { k, rep: *rep, size });
-            }
+            // The family size is the same for every n in the row except
+            // possibly the first (n equal to the previous axis of its group).
+            rep[i] = lo;
+            let size_first = self.family_size(rep, d);
+            rep[i] = lo + 1;
+            let size_rest = self.family_size(rep, d);
+            f(&Row {
+                axis: i,
+                partial,
+                w: w[i],
+                lo,
+                hi,
+                rep: *rep,
+                size_first,
+                size_rest,
+            });
         } else {
             for n in lo..=hi {
                 rep[i] = n;
                 self.visit_axis(i + 1, partial + w[i] * n * n, w, run, tail, m, rep, f);
             }
         }
+    }
+
+    /// The exact energy `k / D` of a scaled energy `k`, reduced with machine
+    /// arithmetic.
+    fn energy_of(&self, k: u64) -> BigRational {
+        let g = k.gcd(&self.scale).max(1);
+        BigRational::new_raw(BigInt::from(k / g), BigInt::from(self.scale / g))
     }
 
     /// Number of distinct permutations of `rep` within groups of equal axes.
@@ -401,23 +461,29 @@ impl ParticleInBox {
             dense.min(sparse) + levels,
             "use `count` for the number of states, or a lower cutoff",
         )?;
-        let d = BigRational::from_integer(BigInt::from(self.scale));
         let make = |k: u64, deg: u64, fam: u64| ClassifiedLevel {
-            level: Level::new(BigRational::from_integer(BigInt::from(k)) / &d, deg),
+            level: Level::new(self.energy_of(k), deg),
             families: fam,
         };
         let mut out = Vec::new();
         if dense <= sparse.max(64.0 * 1024.0 * 1024.0) {
             let len = m as usize + 1;
-            let mut deg = vec![0u64; len];
-            let mut fam = vec![0u32; len];
-            self.visit_families(m, &mut |f| {
-                deg[f.k as usize] += f.size;
-                fam[f.k as usize] += 1;
+            // One word per energy: degeneracy in the low 40 bits, number of
+            // families above them (one memory touch per family).
+            const FAM: u64 = 1 << 40;
+            let mut slot = vec![0u64; len];
+            self.visit_rows(m, &mut |row: &Row| {
+                let mut k = row.partial + row.w * row.lo * row.lo;
+                slot[k as usize] += row.size_first + FAM;
+                let add = row.size_rest + FAM;
+                for n in row.lo + 1..=row.hi {
+                    k = row.partial + row.w * n * n;
+                    slot[k as usize] += add;
+                }
             });
-            for k in 0..len {
-                if deg[k] > 0 {
-                    out.push(make(k as u64, deg[k], fam[k] as u64));
+            for (k, &v) in slot.iter().enumerate() {
+                if v != 0 {
+                    out.push(make(k as u64, v & (FAM - 1), v >> 40));
                 }
             }
         } else {
@@ -449,17 +515,13 @@ impl ParticleInBox {
         let mut all: Vec<Family> = Vec::new();
         self.visit_families(m, &mut |f| all.push(f));
         all.sort_unstable_by_key(|f| (f.k, f.rep));
-        let d = BigRational::from_integer(BigInt::from(self.scale));
         let mut out = Vec::new();
         for chunk in all.chunk_by(|a, b| a.k == b.k) {
             let deg: u64 = chunk.iter().map(|c| c.size).sum();
             let mut states: Vec<State> = chunk.iter().flat_map(|f| self.expand(f)).collect();
             states.sort();
             let level = ClassifiedLevel {
-                level: Level::new(
-                    BigRational::from_integer(BigInt::from(chunk[0].k)) / &d,
-                    deg,
-                ),
+                level: Level::new(self.energy_of(chunk[0].k), deg),
                 families: chunk.len() as u64,
             };
             out.push((level, states));

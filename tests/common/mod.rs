@@ -1,0 +1,67 @@
+//! Checks every model must pass, whatever it is (a shared helper: each
+//! model's test file calls `check_spectrum`).
+
+#![allow(dead_code)]
+
+use num_bigint::BigUint;
+use num_rational::BigRational;
+use num_traits::Zero;
+use std::collections::HashSet;
+use zsum::spectrum::Spectrum;
+
+/// Generic consistency of a spectrum up to `cutoff`:
+/// - levels strictly increasing, starting at the ground energy, all ≤ cutoff;
+/// - every degeneracy positive;
+/// - total states = sum of degeneracies = cumulative count at the top;
+/// - the counting bound is never below the true count at any level;
+/// - for up to `sample` levels, the listed states are distinct, as many as
+///   the degeneracy, and absent elsewhere.
+pub fn check_spectrum(s: &dyn Spectrum, cutoff: &BigRational, sample: usize) {
+    let list = s.levels_up_to(cutoff).expect("levels");
+    assert!(
+        !list.is_empty(),
+        "{}: no levels up to {cutoff}",
+        s.describe()
+    );
+    assert_eq!(list.levels()[0].energy, s.ground_energy(), "ground energy");
+    let mut running = BigUint::zero();
+    for w in list.levels().windows(2) {
+        assert!(w[0].energy < w[1].energy, "levels out of order");
+    }
+    let step = (list.len() / sample.max(1)).max(1);
+    for (i, l) in list.iter().enumerate() {
+        assert!(&l.energy <= cutoff);
+        assert!(!l.degeneracy.is_zero());
+        running += &l.degeneracy;
+        assert!(
+            s.count_bound(&l.energy) >= running,
+            "{}: bound {} below true count {} at E = {}",
+            s.describe(),
+            s.count_bound(&l.energy),
+            running,
+            l.energy
+        );
+        if i % step == 0 {
+            let states = s.states_at(&l.energy).expect("states");
+            let distinct: HashSet<_> = states.iter().collect();
+            assert_eq!(distinct.len(), states.len(), "duplicate states");
+            assert_eq!(
+                BigUint::from(states.len()),
+                l.degeneracy,
+                "states at {}",
+                l.energy
+            );
+            for st in &states {
+                assert_eq!(st.0.len(), s.quantum_numbers().len());
+            }
+        }
+    }
+    assert_eq!(running, list.total_states());
+    assert_eq!(list.count_up_to(cutoff), running);
+    // Between levels there are no states.
+    let mid = (&list.levels()[0].energy + &list.levels()[list.len().min(2) - 1].energy)
+        / BigRational::from_integer(2.into());
+    if list.len() >= 2 && mid != list.levels()[1].energy && mid != list.levels()[0].energy {
+        assert!(s.states_at(&mid).expect("states").is_empty());
+    }
+}
