@@ -120,7 +120,8 @@ pub fn rational_string(r: &BigRational) -> String {
 }
 
 /// Rounds `x` to `digits` significant digits, half to even, and writes it in
-/// plain notation for moderate magnitudes or scientific notation otherwise.
+/// plain notation where every written digit is significant, scientific
+/// notation otherwise.
 /// Every digit printed is a correct digit of the exact value.
 ///
 /// ```
@@ -139,7 +140,9 @@ pub fn format_sig(x: &BigRational, digits: u32) -> String {
     let a = x.abs();
     let (m, e) = round_sig(&a, digits);
     let mut s = m.to_string();
-    let out = if (-5..15).contains(&e) {
+    // Plain notation unless that would need non-significant trailing zeros
+    // or more than four leading zeros (as C's %g).
+    let out = if (-5..digits as i64).contains(&e) {
         if e >= 0 {
             let int_len = (e + 1) as usize;
             if s.len() <= int_len {

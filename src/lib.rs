@@ -47,3 +47,8 @@ pub mod spectrum;
 pub mod units;
 
 pub use error::{Error, ErrorKind, Result};
+
+/// The README's Rust examples, compiled and run as doc tests.
+#[doc = include_str!("../README.md")]
+#[cfg(doctest)]
+pub struct ReadmeDoctests;

@@ -301,7 +301,7 @@ impl CountReport {
             unit: model.unit().symbol().to_string(),
             up_to: rational_string(cutoff),
             states: n.to_string(),
-            weyl_estimate: format!("{weyl:.6e}"),
+            weyl_estimate: format!("{weyl:.9e}"),
             weyl_relative_gap: gap,
         })
     }

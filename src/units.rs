@@ -159,9 +159,9 @@ impl EnergyUnit {
     /// ```
     /// use zsum::units::EnergyUnit;
     /// use zsum::exact::format_sig;
-    /// // 1 cm^-1 = c2 * 100 K = 1.438776877... K
+    /// // 1 cm^-1 = c2 * 100 K = 1.43877687750... K
     /// let f = EnergyUnit::Wavenumber.factor_to(&EnergyUnit::Kelvin).unwrap();
-    /// assert_eq!(format_sig(&f, 10), "1.438776877");
+    /// assert_eq!(format_sig(&f, 12), "1.43877687750");
     /// ```
     pub fn factor_to(&self, other: &EnergyUnit) -> Result<BigRational> {
         if self == other {

@@ -116,5 +116,6 @@ fn formatting_rounds_correctly() {
     assert_eq!(format_sig(&r("9.995"), 3), "10.0");
     assert_eq!(format_sig(&r("-2/3"), 3), "-0.667");
     assert_eq!(format_sig(&r("1.5e-30"), 2), "1.5e-30");
-    assert_eq!(format_sig(&r("123456"), 3), "123000");
+    assert_eq!(format_sig(&r("123456"), 3), "1.23e5");
+    assert_eq!(format_sig(&r("123456"), 6), "123456");
 }
