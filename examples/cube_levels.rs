@@ -11,10 +11,7 @@ fn main() -> Result<(), zsum::Error> {
     let cube = ParticleInBox::cube(3)?;
     let cutoff = parse_rational("41")?;
     for (level, states) in cube.levels_with_states(&cutoff, &Budget::default())? {
-        let list: Vec<String> = states
-            .iter()
-            .map(|s| format!("{:?}", s.0))
-            .collect();
+        let list: Vec<String> = states.iter().map(|s| format!("{:?}", s.0)).collect();
         println!(
             "E = {:>3}  g = {:>2}  {:<11}  {}",
             level.level.energy.to_string(),

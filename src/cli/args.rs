@@ -122,13 +122,14 @@ pub struct BoxLevels {
     pub side: Option<String>,
 
     /// Unit of the physical energies: K, cm-1, meV, eV, J or kJ/mol.
-    /// Needs --mass and --side.
-    #[arg(long, value_name = "UNIT", default_value = "K", requires = "mass")]
-    pub unit: String,
+    /// Needs --mass and --side. [default: K]
+    #[arg(long, value_name = "UNIT", requires = "mass")]
+    pub unit: Option<String>,
 
     /// Significant digits of the physical energies (correctly rounded).
-    #[arg(long, value_name = "N", default_value_t = 10)]
-    pub digits: u32,
+    /// Needs --mass and --side. [default: 10]
+    #[arg(long, value_name = "N", requires = "mass")]
+    pub digits: Option<u32>,
 
     /// Refuse listings estimated to need more memory than this, e.g. 512MiB,
     /// 4GiB.

@@ -10,7 +10,20 @@ use std::io::Write;
 
 /// Runs the command line and returns the process exit status.
 pub fn main() -> i32 {
-    let cli = args::Cli::parse();
+    let cli = match args::Cli::try_parse() {
+        Ok(cli) => cli,
+        Err(e) if !e.use_stderr() => {
+            // --help and --version: print and succeed.
+            let _ = e.print();
+            return 0;
+        }
+        Err(e) => {
+            // Usage errors: clap's message (which starts "error: ") after our
+            // prefix, status 2 like every other bad input.
+            eprint!("zsum: {}", e.render());
+            return 2;
+        }
+    };
     match run::run(cli) {
         Ok(output) => {
             if let Some(text) = output {

@@ -66,14 +66,23 @@ pub fn count_1d(w: u64, m: u64) -> u128 {
 
 /// Number of positive `(n1, n2)` with `w1 n1² + w2 n2² ≤ m`.
 pub fn count_2d(w1: u64, w2: u64, m: u64) -> u128 {
+    // Walk the axis with the larger weight: it has fewer values.
+    let (w1, w2) = (w1.max(w2), w1.min(w2));
     let mut total = 0u128;
     let mut n1 = 1u64;
-    // n2's bound falls as n1 grows: step it down.
+    // n2's bound falls as n1 grows. Over the whole walk it falls about
+    // sqrt(w1/w2) times as often as n1 steps: step it down when that is
+    // cheap, take a square root per row when the fall is steep.
+    let walk = w1 <= 16 * w2;
     let mut hi = isqrt_u64(m.saturating_sub(w1) / w2);
     while w1 * n1 * n1 + w2 <= m {
         let rem = m - w1 * n1 * n1;
-        while w2 * hi * hi > rem {
-            hi -= 1;
+        if walk {
+            while w2 * hi * hi > rem {
+                hi -= 1;
+            }
+        } else {
+            hi = isqrt_u64(rem / w2);
         }
         total += hi as u128;
         n1 += 1;
@@ -83,7 +92,9 @@ pub fn count_2d(w1: u64, w2: u64, m: u64) -> u128 {
 
 /// Number of positive `(n1, n2, n3)` with `w1 n1² + w2 n2² + w3 n3² ≤ m`.
 /// Any positive weights; see [`count_cube`] for the faster equal-weight case.
-pub fn count_3d(w: [u64; 3], m: u64) -> u128 {
+pub fn count_3d(mut w: [u64; 3], m: u64) -> u128 {
+    // Outer loops over the heaviest axes: they have the fewest values.
+    w.sort_unstable_by(|a, b| b.cmp(a));
     let [w1, w2, w3] = w;
     if w1 + w2 + w3 > m {
         return 0;
@@ -152,11 +163,13 @@ pub fn count_cube(m: u64) -> u128 {
 /// cutoff `m`, used to refuse counts that would run for hours.
 pub fn estimated_steps(w: &[u64], m: u64) -> f64 {
     let mf = m as f64;
-    match w {
+    let mut w: Vec<f64> = w.iter().map(|&x| x as f64).collect();
+    w.sort_by(|a, b| b.total_cmp(a));
+    match w.as_slice() {
         [_] => 1.0,
-        [w1, _] => (mf / *w1 as f64).sqrt(),
-        [a, b, c] if a == b && b == c => 0.22 * mf / *a as f64,
-        [w1, w2, _] => std::f64::consts::FRAC_PI_4 * mf / (*w1 as f64 * *w2 as f64).sqrt(),
+        [w1, _] => (mf / w1).sqrt(),
+        [a, b, c] if a == b && b == c => 0.22 * mf / a,
+        [w1, w2, _] => std::f64::consts::FRAC_PI_4 * mf / (w1 * w2).sqrt(),
         _ => f64::INFINITY,
     }
 }

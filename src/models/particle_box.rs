@@ -51,8 +51,9 @@ const DENSE_BYTES: f64 = 12.0;
 const LEVEL_BYTES: f64 = 128.0;
 /// Bytes per listed state (quantum numbers and bookkeeping).
 const STATE_BYTES: f64 = 64.0;
-/// Count steps beyond which `count` refuses (a few minutes on one core).
-const MAX_COUNT_STEPS: f64 = 4e11;
+/// Count steps beyond which `count` refuses: about a minute on two cores
+/// (a cube up to E ≈ 2.7e11).
+const MAX_COUNT_STEPS: f64 = 6e10;
 
 /// Why a level is degenerate.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
@@ -262,8 +263,8 @@ impl ParticleInBox {
                 Error::invalid(
                     "cutoff",
                     rational_string(cutoff),
-                    "it is beyond the range of exact box enumeration (scaled energies must stay \
-                 below 2^62)",
+                    "it is beyond what zsum handles exactly for a box (scaled energies must be \
+                 at most 2^62, about 4.6e18); for larger energies use Weyl's law",
                 )
             })
     }
@@ -280,8 +281,11 @@ impl ParticleInBox {
             .iter()
             .map(|s| s.to_f64().unwrap_or(1.0))
             .collect();
-        let r = e.max(0.0).sqrt();
-        match a.as_slice() {
+        if e < self.ground_energy().to_f64().unwrap_or(0.0) {
+            return 0.0;
+        }
+        let r = e.sqrt();
+        let n = match a.as_slice() {
             [a] => a * r - 0.5,
             [a, b] => PI / 4.0 * a * b * e - (a + b) * r / 2.0 + 0.25,
             [a, b, c] => {
@@ -290,7 +294,8 @@ impl ParticleInBox {
                     - 0.125
             }
             _ => 0.0,
-        }
+        };
+        n.max(0.0)
     }
 
     /// Number of interchangeable-axis permutations (the order of the box's
@@ -585,9 +590,10 @@ impl ParticleInBox {
         let steps = lattice::estimated_steps(&w, m);
         if steps > MAX_COUNT_STEPS {
             return Err(Error::budget(format!(
-                "counting the states up to {} would take about {:.0e} steps (hours of work); \
-                 the exact counter goes to about 1e12 for a cube in 3D; use Weyl's law \
-                 for an estimate ({:.6e}) or a lower cutoff",
+                "counting the states up to {} would take about {:.0e} steps, more than the \
+                 limit of {MAX_COUNT_STEPS:.0e} (about a minute on two cores; for the cube \
+                 that is E up to about 2.7e11); use Weyl's law for an estimate ({:.9e}) \
+                 or a lower cutoff",
                 rational_string(cutoff),
                 steps,
                 self.weyl_estimate(cutoff.to_f64().unwrap_or(f64::INFINITY))
