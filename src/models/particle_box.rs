@@ -52,8 +52,8 @@ const LEVEL_BYTES: f64 = 128.0;
 /// Bytes per listed state (quantum numbers and bookkeeping).
 const STATE_BYTES: f64 = 64.0;
 /// Count steps beyond which `count` refuses: about a minute on two cores
-/// (a cube up to E ≈ 2.7e11).
-const MAX_COUNT_STEPS: f64 = 6e10;
+/// (a cube up to E ≈ 1.8e11).
+const MAX_COUNT_STEPS: f64 = 4e10;
 
 /// Why a level is degenerate.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
@@ -592,7 +592,7 @@ impl ParticleInBox {
             return Err(Error::budget(format!(
                 "counting the states up to {} would take about {:.0e} steps, more than the \
                  limit of {MAX_COUNT_STEPS:.0e} (about a minute on two cores; for the cube \
-                 that is E up to about 2.7e11); use Weyl's law for an estimate ({:.9e}) \
+                 that is E up to about 1.8e11); use Weyl's law for an estimate ({:.9e}) \
                  or a lower cutoff",
                 rational_string(cutoff),
                 steps,
