@@ -7,7 +7,7 @@
 //! printed digit is a digit of the exact value.
 
 use crate::error::{Error, Result};
-use num_bigint::{BigInt, BigUint, Sign};
+use num_bigint::{BigInt, BigUint};
 use num_integer::Integer;
 use num_rational::BigRational;
 use num_traits::{One, Signed, ToPrimitive, Zero};
@@ -296,9 +296,4 @@ pub fn pi_upper() -> BigRational {
 /// not fit.
 pub fn floor_to_u128(x: &BigRational) -> Option<u128> {
     floor_nonneg(x).to_u128()
-}
-
-/// A signed big integer from an unsigned one.
-pub fn to_bigint(u: &BigUint) -> BigInt {
-    BigInt::from_biguint(Sign::Plus, u.clone())
 }

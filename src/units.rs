@@ -8,10 +8,10 @@
 //! The atomic mass constant is measured; zsum takes it from CODATA 2018.
 
 use crate::error::{Error, ErrorKind, Result};
-use crate::exact::{parse_rational, rational_string};
+use crate::exact::parse_rational;
 use num_bigint::BigInt;
 use num_rational::BigRational;
-use num_traits::{One, Signed, Zero};
+use num_traits::{One, Signed};
 use serde::{Deserialize, Serialize};
 use std::fmt;
 use std::sync::OnceLock;
@@ -311,13 +311,4 @@ pub fn parse_length_m(text: &str) -> Result<BigRational> {
 pub fn box_unit_joules(mass_kg: &BigRational, side_m: &BigRational) -> BigRational {
     let h = constants::planck();
     &h * &h / (BigRational::from_integer(BigInt::from(8)) * mass_kg * side_m * side_m)
-}
-
-/// A human description of an exact quantity for JSON: value and unit.
-pub fn describe(value: &BigRational, unit: &str) -> String {
-    if value.is_zero() {
-        format!("0 {unit}")
-    } else {
-        format!("{} {unit}", rational_string(value))
-    }
 }
