@@ -297,3 +297,56 @@ pub fn pi_upper() -> BigRational {
 pub fn floor_to_u128(x: &BigRational) -> Option<u128> {
     floor_nonneg(x).to_u128()
 }
+
+/// Writes a rational as an exact decimal when it has one of at most
+/// `max_digits` significant digits (denominator a product of 2s and 5s),
+/// otherwise as a reduced fraction `p/q`. For people: `"3.99648"`, not
+/// `"12489/3125"`.
+///
+/// ```
+/// use zsum::exact::{exact_decimal, parse_rational};
+/// assert_eq!(exact_decimal(&parse_rational("12489/3125").unwrap(), 30), "3.99648");
+/// assert_eq!(exact_decimal(&parse_rational("1/3").unwrap(), 30), "1/3");
+/// assert_eq!(exact_decimal(&parse_rational("-5e-6").unwrap(), 30), "-0.000005");
+/// ```
+pub fn exact_decimal(x: &BigRational, max_digits: u32) -> String {
+    let mut d = x.denom().clone();
+    let (two, five) = (BigInt::from(2), BigInt::from(5));
+    let mut places = 0u32;
+    let (mut twos, mut fives) = (0u32, 0u32);
+    while (&d % &two).is_zero() {
+        d /= &two;
+        twos += 1;
+    }
+    while (&d % &five).is_zero() {
+        d /= &five;
+        fives += 1;
+    }
+    if !d.is_one() {
+        return rational_string(x);
+    }
+    places = places.max(twos).max(fives);
+    let scaled = (x * BigRational::from_integer(pow10(places))).to_integer();
+    let neg = scaled.is_negative();
+    let digits = scaled.abs().to_string();
+    if digits.trim_start_matches('0').len() as u32 > max_digits {
+        return rational_string(x);
+    }
+    let p = places as usize;
+    let body = if p == 0 {
+        digits
+    } else if digits.len() > p {
+        format!(
+            "{}.{}",
+            &digits[..digits.len() - p],
+            &digits[digits.len() - p..]
+        )
+    } else {
+        format!("0.{}{}", "0".repeat(p - digits.len()), digits)
+    };
+    if neg {
+        format!("-{body}")
+    } else {
+        body
+    }
+}

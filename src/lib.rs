@@ -44,6 +44,7 @@ pub mod models;
 pub mod report;
 pub mod serde_exact;
 pub mod spectrum;
+pub mod system;
 pub mod units;
 
 pub use error::{Error, ErrorKind, Result};

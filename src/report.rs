@@ -3,7 +3,7 @@
 //! exactly what the command line prints.
 
 use crate::error::{Error, Result};
-use crate::exact::{format_sig, rational_string};
+use crate::exact::{exact_decimal, format_sig, parse_rational, rational_string};
 use crate::export::Tabular;
 use crate::models::particle_box::{Origin, ParticleInBox};
 use crate::spectrum::{Budget, Spectrum, State};
@@ -339,5 +339,261 @@ pub fn check_digits(digits: u32) -> Result<u32> {
             digits,
             "choose between 1 and 60 significant digits",
         ))
+    }
+}
+
+/// Options for a generic level listing.
+#[derive(Debug, Clone)]
+pub struct ListOptions {
+    /// List every state of every level.
+    pub with_states: bool,
+    /// Also show each energy in this unit, to `digits` significant digits.
+    pub convert_to: Option<EnergyUnit>,
+    /// Significant digits of converted energies.
+    pub digits: u32,
+    /// Memory budget for the enumeration.
+    pub budget: Budget,
+}
+
+impl Default for ListOptions {
+    fn default() -> Self {
+        ListOptions {
+            with_states: false,
+            convert_to: None,
+            digits: 10,
+            budget: Budget::default(),
+        }
+    }
+}
+
+/// One level of any spectrum, as reported.
+#[derive(Debug, Clone, Serialize)]
+pub struct SpectrumLevelRow {
+    /// Exact energy in the spectrum's unit.
+    pub energy: String,
+    /// Energy in the requested second unit, correctly rounded.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub energy_converted: Option<String>,
+    /// Number of states, as a decimal string.
+    pub degeneracy: String,
+    /// Labels of the level (from a level file), if any.
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub labels: Vec<String>,
+    /// The states, each as named quantum numbers, when asked for.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub states: Option<Vec<serde_json::Map<String, serde_json::Value>>>,
+}
+
+/// The answer to "which levels lie up to this energy?" for any spectrum.
+#[derive(Debug, Clone, Serialize)]
+pub struct SpectrumLevelsReport {
+    /// Model identifier (`rotor`, `top`, `oscillator`, `system`, ...).
+    pub model: String,
+    /// Human description.
+    pub description: String,
+    /// Unit of `energy`.
+    pub unit: String,
+    /// Unit of `energy_converted`, if asked for.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub converted_unit: Option<String>,
+    /// Quantum-number names, in the order states list them.
+    pub quantum_numbers: Vec<String>,
+    /// The cutoff, exact, in `unit`.
+    pub up_to: String,
+    /// Warnings, e.g. that levels end before the cutoff.
+    pub warnings: Vec<String>,
+    /// The levels, lowest first.
+    pub levels: Vec<SpectrumLevelRow>,
+    /// Number of levels.
+    pub level_count: usize,
+    /// Total number of states listed.
+    pub total_states: String,
+}
+
+/// A quantum number as JSON: an integer, or a half-integer (stored doubled)
+/// as a number such as -0.5, which JSON carries exactly.
+fn quantum_json(value: i64, doubled: bool) -> serde_json::Value {
+    if !doubled {
+        serde_json::Value::from(value)
+    } else if value % 2 == 0 {
+        serde_json::Value::from(value / 2)
+    } else {
+        serde_json::Value::from(value as f64 / 2.0)
+    }
+}
+
+fn quantum_text(value: i64, doubled: bool) -> String {
+    if doubled && value % 2 != 0 {
+        format!("{value}/2")
+    } else if doubled {
+        (value / 2).to_string()
+    } else {
+        value.to_string()
+    }
+}
+
+impl SpectrumLevelsReport {
+    /// Lists the levels of any spectrum up to `cutoff` (in its unit).
+    ///
+    /// ```
+    /// use zsum::models::rotor::LinearRotor;
+    /// use zsum::report::{ListOptions, SpectrumLevelsReport};
+    /// use zsum::exact::parse_rational;
+    /// use zsum::units::EnergyUnit;
+    /// let rotor = LinearRotor::rigid(parse_rational("2").unwrap(), EnergyUnit::Wavenumber).unwrap();
+    /// let opts = ListOptions { with_states: true, ..Default::default() };
+    /// let r = SpectrumLevelsReport::build("rotor", &rotor, &parse_rational("4").unwrap(), &opts).unwrap();
+    /// assert_eq!(r.levels[1].degeneracy, "3");
+    /// assert_eq!(r.levels[1].states.as_ref().unwrap()[0]["M"], -1);
+    /// ```
+    pub fn build(
+        model: &str,
+        spectrum: &dyn Spectrum,
+        cutoff: &BigRational,
+        opts: &ListOptions,
+    ) -> Result<Self> {
+        let list = spectrum.levels_within(cutoff, &opts.budget)?;
+        if opts.with_states {
+            let states = spectrum
+                .count_bound(cutoff)
+                .to_f64()
+                .unwrap_or(f64::INFINITY);
+            opts.budget.check(
+                &format!("listing every state up to {}", rational_string(cutoff)),
+                states * 160.0,
+                "drop --states to list levels only, or give a lower cutoff",
+            )?;
+        }
+        let factor = opts
+            .convert_to
+            .as_ref()
+            .map(|u| spectrum.unit().factor_to(u))
+            .transpose()?;
+        let names = spectrum.quantum_numbers();
+        let doubled = spectrum.doubled_numbers();
+        let mut levels = Vec::with_capacity(list.len());
+        for l in list.iter() {
+            let states = if opts.with_states {
+                let mut rows = Vec::new();
+                for s in spectrum.states_at(&l.energy)? {
+                    let mut m = serde_json::Map::new();
+                    for (i, v) in s.0.iter().enumerate() {
+                        let name = names.get(i).cloned().unwrap_or_else(|| format!("q{i}"));
+                        m.insert(
+                            name,
+                            quantum_json(*v, doubled.get(i).copied().unwrap_or(false)),
+                        );
+                    }
+                    rows.push(m);
+                }
+                Some(rows)
+            } else {
+                None
+            };
+            levels.push(SpectrumLevelRow {
+                energy: rational_string(&l.energy),
+                energy_converted: factor
+                    .as_ref()
+                    .map(|f| format_sig(&(&l.energy * f), opts.digits)),
+                degeneracy: l.degeneracy.to_string(),
+                labels: spectrum.labels_at(&l.energy),
+                states,
+            });
+        }
+        Ok(SpectrumLevelsReport {
+            model: model.to_string(),
+            description: spectrum.describe(),
+            unit: spectrum.unit().symbol().to_string(),
+            converted_unit: opts.convert_to.as_ref().map(|u| u.symbol().to_string()),
+            quantum_numbers: names,
+            up_to: rational_string(cutoff),
+            warnings: spectrum.warnings(cutoff),
+            level_count: levels.len(),
+            total_states: list.total_states().to_string(),
+            levels,
+        })
+    }
+}
+
+impl Tabular for SpectrumLevelsReport {
+    fn preamble(&self) -> Vec<String> {
+        let mut p = vec![format!(
+            "{}; energies E in {}; levels up to {}",
+            self.description, self.unit, self.up_to
+        )];
+        for w in &self.warnings {
+            p.push(format!("warning: {w}"));
+        }
+        p
+    }
+
+    fn columns(&self) -> Vec<String> {
+        let mut c = vec![format!("E [{}]", self.unit)];
+        if let Some(u) = &self.converted_unit {
+            c.push(format!("E [{u}]"));
+        }
+        c.push("degeneracy".into());
+        if self.levels.iter().any(|l| !l.labels.is_empty()) {
+            c.push("label".into());
+        }
+        if self.levels.first().is_some_and(|l| l.states.is_some()) {
+            c.push(format!("states ({})", self.quantum_numbers.join(",")));
+        }
+        c
+    }
+
+    fn rows(&self) -> Vec<Vec<String>> {
+        let with_labels = self.levels.iter().any(|l| !l.labels.is_empty());
+        self.levels
+            .iter()
+            .map(|l| {
+                // JSON carries the exact rational; the table shows the exact
+                // decimal where there is one, else 15 correct digits.
+                let mut r = vec![match parse_rational(&l.energy) {
+                    Ok(e) => {
+                        let d = exact_decimal(&e, 30);
+                        if d.contains('/') {
+                            format_sig(&e, 15)
+                        } else {
+                            d
+                        }
+                    }
+                    Err(_) => l.energy.clone(),
+                }];
+                if let Some(e) = &l.energy_converted {
+                    r.push(e.clone());
+                }
+                r.push(l.degeneracy.clone());
+                if with_labels {
+                    r.push(l.labels.join(" + "));
+                }
+                if let Some(states) = &l.states {
+                    let cells: Vec<String> = states
+                        .iter()
+                        .map(|m| {
+                            let v: Vec<String> = m
+                                .values()
+                                .map(|x| match x.as_f64() {
+                                    Some(f) if f.fract() != 0.0 => {
+                                        quantum_text((f * 2.0) as i64, true)
+                                    }
+                                    _ => x.to_string(),
+                                })
+                                .collect();
+                            format!("({})", v.join(","))
+                        })
+                        .collect();
+                    r.push(cells.join(" "));
+                }
+                r
+            })
+            .collect()
+    }
+
+    fn summary(&self) -> Vec<String> {
+        vec![format!(
+            "{} levels, {} states",
+            self.level_count, self.total_states
+        )]
     }
 }

@@ -109,4 +109,40 @@ pub trait Spectrum {
     /// A rigorous upper bound on the number of states with energy at most
     /// `energy` (never below the true count).
     fn count_bound(&self, energy: &BigRational) -> BigUint;
+
+    /// Which quantum numbers a [`State`] stores doubled, because they can be
+    /// half-integers (spin projections such as m_J = -1/2 are stored as -1).
+    /// Default: none.
+    fn doubled_numbers(&self) -> Vec<bool> {
+        vec![false; self.quantum_numbers().len()]
+    }
+
+    /// Labels attached to the level at `energy` (e.g. term symbols from a
+    /// level file). Default: none.
+    fn labels_at(&self, _energy: &BigRational) -> Vec<String> {
+        Vec::new()
+    }
+
+    /// Warnings about the listing up to `cutoff`, e.g. that centrifugal
+    /// terms stop the energy increasing so levels end early. Default: none.
+    fn warnings(&self, _cutoff: &BigRational) -> Vec<String> {
+        Vec::new()
+    }
+}
+
+/// Refuses a cutoff below the ground level, naming both.
+pub fn check_cutoff(s: &dyn Spectrum, cutoff: &BigRational) -> Result<()> {
+    let ground = s.ground_energy();
+    if cutoff < &ground {
+        return Err(Error::invalid(
+            "cutoff",
+            crate::exact::rational_string(cutoff),
+            &format!(
+                "it lies below the ground level {} {}; give a cutoff of at least that",
+                crate::exact::rational_string(&ground),
+                s.unit()
+            ),
+        ));
+    }
+    Ok(())
 }

@@ -15,13 +15,19 @@ pub struct Cli {
 
 /// The subcommands.
 #[derive(Debug, Subcommand)]
+#[allow(clippy::large_enum_variant)] // parsed once; boxing buys nothing
 pub enum Command {
-    /// List a model's energy levels up to a cutoff, with exact degeneracies,
-    /// the origin of each degeneracy, and optionally every state.
+    /// List a model's energy levels up to a cutoff, with exact degeneracies
+    /// and optionally every state. Give a model, or --system FILE.
+    #[command(args_conflicts_with_subcommands = true, subcommand_negates_reqs = true)]
     Levels {
         /// The model.
         #[command(subcommand)]
-        model: LevelsModel,
+        model: Option<LevelsModel>,
+
+        /// A system file (TOML) describing one species as a product of parts.
+        #[command(flatten)]
+        system: SystemLevels,
     },
     /// Count a model's states up to an energy exactly, without listing them.
     Count {
@@ -37,6 +43,292 @@ pub enum LevelsModel {
     /// Particle in a box with impenetrable walls (1, 2 or 3 dimensions).
     /// Energies in units of h^2/(8 m L^2); quantum numbers n_i >= 1.
     Box(BoxLevels),
+    /// Linear rotor: E = B J(J+1) - D [J(J+1)]^2 + H [J(J+1)]^3, 2J+1
+    /// states per J, with optional nuclear-spin statistics.
+    Rotor(RotorLevels),
+    /// Symmetric top (prolate with --A, oblate with --C) or spherical top
+    /// (--spherical).
+    Top(TopLevels),
+    /// Harmonic modes (--freq) or an anharmonic/Morse diatomic vibration
+    /// (--we with --wexe or --dissociation).
+    Oscillator(OscillatorLevels),
+    /// Vibrating rotor: G(v) + B_v J(J+1) - D_e [J(J+1)]^2 with
+    /// B_v = B_e - alpha_e (v+1/2).
+    Diatomic(DiatomicLevels),
+    /// Levels read from a file: one `<energy> <unit> <degeneracy> [label]`
+    /// per line.
+    File(FileLevels),
+    /// Spin multiplet in a magnetic field: E = g_J m_J mu_B B.
+    Zeeman(ZeemanLevels),
+}
+
+/// Options shared by every generic listing.
+#[derive(Debug, Args)]
+pub struct ListArgs {
+    /// Highest energy to list: a number in the model's unit (--unit), or a
+    /// number with its own unit, e.g. 2000 or 2000cm-1 or 300K.
+    #[arg(long, value_name = "E", allow_hyphen_values = true)]
+    pub up_to: String,
+
+    /// Also list every state (its named quantum numbers) in each level.
+    #[arg(long)]
+    pub states: bool,
+
+    /// Also show each energy in this unit: K, cm-1, meV, eV, J or kJ/mol.
+    #[arg(long, value_name = "UNIT")]
+    pub also: Option<String>,
+
+    /// Significant digits of the --also energies (correctly rounded).
+    #[arg(long, value_name = "N", default_value_t = 10, requires = "also")]
+    pub digits: u32,
+
+    /// Refuse listings estimated to need more memory than this.
+    #[arg(long, value_name = "SIZE", default_value = "2GiB")]
+    pub memory_budget: String,
+
+    /// Output options.
+    #[command(flatten)]
+    pub out: Output,
+}
+
+/// `zsum levels --system FILE`.
+#[derive(Debug, Args)]
+pub struct SystemLevels {
+    /// The system file.
+    #[arg(long, value_name = "FILE")]
+    pub system: Option<PathBuf>,
+
+    /// Highest energy to list, in the system's unit or with a unit.
+    #[arg(
+        long,
+        value_name = "E",
+        allow_hyphen_values = true,
+        requires = "system"
+    )]
+    pub up_to: Option<String>,
+
+    /// Also list every state in each level.
+    #[arg(long, requires = "system")]
+    pub states: bool,
+
+    /// Also show each energy in this unit.
+    #[arg(long, value_name = "UNIT", requires = "system")]
+    pub also: Option<String>,
+
+    /// Significant digits of the --also energies.
+    #[arg(long, value_name = "N", default_value_t = 10, requires = "also")]
+    pub digits: u32,
+
+    /// Refuse listings estimated to need more memory than this.
+    #[arg(long, value_name = "SIZE", default_value = "2GiB")]
+    pub memory_budget: String,
+
+    /// Output format.
+    #[arg(long, value_enum, default_value_t = FormatArg::Table)]
+    pub format: FormatArg,
+
+    /// Write to this file instead of standard output (atomically).
+    #[arg(long, short = 'o', value_name = "FILE")]
+    pub output: Option<PathBuf>,
+}
+
+/// Nuclear-spin statistics for homonuclear diatomics.
+#[derive(Debug, Args)]
+pub struct SpinArgs {
+    /// Nuclear spin I of each of two identical nuclei (0, 1/2, 1, 3/2, ...):
+    /// integer I are bosons, half-integer I fermions. Sets the weights of
+    /// even and odd J.
+    #[arg(long, value_name = "I", conflicts_with = "weights")]
+    pub spin: Option<String>,
+
+    /// With --spin: the electronic state swaps which parity takes the
+    /// symmetric spin states (e.g. the 3Sigma_g- ground state of O2).
+    #[arg(long, requires = "spin")]
+    pub swap_parity: bool,
+
+    /// Weights of even and odd J set by hand, EVEN:ODD, e.g. 1:3.
+    #[arg(long, value_name = "EVEN:ODD")]
+    pub weights: Option<String>,
+
+    /// Keep only one parity of J: even, odd, ortho (the larger weight) or
+    /// para (the smaller).
+    #[arg(long, value_enum)]
+    pub only: Option<OnlyArg>,
+}
+
+/// Which rotational levels to keep.
+#[derive(Debug, Clone, Copy, ValueEnum)]
+pub enum OnlyArg {
+    /// Even J.
+    Even,
+    /// Odd J.
+    Odd,
+    /// The parity with the larger nuclear-spin weight.
+    Ortho,
+    /// The parity with the smaller nuclear-spin weight.
+    Para,
+}
+
+/// `zsum levels rotor`.
+#[derive(Debug, Args)]
+pub struct RotorLevels {
+    /// Rotational constant B (in --unit).
+    #[arg(long = "B", value_name = "B", allow_hyphen_values = true)]
+    pub b: String,
+    /// Centrifugal distortion constant D (in --unit). Default 0.
+    #[arg(long = "D", value_name = "D", allow_hyphen_values = true)]
+    pub d: Option<String>,
+    /// Sextic distortion constant H (in --unit). Default 0.
+    #[arg(long = "H", value_name = "H", allow_hyphen_values = true)]
+    pub h: Option<String>,
+    /// Unit of the constants and of the energies: cm-1, K, meV, eV, J, kJ/mol.
+    #[arg(long, value_name = "UNIT", default_value = "cm-1")]
+    pub unit: String,
+    /// Nuclear-spin statistics.
+    #[command(flatten)]
+    pub spin: SpinArgs,
+    /// Listing options.
+    #[command(flatten)]
+    pub list: ListArgs,
+}
+
+/// `zsum levels top`.
+#[derive(Debug, Args)]
+pub struct TopLevels {
+    /// Rotational constant B (in --unit).
+    #[arg(long = "B", value_name = "B", allow_hyphen_values = true)]
+    pub b: String,
+    /// Prolate top: constant A > B.
+    #[arg(long = "A", value_name = "A", allow_hyphen_values = true, conflicts_with_all = ["c", "spherical"])]
+    pub a: Option<String>,
+    /// Oblate top: constant C < B.
+    #[arg(
+        long = "C",
+        value_name = "C",
+        allow_hyphen_values = true,
+        conflicts_with = "spherical"
+    )]
+    pub c: Option<String>,
+    /// Spherical top: (2J+1)^2 states per J; only --B (and --DJ).
+    #[arg(long)]
+    pub spherical: bool,
+    /// Distortion constant D_J. Default 0.
+    #[arg(long = "DJ", value_name = "D_J", allow_hyphen_values = true)]
+    pub dj: Option<String>,
+    /// Distortion constant D_JK. Default 0.
+    #[arg(long = "DJK", value_name = "D_JK", allow_hyphen_values = true)]
+    pub djk: Option<String>,
+    /// Distortion constant D_K. Default 0.
+    #[arg(long = "DK", value_name = "D_K", allow_hyphen_values = true)]
+    pub dk: Option<String>,
+    /// Unit of the constants and energies.
+    #[arg(long, value_name = "UNIT", default_value = "cm-1")]
+    pub unit: String,
+    /// Listing options.
+    #[command(flatten)]
+    pub list: ListArgs,
+}
+
+/// `zsum levels oscillator`.
+#[derive(Debug, Args)]
+pub struct OscillatorLevels {
+    /// Harmonic mode frequencies, comma-separated, each optionally with a
+    /// mode degeneracy as xN: e.g. 1000,1500x2,3000 (a doubly degenerate
+    /// mode at 1500). One mode 100x3 is the isotropic 3D oscillator.
+    #[arg(long, value_name = "LIST", conflicts_with = "we")]
+    pub freq: Option<String>,
+    /// Include the zero-point energy (half a quantum per mode component).
+    #[arg(long)]
+    pub zero_point: bool,
+    /// Anharmonic diatomic: harmonic constant omega_e.
+    #[arg(long, value_name = "WE", allow_hyphen_values = true)]
+    pub we: Option<String>,
+    /// Anharmonicity constant omega_e x_e.
+    #[arg(
+        long,
+        value_name = "WEXE",
+        allow_hyphen_values = true,
+        requires = "we",
+        conflicts_with = "dissociation"
+    )]
+    pub wexe: Option<String>,
+    /// Second anharmonicity constant omega_e y_e. Default 0.
+    #[arg(
+        long,
+        value_name = "WEYE",
+        allow_hyphen_values = true,
+        requires = "wexe"
+    )]
+    pub weye: Option<String>,
+    /// Morse oscillator: dissociation energy D_e (with --we).
+    #[arg(long, value_name = "DE", allow_hyphen_values = true, requires = "we")]
+    pub dissociation: Option<String>,
+    /// Unit of the constants and energies.
+    #[arg(long, value_name = "UNIT", default_value = "cm-1")]
+    pub unit: String,
+    /// Listing options.
+    #[command(flatten)]
+    pub list: ListArgs,
+}
+
+/// `zsum levels diatomic`.
+#[derive(Debug, Args)]
+pub struct DiatomicLevels {
+    /// Harmonic constant omega_e.
+    #[arg(long, value_name = "WE", allow_hyphen_values = true)]
+    pub we: String,
+    /// Anharmonicity constant omega_e x_e.
+    #[arg(long, value_name = "WEXE", allow_hyphen_values = true)]
+    pub wexe: String,
+    /// Second anharmonicity constant omega_e y_e. Default 0.
+    #[arg(long, value_name = "WEYE", allow_hyphen_values = true)]
+    pub weye: Option<String>,
+    /// Equilibrium rotational constant B_e.
+    #[arg(long = "Be", value_name = "BE", allow_hyphen_values = true)]
+    pub be: String,
+    /// Vibration-rotation constant alpha_e. Default 0.
+    #[arg(long, value_name = "ALPHA", allow_hyphen_values = true)]
+    pub alpha: Option<String>,
+    /// Centrifugal distortion constant D_e. Default 0.
+    #[arg(long = "De", value_name = "DE", allow_hyphen_values = true)]
+    pub de: Option<String>,
+    /// Unit of the constants and energies.
+    #[arg(long, value_name = "UNIT", default_value = "cm-1")]
+    pub unit: String,
+    /// Nuclear-spin statistics.
+    #[command(flatten)]
+    pub spin: SpinArgs,
+    /// Listing options.
+    #[command(flatten)]
+    pub list: ListArgs,
+}
+
+/// `zsum levels file`.
+#[derive(Debug, Args)]
+pub struct FileLevels {
+    /// The level file.
+    #[arg(value_name = "PATH")]
+    pub path: PathBuf,
+    /// Listing options.
+    #[command(flatten)]
+    pub list: ListArgs,
+}
+
+/// `zsum levels zeeman`.
+#[derive(Debug, Args)]
+pub struct ZeemanLevels {
+    /// Total angular momentum J: 0, 1/2, 1, 3/2, ... (e.g. 7/2).
+    #[arg(long = "J", value_name = "J")]
+    pub j: String,
+    /// Landé factor g_J.
+    #[arg(long = "g", value_name = "G", allow_hyphen_values = true)]
+    pub g: String,
+    /// Magnetic flux density with unit T or mT, e.g. 1T.
+    #[arg(long, value_name = "B", allow_hyphen_values = true)]
+    pub field: String,
+    /// Listing options.
+    #[command(flatten)]
+    pub list: ListArgs,
 }
 
 /// Models for `count`.

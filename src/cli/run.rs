@@ -1,24 +1,42 @@
 //! Validates raw arguments into library objects, runs the library, renders.
 
 use super::args::{
-    BoxCount, BoxLevels, BoxShape, Cli, Command, CountModel, FormatArg, LevelsModel, Output,
+    BoxCount, BoxLevels, BoxShape, Cli, Command, CountModel, DiatomicLevels, FileLevels, FormatArg,
+    LevelsModel, ListArgs, OnlyArg, OscillatorLevels, Output, RotorLevels, SpinArgs, SystemLevels,
+    TopLevels, ZeemanLevels,
 };
 use num_rational::BigRational;
+use num_traits::Zero;
 use zsum::error::{Error, Result};
 use zsum::exact::parse_rational;
 use zsum::export::{render, write_atomic, Format};
+use zsum::models::diatomic::{ParityWeights, RovibDiatomic};
+use zsum::models::level_file::LevelFile;
+use zsum::models::oscillator::{AnharmonicOscillator, HarmonicModes};
+use zsum::models::rotor::{LinearRotor, SphericalTop, SymmetricTop, TopShape};
+use zsum::models::zeeman::ZeemanMultiplet;
 use zsum::models::ParticleInBox;
 use zsum::report::{check_digits, BoxScale, CountReport, LevelsReport};
+use zsum::report::{ListOptions, SpectrumLevelsReport};
 use zsum::spectrum::Budget;
+use zsum::spectrum::Spectrum;
+use zsum::system::{parse_energy, parse_twice_spin, parse_weights, restrict_weights, System};
 use zsum::units::{parse_length_m, parse_mass_kg, EnergyUnit};
 
 /// Runs a parsed command line; returns text for standard output (`None` when
 /// the output went to a file).
 pub fn run(cli: Cli) -> Result<Option<String>> {
     match cli.command {
-        Command::Levels {
-            model: LevelsModel::Box(a),
-        } => levels_box(a),
+        Command::Levels { model, system } => match model {
+            Some(LevelsModel::Box(a)) => levels_box(a),
+            Some(LevelsModel::Rotor(a)) => levels_rotor(a),
+            Some(LevelsModel::Top(a)) => levels_top(a),
+            Some(LevelsModel::Oscillator(a)) => levels_oscillator(a),
+            Some(LevelsModel::Diatomic(a)) => levels_diatomic(a),
+            Some(LevelsModel::File(a)) => levels_file(a),
+            Some(LevelsModel::Zeeman(a)) => levels_zeeman(a),
+            None => levels_system(system),
+        },
         Command::Count {
             model: CountModel::Box(a),
         } => count_box(a),
@@ -146,4 +164,229 @@ fn count_box(a: BoxCount) -> Result<Option<String>> {
     let cut = cutoff(&a.up_to)?;
     let report = CountReport::for_box(&model, &cut)?;
     emit(render(&report, format(a.out.format))?, &a.out)
+}
+
+fn number(flag: &str, text: &str) -> Result<BigRational> {
+    parse_rational(text).map_err(|_| {
+        Error::parse(
+            flag,
+            text,
+            "an exact number such as 1.99824, 5.76e-6 or 27/4",
+        )
+    })
+}
+
+fn opt_number(flag: &str, text: &Option<String>) -> Result<BigRational> {
+    match text {
+        Some(t) => number(flag, t),
+        None => Ok(BigRational::zero()),
+    }
+}
+
+/// A cutoff in the model's unit, or with its own unit (converted exactly).
+fn cutoff_in(text: &str, unit: &EnergyUnit) -> Result<BigRational> {
+    if let Ok(v) = parse_rational(text) {
+        return Ok(v);
+    }
+    let (v, u) = parse_energy(text).map_err(|_| {
+        Error::parse(
+            "--up-to",
+            text,
+            &format!(
+                "an energy: a number in {unit}, or a number with a unit such as 2000cm-1 or 300K"
+            ),
+        )
+    })?;
+    u.convert(&v, unit)
+}
+
+fn list_options(l: &ListArgs) -> Result<ListOptions> {
+    Ok(ListOptions {
+        with_states: l.states,
+        convert_to: l.also.as_deref().map(EnergyUnit::parse).transpose()?,
+        digits: check_digits(l.digits)?,
+        budget: parse_budget(&l.memory_budget)?,
+    })
+}
+
+fn list_generic(model: &str, s: &dyn Spectrum, l: &ListArgs) -> Result<Option<String>> {
+    let cut = cutoff_in(&l.up_to, &s.unit())?;
+    let opts = list_options(l)?;
+    let report = SpectrumLevelsReport::build(model, s, &cut, &opts)?;
+    for w in &report.warnings {
+        eprintln!("zsum: warning: {w}");
+    }
+    emit(render(&report, format(l.out.format))?, &l.out)
+}
+
+fn spin_weights(s: &SpinArgs) -> Result<ParityWeights> {
+    let w = match (&s.spin, &s.weights) {
+        (Some(i), _) => ParityWeights::from_nuclear_spin(parse_twice_spin(i)?, s.swap_parity),
+        (None, Some(w)) => parse_weights(w)?,
+        (None, None) => ParityWeights::uniform(),
+    };
+    let only = s.only.map(|o| match o {
+        OnlyArg::Even => "even",
+        OnlyArg::Odd => "odd",
+        OnlyArg::Ortho => "ortho",
+        OnlyArg::Para => "para",
+    });
+    restrict_weights(w, only)
+}
+
+fn levels_rotor(a: RotorLevels) -> Result<Option<String>> {
+    let unit = EnergyUnit::parse(&a.unit)?;
+    let rotor = LinearRotor::new(
+        number("--B", &a.b)?,
+        opt_number("--D", &a.d)?,
+        opt_number("--H", &a.h)?,
+        unit,
+    )?
+    .with_weights(spin_weights(&a.spin)?);
+    list_generic("rotor", &rotor, &a.list)
+}
+
+fn levels_top(a: TopLevels) -> Result<Option<String>> {
+    let unit = EnergyUnit::parse(&a.unit)?;
+    let b = number("--B", &a.b)?;
+    if a.spherical {
+        if a.djk.is_some() || a.dk.is_some() {
+            return Err(Error::invalid(
+                "--DJK/--DK",
+                "given",
+                "a spherical top takes only --B and --DJ",
+            ));
+        }
+        let top = SphericalTop::new(b, opt_number("--DJ", &a.dj)?, unit)?;
+        return list_generic("spherical_top", &top, &a.list);
+    }
+    let (shape, unique) = match (&a.a, &a.c) {
+        (Some(x), None) => (TopShape::Prolate, number("--A", x)?),
+        (None, Some(x)) => (TopShape::Oblate, number("--C", x)?),
+        _ => {
+            return Err(Error::invalid(
+                "top",
+                "without --A, --C or --spherical",
+                "give --A (prolate), --C (oblate) or --spherical",
+            ))
+        }
+    };
+    let top = SymmetricTop::new(
+        shape,
+        unique,
+        b,
+        opt_number("--DJ", &a.dj)?,
+        opt_number("--DJK", &a.djk)?,
+        opt_number("--DK", &a.dk)?,
+        unit,
+    )?;
+    list_generic("top", &top, &a.list)
+}
+
+fn parse_modes(text: &str) -> Result<Vec<(BigRational, u32)>> {
+    text.split(',')
+        .map(|item| {
+            let (f, d) = match item.split_once(['x', 'X']) {
+                Some((f, d)) => {
+                    let d: u32 = d.trim().parse().ok().filter(|&d| d >= 1).ok_or_else(|| {
+                        Error::parse("mode degeneracy", d, "a positive integer, e.g. 1500x2")
+                    })?;
+                    (f, d)
+                }
+                None => (item, 1),
+            };
+            Ok((number("--freq", f.trim())?, d))
+        })
+        .collect()
+}
+
+fn levels_oscillator(a: OscillatorLevels) -> Result<Option<String>> {
+    let unit = EnergyUnit::parse(&a.unit)?;
+    match (&a.freq, &a.we) {
+        (Some(f), _) => {
+            let m = HarmonicModes::new(parse_modes(f)?, a.zero_point, unit)?;
+            list_generic("oscillator", &m, &a.list)
+        }
+        (None, Some(we)) => {
+            let we = number("--we", we)?;
+            let osc = match (&a.wexe, &a.dissociation) {
+                (Some(x), None) => AnharmonicOscillator::new(
+                    we,
+                    number("--wexe", x)?,
+                    opt_number("--weye", &a.weye)?,
+                    unit,
+                )?,
+                (None, Some(d)) => {
+                    AnharmonicOscillator::morse(we, number("--dissociation", d)?, unit)?
+                }
+                _ => {
+                    return Err(Error::invalid(
+                        "--we",
+                        "without --wexe or --dissociation",
+                        "give --wexe (anharmonic) or --dissociation (Morse)",
+                    ))
+                }
+            };
+            list_generic("oscillator", &osc, &a.list)
+        }
+        (None, None) => Err(Error::invalid(
+            "oscillator",
+            "without --freq or --we",
+            "give --freq for harmonic modes or --we for a diatomic vibration",
+        )),
+    }
+}
+
+fn levels_diatomic(a: DiatomicLevels) -> Result<Option<String>> {
+    let unit = EnergyUnit::parse(&a.unit)?;
+    let vib = AnharmonicOscillator::new(
+        number("--we", &a.we)?,
+        number("--wexe", &a.wexe)?,
+        opt_number("--weye", &a.weye)?,
+        unit,
+    )?;
+    let m = RovibDiatomic::new(
+        vib,
+        number("--Be", &a.be)?,
+        opt_number("--alpha", &a.alpha)?,
+        opt_number("--De", &a.de)?,
+        spin_weights(&a.spin)?,
+    )?;
+    list_generic("diatomic", &m, &a.list)
+}
+
+fn levels_file(a: FileLevels) -> Result<Option<String>> {
+    let f = LevelFile::read(&a.path)?;
+    list_generic("file", &f, &a.list)
+}
+
+fn levels_zeeman(a: ZeemanLevels) -> Result<Option<String>> {
+    let z = ZeemanMultiplet::from_text(&a.j, &a.g, &a.field)?;
+    list_generic("zeeman", &z, &a.list)
+}
+
+fn levels_system(a: SystemLevels) -> Result<Option<String>> {
+    let path = a.system.ok_or_else(|| {
+        Error::invalid(
+            "levels",
+            "without a model",
+            "name a model (box, rotor, top, oscillator, diatomic, file, zeeman) or give --system FILE",
+        )
+    })?;
+    let up_to = a
+        .up_to
+        .ok_or_else(|| Error::invalid("--system", path.display(), "it needs --up-to E as well"))?;
+    let sys = System::read(&path)?;
+    let list = ListArgs {
+        up_to,
+        states: a.states,
+        also: a.also,
+        digits: a.digits,
+        memory_budget: a.memory_budget,
+        out: Output {
+            format: a.format,
+            output: a.output,
+        },
+    };
+    list_generic("system", &sys.product, &list)
 }

@@ -1,6 +1,13 @@
 //! Quantum models, one file each. Every model is a plain struct with a
 //! validating constructor that implements [`crate::spectrum::Spectrum`].
 
+pub mod diatomic;
+pub mod level_file;
+pub mod oscillator;
 pub mod particle_box;
+pub mod product;
+pub mod rotor;
+
+pub mod zeeman;
 
 pub use particle_box::ParticleInBox;

@@ -124,6 +124,8 @@ pub struct ParticleInBox {
     scale: u64,
     /// Axes ordered so that equal weights are adjacent: `(weight, axis)`.
     sorted: Vec<(u64, usize)>,
+    /// Size of the unit h²/(8 m L²) in joules, once mass and side are known.
+    unit_joules: Option<BigRational>,
 }
 
 /// A run of families that differ only in the last (sorted) quantum number,
@@ -215,12 +217,21 @@ impl ParticleInBox {
             sides,
             scale,
             sorted,
+            unit_joules: None,
         })
     }
 
     /// The cube (or square, or segment) of side `L` in `dims` dimensions.
     pub fn cube(dims: usize) -> Result<Self> {
         ParticleInBox::new(vec![BigRational::one(); dims])
+    }
+
+    /// The same box for a particle of mass `mass_kg` with reference side
+    /// `side_m`: its unit h²/(8 m L²) then has a known size in joules, so its
+    /// levels can be converted and combined with other parts exactly.
+    pub fn with_scale(mut self, mass_kg: &BigRational, side_m: &BigRational) -> Self {
+        self.unit_joules = Some(crate::units::box_unit_joules(mass_kg, side_m));
+        self
     }
 
     /// Number of dimensions.
@@ -631,7 +642,7 @@ impl Spectrum for ParticleInBox {
     fn unit(&self) -> EnergyUnit {
         EnergyUnit::Natural {
             symbol: "h^2/(8 m L^2)".to_string(),
-            joules: None,
+            joules: self.unit_joules.clone(),
         }
     }
 

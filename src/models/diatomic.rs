@@ -1,0 +1,761 @@
+//! Rotation–vibration levels of a diatomic molecule, as spectroscopists
+//! write them, and the nuclear-spin weights of even and odd J
+//! ([`ParityWeights`], shared with the rotors).
+//!
+//! ```text
+//! E(v, J) = G(v) + B_v J(J+1) − D_e [J(J+1)]²,   B_v = B_e − alpha_e (v + 1/2),
+//! ```
+//!
+//! with G(v) from an [`AnharmonicOscillator`] (its bound levels only). The
+//! level (v, J) holds (2J+1) · g(J) states, g(J) the weight of J's parity;
+//! levels of weight 0 are absent.
+//!
+//! # Where a J ladder ends
+//! For each bound v the ladder runs J = 0, 1, … while E(v, J) increases
+//! strictly with J: E(v, J+1) − E(v, J) = 2(J+1)[B_v − 2 D_e (J+1)²], so
+//! with D_e > 0 the last rung is the largest J with J² < B_v/(2 D_e)
+//! ([`RovibDiatomic::j_max`]); past it the centrifugal term would make the
+//! energy fall, and no levels are listed (reported by `warnings`). Every
+//! bound v must at least have its J = 1 rung above J = 0 (B_v > 2 D_e), and
+//! B_v must be positive for every bound v.
+//!
+//! # States
+//! A state is (v, J, M) with M = −J..J. When a parity weight exceeds 1 a
+//! fourth number `s` = 1..g(J) labels the nuclear-spin substate (the
+//! symmetric or antisymmetric spin functions that go with J's parity);
+//! then every state carries `s`, which is 1 for levels of weight 1.
+
+use crate::error::{Error, Result};
+use crate::level::{Level, LevelList};
+use crate::models::oscillator::{
+    half, int, last_true, show, AnharmonicOscillator, LEVEL_BYTES, STATE_BYTES,
+};
+use crate::spectrum::{check_cutoff, Budget, Spectrum, State};
+use crate::units::EnergyUnit;
+use num_bigint::{BigInt, BigUint};
+use num_rational::BigRational;
+use num_traits::{FromPrimitive, One, Signed, ToPrimitive, Zero};
+
+/// The parity of J: even or odd.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub enum Parity {
+    /// J = 0, 2, 4, …
+    Even,
+    /// J = 1, 3, 5, …
+    Odd,
+}
+
+impl Parity {
+    /// The parity of `j`.
+    pub fn of(j: u64) -> Self {
+        if j % 2 == 0 {
+            Parity::Even
+        } else {
+            Parity::Odd
+        }
+    }
+
+    /// `"even"` or `"odd"`.
+    pub fn name(&self) -> &'static str {
+        match self {
+            Parity::Even => "even",
+            Parity::Odd => "odd",
+        }
+    }
+}
+
+/// Statistical weights of the levels with J even and J odd (nuclear-spin
+/// statistics of a homonuclear diatomic or a symmetric linear molecule).
+///
+/// ```
+/// use zsum::models::diatomic::ParityWeights;
+/// // H2: two protons (I = 1/2, fermions): even J : odd J = 1 : 3.
+/// let h2 = ParityWeights::from_nuclear_spin(1, false);
+/// assert_eq!((h2.even().to_string(), h2.odd().to_string()), ("1".into(), "3".into()));
+/// assert_eq!(h2.modification(1), Some("ortho"));
+/// ```
+#[derive(Debug, Clone, PartialEq, Eq, Hash)]
+pub struct ParityWeights {
+    even: BigUint,
+    odd: BigUint,
+}
+
+impl ParityWeights {
+    /// Weight 1 for every J (a heteronuclear molecule).
+    pub fn uniform() -> Self {
+        ParityWeights {
+            even: BigUint::one(),
+            odd: BigUint::one(),
+        }
+    }
+
+    /// Hand-set weights; they may not both be zero.
+    pub fn new(even: BigUint, odd: BigUint) -> Result<Self> {
+        if even.is_zero() && odd.is_zero() {
+            return Err(Error::invalid(
+                "parity weights",
+                "0:0",
+                "at least one of the even-J and odd-J weights must be positive",
+            ));
+        }
+        Ok(ParityWeights { even, odd })
+    }
+
+    /// Weights taken as given, unchecked: a pair of zeros leaves a model
+    /// with no levels at all, so callers must rule it out themselves.
+    pub fn new_unchecked(even: BigUint, odd: BigUint) -> Self {
+        ParityWeights { even, odd }
+    }
+
+    /// The weights of a homonuclear diatomic whose two nuclei have spin
+    /// I = `twice_i`/2 (so I = 1/2 is `1`).
+    ///
+    /// Of the (2I+1)² nuclear-spin states, (2I+1)(I+1) are symmetric and
+    /// (2I+1)I antisymmetric under exchange of the nuclei. Nuclei of integer
+    /// I are bosons, so the total wavefunction is symmetric: in a Σg⁺
+    /// electronic state even J goes with the symmetric spin states. Nuclei
+    /// of half-integer I are fermions and even J takes the antisymmetric
+    /// ones. `swap` exchanges the roles, for electronic states in which the
+    /// rotational functions' exchange symmetry is reversed (³Σg⁻ of O₂:
+    /// for ¹⁶O₂, I = 0, only odd N survive).
+    pub fn from_nuclear_spin(twice_i: u32, swap: bool) -> Self {
+        let t = BigUint::from(twice_i);
+        let symmetric = (&t + 1u32) * (&t + 2u32) / 2u32;
+        let antisymmetric = (&t + 1u32) * &t / 2u32;
+        let fermions = twice_i % 2 == 1;
+        let (even, odd) = if fermions != swap {
+            (antisymmetric, symmetric)
+        } else {
+            (symmetric, antisymmetric)
+        };
+        ParityWeights { even, odd }
+    }
+
+    /// The weight of even J.
+    pub fn even(&self) -> &BigUint {
+        &self.even
+    }
+
+    /// The weight of odd J.
+    pub fn odd(&self) -> &BigUint {
+        &self.odd
+    }
+
+    /// The weight of the level J.
+    pub fn weight(&self, j: u64) -> &BigUint {
+        match Parity::of(j) {
+            Parity::Even => &self.even,
+            Parity::Odd => &self.odd,
+        }
+    }
+
+    /// The larger of the two weights.
+    pub fn max_weight(&self) -> &BigUint {
+        (&self.even).max(&self.odd)
+    }
+
+    /// The "ortho" parity, the one with the larger weight (odd J for H₂,
+    /// even J for D₂); `None` when the weights are equal.
+    pub fn ortho(&self) -> Option<Parity> {
+        match self.even.cmp(&self.odd) {
+            std::cmp::Ordering::Greater => Some(Parity::Even),
+            std::cmp::Ordering::Less => Some(Parity::Odd),
+            std::cmp::Ordering::Equal => None,
+        }
+    }
+
+    /// The "para" parity, the one with the smaller weight; `None` when the
+    /// weights are equal.
+    pub fn para(&self) -> Option<Parity> {
+        match self.ortho()? {
+            Parity::Even => Some(Parity::Odd),
+            Parity::Odd => Some(Parity::Even),
+        }
+    }
+
+    /// `"ortho"` or `"para"` for the level J, or `None` when the weights are
+    /// equal.
+    pub fn modification(&self, j: u64) -> Option<&'static str> {
+        let o = self.ortho()?;
+        Some(if Parity::of(j) == o { "ortho" } else { "para" })
+    }
+}
+
+/// Vibrational levels beyond which `count_bound` stops summing exactly and
+/// bounds instead.
+const EXACT_COUNT_LEVELS: u64 = 4096;
+/// Vibrational levels that `new` will scan to find the lowest odd-J level.
+const GROUND_SCAN_LEVELS: u64 = 1_000_000;
+/// Vibrational levels that `warnings` examines.
+const WARNING_SCAN_LEVELS: u64 = 100_000;
+
+/// A rotating, vibrating diatomic molecule: E(v, J) = G(v) + B_v J(J+1) −
+/// D_e [J(J+1)]² with B_v = B_e − alpha_e (v + 1/2).
+///
+/// ```
+/// use zsum::models::diatomic::{ParityWeights, RovibDiatomic};
+/// use zsum::models::oscillator::AnharmonicOscillator;
+/// use zsum::spectrum::Spectrum;
+/// use zsum::units::EnergyUnit;
+/// use num_rational::BigRational;
+/// let e = |n: i64| BigRational::from_integer(n.into());
+/// let vib = AnharmonicOscillator::new(e(2000), e(10), e(0), EnergyUnit::Wavenumber).unwrap();
+/// let m = RovibDiatomic::new(vib, e(2), e(0), e(0), ParityWeights::uniform()).unwrap();
+/// // E(0, J) = G(0) + 2 J(J+1) = 995/2 + 2 J(J+1): J = 0, 1, 2 with 1, 3, 5 states.
+/// let l = m.levels_up_to(&e(1019)).unwrap();
+/// let got: Vec<String> = l.iter().map(|l| format!("{}x{}", l.energy, l.degeneracy)).collect();
+/// assert_eq!(got, ["1995/2x1", "2003/2x3", "2019/2x5"]);
+/// ```
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct RovibDiatomic {
+    vib: AnharmonicOscillator,
+    be: BigRational,
+    alpha: BigRational,
+    d: BigRational,
+    weights: ParityWeights,
+    ground: BigRational,
+}
+
+impl RovibDiatomic {
+    /// The molecule with vibration `vib`, rotational constant `be` (> 0),
+    /// vibration–rotation constant `alpha_e` (≥ 0, with B_v > 0 for every
+    /// bound v), centrifugal constant `d_e` (≥ 0, with B_v > 2 D_e for
+    /// every bound v so that J = 1 lies above J = 0) and parity weights.
+    pub fn new(
+        vib: AnharmonicOscillator,
+        be: BigRational,
+        alpha_e: BigRational,
+        d_e: BigRational,
+        weights: ParityWeights,
+    ) -> Result<Self> {
+        if !be.is_positive() {
+            return Err(Error::invalid(
+                "B_e",
+                show(&be),
+                "the rotational constant must be greater than zero",
+            ));
+        }
+        if alpha_e.is_negative() {
+            return Err(Error::invalid(
+                "alpha_e",
+                show(&alpha_e),
+                "the vibration-rotation constant must be zero or positive",
+            ));
+        }
+        if d_e.is_negative() {
+            return Err(Error::invalid(
+                "D_e",
+                show(&d_e),
+                "the centrifugal distortion constant must be zero or positive",
+            ));
+        }
+        if weights.even.is_zero() && weights.odd.is_zero() {
+            return Err(Error::invalid(
+                "parity weights",
+                "0:0",
+                "at least one of the even-J and odd-J weights must be positive",
+            ));
+        }
+        let mut m = RovibDiatomic {
+            vib,
+            be,
+            alpha: alpha_e,
+            d: d_e,
+            weights,
+            ground: BigRational::zero(),
+        };
+        m.check_rotational_constants()?;
+        m.ground = m.find_ground()?;
+        Ok(m)
+    }
+
+    /// B_v > 0 and B_v > 2 D_e at every bound v. B_v falls with v, so the
+    /// last bound level decides; an endless vibrational ladder allows only
+    /// alpha_e = 0.
+    fn check_rotational_constants(&self) -> Result<()> {
+        let v_max = self.vib.v_max();
+        let worst = match v_max {
+            Some(v) => BigInt::from(v),
+            None => BigInt::zero(),
+        };
+        // The first v at which B_v ≤ `limit`: v + 1/2 ≥ (B_e − limit)/alpha_e.
+        let first_below = |limit: &BigRational| -> BigInt {
+            if self.alpha.is_zero() {
+                return BigInt::zero();
+            }
+            let v = ((&self.be - limit) / &self.alpha - half())
+                .ceil()
+                .to_integer();
+            v.max(BigInt::zero())
+        };
+        if v_max.is_none() && self.alpha.is_positive() {
+            let v = first_below(&BigRational::zero());
+            return Err(Error::invalid(
+                "alpha_e",
+                show(&self.alpha),
+                &format!(
+                    "the vibrational ladder has no last bound level (G(v) increases for ever), \
+                     so B_v = B_e - alpha_e (v + 1/2) would reach {} at v = {v}; use alpha_e = 0 \
+                     or a vibration with a last bound level (wexe > 0)",
+                    show(&self.b_big(&v))
+                ),
+            ));
+        }
+        if !self.b_big(&worst).is_positive() {
+            let v = first_below(&BigRational::zero());
+            return Err(Error::invalid(
+                "alpha_e",
+                show(&self.alpha),
+                &format!(
+                    "it makes B_v = B_e - alpha_e (v + 1/2) = {} at v = {v}, and the bound levels \
+                     run to v = {worst}; B_v must stay positive, so alpha_e must be below \
+                     B_e/(v_max + 1/2) = {}",
+                    show(&self.b_big(&v)),
+                    show(&(&self.be / (BigRational::from_integer(worst.clone()) + half())))
+                ),
+            ));
+        }
+        let two_d = int(2) * &self.d;
+        if self.b_big(&worst) <= two_d {
+            let v = first_below(&two_d);
+            let b = self.b_big(&v);
+            return Err(Error::invalid(
+                "D_e",
+                show(&self.d),
+                &format!(
+                    "at v = {v} (B_v = {}) the J = 1 level would not lie above J = 0 \
+                     (E(v,1) - E(v,0) = 2 B_v - 4 D_e = {}), so the centrifugal term leaves no \
+                     rotational ladder; D_e must be below B_v/2 = {} for every bound level",
+                    show(&b),
+                    show(&(int(2) * &b - int(4) * &self.d)),
+                    show(&(&b / int(2)))
+                ),
+            ));
+        }
+        Ok(())
+    }
+
+    /// The lowest level: E(0, 0), or without even-J levels the lowest
+    /// E(v, 1) (v = 0 in any sensible molecule; scanned to be sure).
+    fn find_ground(&self) -> Result<BigRational> {
+        if !self.weights.even.is_zero() {
+            return Ok(self.vib.g(&BigInt::zero()));
+        }
+        let one = BigInt::one();
+        let mut best = self.e_big(&BigInt::zero(), &one);
+        let mut v = BigInt::one();
+        // E(v, 1) > G(v) and G rises with v: once G(v) ≥ best, nothing
+        // further can be lower.
+        while self.vib.v_max().is_none_or(|m| v <= BigInt::from(m)) {
+            if self.vib.g(&v) >= best {
+                return Ok(best);
+            }
+            if v > BigInt::from(GROUND_SCAN_LEVELS) {
+                return Err(Error::invalid(
+                    "B_e",
+                    show(&self.be),
+                    &format!(
+                        "with only odd J present, the lowest level was not found within the \
+                         first {GROUND_SCAN_LEVELS} vibrational levels: B_e is far too large \
+                         for the vibrational spacing"
+                    ),
+                ));
+            }
+            let e = self.e_big(&v, &one);
+            if e < best {
+                best = e;
+            }
+            v += 1;
+        }
+        Ok(best)
+    }
+
+    /// The vibration.
+    pub fn vibration(&self) -> &AnharmonicOscillator {
+        &self.vib
+    }
+
+    /// The equilibrium rotational constant B_e.
+    pub fn b_e(&self) -> &BigRational {
+        &self.be
+    }
+
+    /// The vibration–rotation constant alpha_e.
+    pub fn alpha_e(&self) -> &BigRational {
+        &self.alpha
+    }
+
+    /// The centrifugal distortion constant D_e.
+    pub fn d_e(&self) -> &BigRational {
+        &self.d
+    }
+
+    /// The parity weights.
+    pub fn weights(&self) -> &ParityWeights {
+        &self.weights
+    }
+
+    /// B_v = B_e − alpha_e (v + 1/2), exactly.
+    pub fn b_v(&self, v: u64) -> BigRational {
+        self.b_big(&BigInt::from(v))
+    }
+
+    /// E(v, J) = G(v) + B_v J(J+1) − D_e [J(J+1)]², exactly (whether or
+    /// not the level is listed).
+    pub fn energy(&self, v: u64, j: u64) -> BigRational {
+        self.e_big(&BigInt::from(v), &BigInt::from(j))
+    }
+
+    /// The last rung of the J ladder of level v, the largest J with
+    /// J² < B_v/(2 D_e); `None` when D_e = 0 (the ladder never turns).
+    pub fn j_max(&self, v: u64) -> Option<u64> {
+        self.jmax_big(&BigInt::from(v))
+            .map(|j| j.to_u64().unwrap_or(u64::MAX))
+    }
+
+    fn b_big(&self, v: &BigInt) -> BigRational {
+        &self.be - &self.alpha * (BigRational::from_integer(v.clone()) + half())
+    }
+
+    fn e_big(&self, v: &BigInt, j: &BigInt) -> BigRational {
+        let x = BigRational::from_integer(j * (j + 1u32));
+        self.vib.g(v) + self.b_big(v) * &x - &self.d * &x * &x
+    }
+
+    fn jmax_big(&self, v: &BigInt) -> Option<BigInt> {
+        if self.d.is_zero() {
+            return None;
+        }
+        // J² < q with J² an integer  ⇔  J² ≤ ceil(q) − 1.
+        let q = self.b_big(v) / (int(2) * &self.d);
+        let n = (q.ceil().to_integer() - BigInt::one()).max(BigInt::zero());
+        Some(n.sqrt())
+    }
+
+    /// The highest rung J of level v with E(v, J) ≤ `e`; `None` if even
+    /// G(v) lies above `e`.
+    fn j_top(&self, v: &BigInt, e: &BigRational) -> Option<BigInt> {
+        let g = self.vib.g(v);
+        if &g > e {
+            return None;
+        }
+        let b = self.b_big(v);
+        let hint = self.j_hint(&b, &(e - &g));
+        last_true(|j| &self.e_big(v, j) <= e, self.jmax_big(v).as_ref(), &hint)
+    }
+
+    /// A floating-point guess at the rung reached with rotational energy
+    /// `room` (only a starting point for the exact search).
+    fn j_hint(&self, b: &BigRational, room: &BigRational) -> BigInt {
+        let b = b.to_f64().unwrap_or(0.0);
+        let d = self.d.to_f64().unwrap_or(0.0);
+        let r = room.to_f64().unwrap_or(0.0);
+        let x = if d > 0.0 {
+            let disc = b * b - 4.0 * d * r;
+            if disc >= 0.0 {
+                2.0 * r / (b + disc.sqrt())
+            } else {
+                b / (2.0 * d)
+            }
+        } else {
+            r / b
+        };
+        let j = (((1.0 + 4.0 * x).sqrt() - 1.0) / 2.0).floor();
+        BigInt::from_f64(j)
+            .filter(|j| !j.is_negative())
+            .unwrap_or_default()
+    }
+
+    /// The number of vibrational levels with G(v) ≤ `e`, checked against
+    /// `budget`.
+    fn vib_count(&self, e: &BigRational, budget: &Budget, what: &str) -> Result<u64> {
+        let n = self.vib.count_levels_up_to(e);
+        budget.check(
+            what,
+            n.to_f64().unwrap_or(f64::INFINITY) * LEVEL_BYTES,
+            "give a lower cutoff",
+        )?;
+        n.to_u64()
+            .ok_or_else(|| Error::budget(format!("{what} is beyond zsum; give a lower cutoff")))
+    }
+
+    /// (v, highest J) for every bound v with G(v) ≤ `e`.
+    fn ladders(&self, e: &BigRational, budget: &Budget, what: &str) -> Result<Vec<(u64, u64)>> {
+        let nv = self.vib_count(e, budget, what)?;
+        let mut out = Vec::new();
+        let mut rungs = 0f64;
+        for v in 0..nv {
+            let vb = BigInt::from(v);
+            if let Some(j) = self.j_top(&vb, e) {
+                rungs += j.to_f64().unwrap_or(f64::INFINITY) + 1.0;
+                let j = j
+                    .to_u64()
+                    .filter(|&j| j < 1 << 62)
+                    .ok_or_else(|| Error::budget(format!("{what} is beyond zsum")))?;
+                out.push((v, j));
+            }
+        }
+        budget.check(what, rungs * LEVEL_BYTES * 2.0, "give a lower cutoff")?;
+        Ok(out)
+    }
+
+    fn has_spin_index(&self) -> bool {
+        self.weights.max_weight() > &BigUint::one()
+    }
+
+    /// Σ (2J+1) over the even J and over the odd J in 0..=n, weighted.
+    fn weighted_rungs(&self, n: &BigUint) -> BigUint {
+        // Even J = 2k, k = 0..=K: Σ (4k+1) = (K+1)(2K+1).
+        let k = n / 2u32;
+        let even = (&k + 1u32) * (&k * 2u32 + 1u32);
+        // Odd J = 2k+1, k = 0..=K' (n ≥ 1): Σ (4k+3) = (K'+1)(2K'+3).
+        let odd = if n.is_zero() {
+            BigUint::zero()
+        } else {
+            let k = (n - 1u32) / 2u32;
+            (&k + 1u32) * (&k * 2u32 + 3u32)
+        };
+        even * &self.weights.even + odd * &self.weights.odd
+    }
+}
+
+impl Spectrum for RovibDiatomic {
+    fn describe(&self) -> String {
+        let vib = &self.vib;
+        let mut s = format!(
+            "rotating-vibrating diatomic, we = {}, wexe = {}",
+            show(vib.we()),
+            show(vib.wexe())
+        );
+        if !vib.weye().is_zero() {
+            s += &format!(", weye = {}", show(vib.weye()));
+        }
+        s += &format!(
+            ", B_e = {}, alpha_e = {}, D_e = {} {}",
+            show(&self.be),
+            show(&self.alpha),
+            show(&self.d),
+            vib.unit()
+        );
+        match vib.v_max() {
+            Some(v) => s += &format!(", bound v = 0..{v}"),
+            None => s += ", no last vibrational level",
+        }
+        if self.weights != ParityWeights::uniform() {
+            s += &format!(
+                ", weights even J : odd J = {} : {}",
+                self.weights.even, self.weights.odd
+            );
+        }
+        s
+    }
+
+    fn unit(&self) -> EnergyUnit {
+        self.vib.unit()
+    }
+
+    fn quantum_numbers(&self) -> Vec<String> {
+        let mut q = vec!["v".to_string(), "J".to_string(), "M".to_string()];
+        if self.has_spin_index() {
+            q.push("s".to_string());
+        }
+        q
+    }
+
+    fn ground_energy(&self) -> BigRational {
+        self.ground.clone()
+    }
+
+    fn levels_within(&self, cutoff: &BigRational, budget: &Budget) -> Result<LevelList> {
+        check_cutoff(self, cutoff)?;
+        let what = format!("listing the rovibrational levels up to {}", show(cutoff));
+        let ladders = self.ladders(cutoff, budget, &what)?;
+        let mut levels = Vec::new();
+        for (v, top) in ladders {
+            for j in 0..=top {
+                let w = self.weights.weight(j);
+                if w.is_zero() {
+                    continue;
+                }
+                levels.push(Level::new(self.energy(v, j), BigUint::from(2 * j + 1) * w));
+            }
+        }
+        Ok(LevelList::new(self.unit(), levels))
+    }
+
+    fn states_at(&self, energy: &BigRational) -> Result<Vec<State>> {
+        if energy < &self.ground {
+            return Ok(Vec::new());
+        }
+        let what = format!("finding the states at {}", show(energy));
+        let nv = self.vib_count(energy, &Budget::default(), &what)?;
+        let mut found = Vec::new();
+        let mut total = BigUint::zero();
+        for v in 0..nv {
+            let vb = BigInt::from(v);
+            let Some(j) = self.j_top(&vb, energy) else {
+                continue;
+            };
+            if &self.e_big(&vb, &j) != energy {
+                continue;
+            }
+            let j = j.to_u64().unwrap_or(u64::MAX);
+            let w = self.weights.weight(j);
+            if w.is_zero() {
+                continue;
+            }
+            total += (BigUint::from(j) * 2u32 + 1u32) * w;
+            found.push((v, j, w.clone()));
+        }
+        Budget::default().check(
+            &format!("listing the {total} states at {}", show(energy)),
+            total.to_f64().unwrap_or(f64::INFINITY) * (STATE_BYTES + 32.0),
+            "choose a lower level",
+        )?;
+        let with_s = self.has_spin_index();
+        let mut states = Vec::new();
+        for (v, j, w) in found {
+            let (v, j) = (v as i64, j as i64);
+            let w = w.to_i64().unwrap_or(0);
+            for m in -j..=j {
+                if with_s {
+                    for s in 1..=w {
+                        states.push(State(vec![v, j, m, s]));
+                    }
+                } else {
+                    states.push(State(vec![v, j, m]));
+                }
+            }
+        }
+        states.sort();
+        Ok(states)
+    }
+
+    fn count_bound(&self, energy: &BigRational) -> BigUint {
+        if energy < &self.ground {
+            return BigUint::zero();
+        }
+        let nv = self.vib.count_levels_up_to(energy);
+        if nv <= BigInt::from(EXACT_COUNT_LEVELS) {
+            // Exact: for each bound v the rungs J = 0..=J_top(v) are those
+            // with E(v, J) ≤ E (E rises strictly along the listed ladder),
+            // holding Σ (2J+1) g(J) states in closed form.
+            let nv = nv.to_u64().unwrap_or(0);
+            let mut n = BigUint::zero();
+            for v in 0..nv {
+                if let Some(j) = self.j_top(&BigInt::from(v), energy) {
+                    n += self.weighted_rungs(&j.to_biguint().unwrap_or_default());
+                }
+            }
+            return n;
+        }
+        // Too many vibrational levels to sum: a rigorous bound. Each of the
+        // nv levels v with G(v) ≤ E has rungs J ≤ J_b, where with D_e > 0,
+        // J ≤ J_max(v) ≤ J_max(0) (J_max grows with B_v and B_v ≤ B_0), and
+        // with D_e = 0, B_min J(J+1) ≤ B_v J(J+1) = E(v,J) − G(v) ≤ E − G(0)
+        // (B_min = B_v at the last of those v, G(v) ≥ G(0)). A ladder J ≤ J_b
+        // holds at most Σ (2J+1) g_max = (J_b+1)² g_max states.
+        let zero = BigInt::zero();
+        let jb = match self.jmax_big(&zero) {
+            Some(j) => j,
+            None => {
+                let b_min = self.b_big(&(&nv - 1u32));
+                let room = energy - self.vib.g(&zero);
+                last_true(
+                    |j| &b_min * BigRational::from_integer(j * (j + 1u32)) <= room,
+                    None,
+                    &zero,
+                )
+                .unwrap_or_default()
+            }
+        };
+        let per = num_traits::pow(jb.to_biguint().unwrap_or_default() + 1u32, 2);
+        nv.to_biguint().unwrap_or_default() * per * self.weights.max_weight()
+    }
+
+    fn warnings(&self, cutoff: &BigRational) -> Vec<String> {
+        let mut out = Vec::new();
+        if let Some(v) = self.vib.v_max() {
+            let g = self.vib.term_value(v);
+            if cutoff > &g {
+                out.push(format!(
+                    "vibrational levels end at v = {v}, the last bound level; G({v}) = {} {}, \
+                     below the cutoff {} (only rotation carries levels above it)",
+                    show(&g),
+                    self.unit(),
+                    show(cutoff)
+                ));
+            }
+        }
+        if self.d.is_zero() {
+            return out;
+        }
+        let nv = self
+            .vib
+            .count_levels_up_to(cutoff)
+            .to_u64()
+            .unwrap_or(u64::MAX);
+        let scanned = nv.min(WARNING_SCAN_LEVELS);
+        let mut stopped = Vec::new();
+        for v in 0..scanned {
+            if let Some(j) = self.j_max(v) {
+                let e = self.energy(v, j);
+                if &e <= cutoff {
+                    stopped.push(format!("v = {v} at J = {j} (E = {})", show(&e)));
+                }
+            }
+        }
+        if !stopped.is_empty() {
+            let n = stopped.len();
+            let mut list = stopped.into_iter().take(5).collect::<Vec<_>>().join(", ");
+            if n > 5 {
+                list += &format!(" and {} more", n - 5);
+            }
+            let note = if scanned < nv {
+                format!(" (the first {scanned} vibrational levels examined)")
+            } else {
+                String::new()
+            };
+            out.push(format!(
+                "the centrifugal term stops E(v, J) increasing with J below the cutoff {} {}, so \
+                 these J ladders end early and no levels are listed beyond them: {list}{note}",
+                show(cutoff),
+                self.unit()
+            ));
+        }
+        out
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn weighted_rungs_match_a_direct_sum() {
+        let w = ParityWeights::new(BigUint::from(2u32), BigUint::from(5u32)).unwrap();
+        let vib =
+            AnharmonicOscillator::new(int(1000), int(10), int(0), EnergyUnit::Kelvin).unwrap();
+        let m = RovibDiatomic::new(vib, int(1), int(0), int(0), w.clone()).unwrap();
+        for n in 0u64..20 {
+            let direct: BigUint = (0..=n)
+                .map(|j| BigUint::from(2 * j + 1) * w.weight(j))
+                .sum();
+            assert_eq!(m.weighted_rungs(&BigUint::from(n)), direct, "n = {n}");
+        }
+    }
+
+    #[test]
+    fn j_max_is_the_last_rising_rung() {
+        let vib =
+            AnharmonicOscillator::new(int(1000), int(10), int(0), EnergyUnit::Kelvin).unwrap();
+        let d = BigRational::new(1.into(), 50.into());
+        let m = RovibDiatomic::new(vib, int(2), int(0), d, ParityWeights::uniform()).unwrap();
+        // B/(2D) = 50: J² < 50 ⇔ J ≤ 7.
+        assert_eq!(m.j_max(0), Some(7));
+        for j in 0..7 {
+            assert!(m.energy(0, j + 1) > m.energy(0, j));
+        }
+        assert!(m.energy(0, 8) <= m.energy(0, 7));
+    }
+}

@@ -1,0 +1,676 @@
+//! Rotors: the linear rotor (rigid or with centrifugal distortion, with
+//! optional parity-dependent nuclear-spin weights), the symmetric top
+//! (prolate or oblate) and the spherical top.
+//!
+//! Energies are exact rationals in the unit the constants are given in:
+//!
+//! ```text
+//! linear:     E(J)    = B x − D x² + H x³,              x = J(J+1), g = (2J+1)·w(J)
+//! symmetric:  E(J,K)  = B x + (A−B) K² − D_J x² − D_JK x K² − D_K K⁴   (A → C for oblate)
+//!                       g = 2J+1 for each signed K, K = −J..J
+//! spherical:  E(J)    = B x − D x²,                     g = (2J+1)²
+//! ```
+//!
+//! # Where the energy stops increasing
+//! A positive D makes E(J) fall again for large J; past that point the
+//! expansion means nothing. zsum lists levels only while E(J+1) > E(J) and,
+//! when the cutoff lies beyond the last such level, says so through
+//! [`Spectrum::warnings`] instead of listing meaningless levels.
+
+use crate::error::{Error, Result};
+use crate::exact::exact_decimal;
+use crate::level::{Level, LevelList};
+use crate::models::diatomic::ParityWeights;
+use crate::spectrum::{check_cutoff, Budget, Spectrum, State};
+use crate::units::EnergyUnit;
+use num_bigint::{BigInt, BigUint};
+use num_rational::BigRational;
+use num_traits::{Signed, ToPrimitive, Zero};
+
+/// The rungs kept and, if the ladder turned over, the last J before it did.
+pub(crate) type Rungs = (Vec<(u64, BigRational)>, Option<u64>);
+
+/// Bytes per listed level (exact energy and degeneracy).
+const LEVEL_BYTES: f64 = 128.0;
+
+fn int(n: u64) -> BigRational {
+    BigRational::from_integer(BigInt::from(n))
+}
+
+fn positive(what: &str, v: &BigRational) -> Result<()> {
+    if v.is_positive() {
+        Ok(())
+    } else {
+        Err(Error::invalid(
+            what,
+            exact_decimal(v, 30),
+            "it must be greater than zero",
+        ))
+    }
+}
+
+fn non_negative(what: &str, v: &BigRational) -> Result<()> {
+    if v.is_negative() {
+        Err(Error::invalid(
+            what,
+            exact_decimal(v, 30),
+            "it must be zero or positive",
+        ))
+    } else {
+        Ok(())
+    }
+}
+
+/// The rungs of a ladder `E(J)`, J = 0, 1, ..., up to `cutoff`, kept only
+/// while the energy increases. Returns the rungs and, if the ladder turned
+/// over below the cutoff, the last J before it did.
+pub(crate) fn ladder(
+    energy: impl Fn(u64) -> BigRational,
+    cutoff: &BigRational,
+    max_rungs: u64,
+) -> Result<Rungs> {
+    let mut out = Vec::new();
+    let mut j = 0u64;
+    let mut e = energy(0);
+    while &e <= cutoff {
+        if j >= max_rungs {
+            return Err(Error::budget(format!(
+                "the ladder reaches J = {j} below the cutoff {}; more than {max_rungs} rungs \
+                 would exceed the memory budget: give a lower cutoff",
+                exact_decimal(cutoff, 30)
+            )));
+        }
+        let next = energy(j + 1);
+        out.push((j, e.clone()));
+        if next <= e {
+            return Ok((out, Some(j)));
+        }
+        e = next;
+        j += 1;
+    }
+    Ok((out, None))
+}
+
+/// How many rungs a budget allows.
+fn max_rungs(budget: &Budget) -> u64 {
+    (budget.limit() as f64 / LEVEL_BYTES) as u64
+}
+
+fn turnover_warning(what: &str, j: u64, e: &BigRational, unit: &EnergyUnit) -> String {
+    format!(
+        "{what}: the energy stops increasing after J = {j} (E = {} {unit}) because of the \
+         centrifugal terms; no levels are listed beyond it",
+        exact_decimal(e, 30)
+    )
+}
+
+/// A linear rotor, rigid or with centrifugal distortion, with optional
+/// parity-dependent weights (nuclear-spin statistics).
+///
+/// ```
+/// use zsum::models::rotor::LinearRotor;
+/// use zsum::spectrum::Spectrum;
+/// use zsum::exact::parse_rational;
+/// use zsum::units::EnergyUnit;
+/// let r = LinearRotor::rigid(parse_rational("2").unwrap(), EnergyUnit::Wavenumber).unwrap();
+/// // J = 0..3 lie at or below 24: (3+1)^2 = 16 states.
+/// assert_eq!(r.levels_up_to(&parse_rational("24").unwrap()).unwrap().total_states(), 16u32.into());
+/// ```
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct LinearRotor {
+    b: BigRational,
+    d: BigRational,
+    h: BigRational,
+    unit: EnergyUnit,
+    weights: ParityWeights,
+}
+
+impl LinearRotor {
+    /// A rotor with rotational constant `b`, centrifugal constants `d` and
+    /// `h` (zero for a rigid rotor), all in `unit`.
+    pub fn new(b: BigRational, d: BigRational, h: BigRational, unit: EnergyUnit) -> Result<Self> {
+        positive("rotational constant B", &b)?;
+        non_negative("centrifugal constant D", &d)?;
+        let r = LinearRotor {
+            b,
+            d,
+            h,
+            unit,
+            weights: ParityWeights::uniform(),
+        };
+        // Some level above the ground must be bound: E(1) > E(0).
+        if r.energy(1) <= r.energy(0) {
+            return Err(Error::invalid(
+                "centrifugal constant D",
+                exact_decimal(&r.d, 30),
+                "it is so large that E(J=1) does not lie above E(J=0); no rotational level is bound",
+            ));
+        }
+        Ok(r)
+    }
+
+    /// A rigid rotor with rotational constant `b`.
+    pub fn rigid(b: BigRational, unit: EnergyUnit) -> Result<Self> {
+        LinearRotor::new(b, BigRational::zero(), BigRational::zero(), unit)
+    }
+
+    /// The same rotor with parity-dependent weights: level J gets
+    /// `(2J+1) · weights.weight(J)` states.
+    pub fn with_weights(mut self, weights: ParityWeights) -> Self {
+        self.weights = weights;
+        self
+    }
+
+    /// The parity weights in force.
+    pub fn weights(&self) -> &ParityWeights {
+        &self.weights
+    }
+
+    /// The rotational constant B.
+    pub fn b(&self) -> &BigRational {
+        &self.b
+    }
+
+    /// Only the levels of one parity of J (`even = true` for J even), with
+    /// the same weights: the ortho or para modification.
+    pub fn only_parity(&self, even: bool) -> Self {
+        let (e, o) = (
+            self.weights.weight(0).clone(),
+            self.weights.weight(1).clone(),
+        );
+        let w = if even {
+            ParityWeights::new_unchecked(e, BigUint::zero())
+        } else {
+            ParityWeights::new_unchecked(BigUint::zero(), o)
+        };
+        self.clone().with_weights(w)
+    }
+
+    /// E(J), exactly.
+    pub fn energy(&self, j: u64) -> BigRational {
+        let x = int(j * (j + 1));
+        let x2 = &x * &x;
+        &self.b * &x - &self.d * &x2 + &self.h * &x2 * &x
+    }
+
+    fn rungs(&self, cutoff: &BigRational, budget: &Budget) -> Result<Rungs> {
+        ladder(|j| self.energy(j), cutoff, max_rungs(budget))
+    }
+
+    fn has_spin_index(&self) -> bool {
+        self.weights.weight(0) > &BigUint::from(1u8) || self.weights.weight(1) > &BigUint::from(1u8)
+    }
+}
+
+/// States (J, M[, s]) of one rung of a linear ladder.
+fn linear_states(j: u64, w: &BigUint, with_s: bool) -> Result<Vec<State>> {
+    let w = w.to_u64().filter(|&w| w <= 1_000_000).ok_or_else(|| {
+        Error::budget(format!(
+            "level J = {j} has a weight {w} too large to list its states"
+        ))
+    })?;
+    let j = j as i64;
+    let mut out = Vec::new();
+    for m in -j..=j {
+        if with_s {
+            for s in 1..=w as i64 {
+                out.push(State(vec![j, m, s]));
+            }
+        } else if w > 0 {
+            out.push(State(vec![j, m]));
+        }
+    }
+    Ok(out)
+}
+
+impl Spectrum for LinearRotor {
+    fn describe(&self) -> String {
+        let kind = if self.d.is_zero() && self.h.is_zero() {
+            "rigid linear rotor"
+        } else {
+            "nonrigid linear rotor"
+        };
+        format!(
+            "{kind}, B = {} {}{}",
+            exact_decimal(&self.b, 30),
+            self.unit,
+            if self.weights == ParityWeights::uniform() {
+                String::new()
+            } else {
+                format!(
+                    ", weights even J : odd J = {} : {}",
+                    self.weights.weight(0),
+                    self.weights.weight(1)
+                )
+            }
+        )
+    }
+
+    fn unit(&self) -> EnergyUnit {
+        self.unit.clone()
+    }
+
+    fn quantum_numbers(&self) -> Vec<String> {
+        let mut q = vec!["J".to_string(), "M".to_string()];
+        if self.has_spin_index() {
+            q.push("s".into());
+        }
+        q
+    }
+
+    fn ground_energy(&self) -> BigRational {
+        // The lowest J with a non-zero weight: 0 or 1.
+        if self.weights.weight(0).is_zero() {
+            self.energy(1)
+        } else {
+            self.energy(0)
+        }
+    }
+
+    fn levels_within(&self, cutoff: &BigRational, budget: &Budget) -> Result<LevelList> {
+        check_cutoff(self, cutoff)?;
+        let (rungs, _) = self.rungs(cutoff, budget)?;
+        let levels = rungs
+            .into_iter()
+            .map(|(j, e)| Level::new(e, BigUint::from(2 * j + 1) * self.weights.weight(j)))
+            .filter(|l| !l.degeneracy.is_zero())
+            .collect();
+        Ok(LevelList::from_sorted(self.unit.clone(), levels))
+    }
+
+    fn states_at(&self, energy: &BigRational) -> Result<Vec<State>> {
+        let (rungs, _) = self.rungs(energy, &Budget::default())?;
+        match rungs.last() {
+            Some((j, e)) if e == energy => {
+                linear_states(*j, self.weights.weight(*j), self.has_spin_index())
+            }
+            _ => Ok(Vec::new()),
+        }
+    }
+
+    fn count_bound(&self, energy: &BigRational) -> BigUint {
+        // Exact: the ladder is finite below any energy.
+        match self.rungs(energy, &Budget::default()) {
+            Ok((rungs, _)) => rungs
+                .iter()
+                .map(|(j, _)| BigUint::from(2 * j + 1) * self.weights.weight(*j))
+                .sum(),
+            Err(_) => BigUint::from(u64::MAX),
+        }
+    }
+
+    fn warnings(&self, cutoff: &BigRational) -> Vec<String> {
+        match self.rungs(cutoff, &Budget::default()) {
+            Ok((rungs, Some(j))) => vec![turnover_warning(
+                "linear rotor",
+                j,
+                &rungs[j as usize].1,
+                &self.unit,
+            )],
+            _ => Vec::new(),
+        }
+    }
+}
+
+/// Prolate (A > B, the unique axis has the smallest moment) or oblate
+/// (C < B) symmetric top.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum TopShape {
+    /// Cigar-like: E = B J(J+1) + (A−B) K², A > B.
+    Prolate,
+    /// Disc-like: E = B J(J+1) + (C−B) K², 0 < C < B.
+    Oblate,
+}
+
+/// A symmetric top with optional centrifugal distortion.
+///
+/// ```
+/// use zsum::models::rotor::{SymmetricTop, TopShape};
+/// use zsum::spectrum::Spectrum;
+/// use zsum::exact::parse_rational;
+/// use zsum::units::EnergyUnit;
+/// let r = |s: &str| parse_rational(s).unwrap();
+/// let top = SymmetricTop::rigid(TopShape::Prolate, r("5"), r("1"), EnergyUnit::Wavenumber).unwrap();
+/// // J=0 (1 state), J=1 K=0 at 2 (3 states); at 6 both J=1, |K|=1
+/// // (2·3 states) and J=2, K=0 (5 states).
+/// let l = top.levels_up_to(&r("6")).unwrap();
+/// assert_eq!(l.total_states(), 15u32.into());
+/// ```
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct SymmetricTop {
+    shape: TopShape,
+    /// A (prolate) or C (oblate).
+    unique: BigRational,
+    b: BigRational,
+    dj: BigRational,
+    djk: BigRational,
+    dk: BigRational,
+    unit: EnergyUnit,
+}
+
+impl SymmetricTop {
+    /// A top with the unique-axis constant `unique` (A for prolate, C for
+    /// oblate), `b`, and distortion constants D_J, D_JK, D_K (zero for rigid).
+    #[allow(clippy::too_many_arguments)]
+    pub fn new(
+        shape: TopShape,
+        unique: BigRational,
+        b: BigRational,
+        dj: BigRational,
+        djk: BigRational,
+        dk: BigRational,
+        unit: EnergyUnit,
+    ) -> Result<Self> {
+        positive("rotational constant B", &b)?;
+        match shape {
+            TopShape::Prolate if unique <= b => {
+                return Err(Error::invalid(
+                    "rotational constant A",
+                    exact_decimal(&unique, 30),
+                    &format!(
+                        "a prolate top needs A > B = {}; for A = B use the spherical top",
+                        exact_decimal(&b, 30)
+                    ),
+                ))
+            }
+            TopShape::Oblate if !(unique.is_positive() && unique < b) => {
+                return Err(Error::invalid(
+                    "rotational constant C",
+                    exact_decimal(&unique, 30),
+                    &format!("an oblate top needs 0 < C < B = {}", exact_decimal(&b, 30)),
+                ))
+            }
+            _ => {}
+        }
+        non_negative("centrifugal constant D_J", &dj)?;
+        non_negative("centrifugal constant D_K", &dk)?;
+        let top = SymmetricTop {
+            shape,
+            unique,
+            b,
+            dj,
+            djk,
+            dk,
+            unit,
+        };
+        if top.energy(1, 0) <= top.energy(0, 0) {
+            return Err(Error::invalid(
+                "centrifugal constant D_J",
+                exact_decimal(&top.dj, 30),
+                "it is so large that E(J=1) does not lie above E(J=0); no level is bound",
+            ));
+        }
+        Ok(top)
+    }
+
+    /// A rigid symmetric top.
+    pub fn rigid(
+        shape: TopShape,
+        unique: BigRational,
+        b: BigRational,
+        unit: EnergyUnit,
+    ) -> Result<Self> {
+        let z = BigRational::zero();
+        SymmetricTop::new(shape, unique, b, z.clone(), z.clone(), z, unit)
+    }
+
+    /// E(J, K), exactly (depends on |K| only).
+    pub fn energy(&self, j: u64, k: u64) -> BigRational {
+        let x = int(j * (j + 1));
+        let k2 = int(k * k);
+        &self.b * &x + (&self.unique - &self.b) * &k2
+            - &self.dj * &x * &x
+            - &self.djk * &x * &k2
+            - &self.dk * &k2 * &k2
+    }
+
+    /// For each J, the |K| values kept (energy increasing in |K| for a
+    /// prolate top), their energies, and the J ladder's turnover.
+    #[allow(clippy::type_complexity)]
+    fn rows(
+        &self,
+        cutoff: &BigRational,
+        budget: &Budget,
+    ) -> Result<(Vec<(u64, u64, BigRational)>, Vec<String>)> {
+        let mut out = Vec::new();
+        let mut notes = Vec::new();
+        let limit = max_rungs(budget);
+        let mut prev_min: Option<BigRational> = None;
+        for j in 0u64.. {
+            let mut row_min: Option<BigRational> = None;
+            let mut prev_k: Option<BigRational> = None;
+            for k in 0..=j {
+                let e = self.energy(j, k);
+                if self.shape == TopShape::Prolate {
+                    if let Some(p) = &prev_k {
+                        if &e <= p {
+                            if notes.is_empty() {
+                                notes.push(format!(
+                                    "symmetric top: at J = {j} the energy stops increasing with |K| \
+                                     after |K| = {} because of the centrifugal terms; higher |K| are \
+                                     not listed",
+                                    k - 1
+                                ));
+                            }
+                            break;
+                        }
+                    }
+                }
+                if row_min.as_ref().is_none_or(|m| &e < m) {
+                    row_min = Some(e.clone());
+                }
+                if &e <= cutoff {
+                    out.push((j, k, e.clone()));
+                    if out.len() as u64 > limit {
+                        return Err(Error::budget(format!(
+                            "listing the top's levels up to {} exceeds the memory budget: give a \
+                             lower cutoff",
+                            exact_decimal(cutoff, 30)
+                        )));
+                    }
+                }
+                prev_k = Some(e);
+            }
+            let row_min = row_min.expect("J row has K = 0");
+            if let Some(p) = &prev_min {
+                if &row_min <= p {
+                    notes.push(format!(
+                        "symmetric top: the lowest energy of each J stops increasing after J = {} \
+                         because of the centrifugal terms; no levels are listed beyond it",
+                        j - 1
+                    ));
+                    out.retain(|(jj, _, _)| *jj < j);
+                    break;
+                }
+            }
+            if &row_min > cutoff {
+                break;
+            }
+            prev_min = Some(row_min);
+        }
+        Ok((out, notes))
+    }
+}
+
+impl Spectrum for SymmetricTop {
+    fn describe(&self) -> String {
+        let (shape, letter) = match self.shape {
+            TopShape::Prolate => ("prolate", "A"),
+            TopShape::Oblate => ("oblate", "C"),
+        };
+        format!(
+            "{shape} symmetric top, {letter} = {} {u}, B = {} {u}",
+            exact_decimal(&self.unique, 30),
+            exact_decimal(&self.b, 30),
+            u = self.unit
+        )
+    }
+
+    fn unit(&self) -> EnergyUnit {
+        self.unit.clone()
+    }
+
+    fn quantum_numbers(&self) -> Vec<String> {
+        ["J", "K", "M"].map(String::from).to_vec()
+    }
+
+    fn ground_energy(&self) -> BigRational {
+        BigRational::zero()
+    }
+
+    fn levels_within(&self, cutoff: &BigRational, budget: &Budget) -> Result<LevelList> {
+        check_cutoff(self, cutoff)?;
+        let (rows, _) = self.rows(cutoff, budget)?;
+        let levels = rows
+            .into_iter()
+            .map(|(j, k, e)| {
+                let signs = if k == 0 { 1u64 } else { 2 };
+                Level::new(e, BigUint::from(signs * (2 * j + 1)))
+            })
+            .collect();
+        Ok(LevelList::new(self.unit.clone(), levels))
+    }
+
+    fn states_at(&self, energy: &BigRational) -> Result<Vec<State>> {
+        if energy.is_negative() {
+            return Ok(Vec::new());
+        }
+        let (rows, _) = self.rows(energy, &Budget::default())?;
+        let mut out = Vec::new();
+        for (j, k, e) in rows {
+            if &e == energy {
+                let (j, k) = (j as i64, k as i64);
+                let ks: Vec<i64> = if k == 0 { vec![0] } else { vec![-k, k] };
+                for kk in ks {
+                    for m in -j..=j {
+                        out.push(State(vec![j, kk, m]));
+                    }
+                }
+            }
+        }
+        out.sort();
+        Ok(out)
+    }
+
+    fn count_bound(&self, energy: &BigRational) -> BigUint {
+        if energy.is_negative() {
+            return BigUint::zero();
+        }
+        self.levels_up_to(energy)
+            .map(|l| l.total_states())
+            .unwrap_or_else(|_| BigUint::from(u64::MAX))
+    }
+
+    fn warnings(&self, cutoff: &BigRational) -> Vec<String> {
+        self.rows(cutoff, &Budget::default())
+            .map(|(_, n)| n)
+            .unwrap_or_default()
+    }
+}
+
+/// A spherical top: E = B J(J+1) − D [J(J+1)]², (2J+1)² states per J.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct SphericalTop {
+    b: BigRational,
+    d: BigRational,
+    unit: EnergyUnit,
+}
+
+impl SphericalTop {
+    /// A spherical top with constant `b` and centrifugal constant `d`
+    /// (zero for rigid).
+    pub fn new(b: BigRational, d: BigRational, unit: EnergyUnit) -> Result<Self> {
+        positive("rotational constant B", &b)?;
+        non_negative("centrifugal constant D", &d)?;
+        let t = SphericalTop { b, d, unit };
+        if t.energy(1) <= t.energy(0) {
+            return Err(Error::invalid(
+                "centrifugal constant D",
+                exact_decimal(&t.d, 30),
+                "it is so large that E(J=1) does not lie above E(J=0); no level is bound",
+            ));
+        }
+        Ok(t)
+    }
+
+    /// E(J), exactly.
+    pub fn energy(&self, j: u64) -> BigRational {
+        let x = int(j * (j + 1));
+        &self.b * &x - &self.d * &x * &x
+    }
+
+    fn rungs(&self, cutoff: &BigRational, budget: &Budget) -> Result<Rungs> {
+        ladder(|j| self.energy(j), cutoff, max_rungs(budget))
+    }
+}
+
+impl Spectrum for SphericalTop {
+    fn describe(&self) -> String {
+        format!(
+            "spherical top, B = {} {}",
+            exact_decimal(&self.b, 30),
+            self.unit
+        )
+    }
+
+    fn unit(&self) -> EnergyUnit {
+        self.unit.clone()
+    }
+
+    fn quantum_numbers(&self) -> Vec<String> {
+        ["J", "K", "M"].map(String::from).to_vec()
+    }
+
+    fn ground_energy(&self) -> BigRational {
+        BigRational::zero()
+    }
+
+    fn levels_within(&self, cutoff: &BigRational, budget: &Budget) -> Result<LevelList> {
+        check_cutoff(self, cutoff)?;
+        let (rungs, _) = self.rungs(cutoff, budget)?;
+        let levels = rungs
+            .into_iter()
+            .map(|(j, e)| Level::new(e, BigUint::from((2 * j + 1) * (2 * j + 1))))
+            .collect();
+        Ok(LevelList::from_sorted(self.unit.clone(), levels))
+    }
+
+    fn states_at(&self, energy: &BigRational) -> Result<Vec<State>> {
+        let (rungs, _) = self.rungs(energy, &Budget::default())?;
+        match rungs.last() {
+            Some((j, e)) if e == energy => {
+                let j = *j as i64;
+                let mut out = Vec::new();
+                for k in -j..=j {
+                    for m in -j..=j {
+                        out.push(State(vec![j, k, m]));
+                    }
+                }
+                Ok(out)
+            }
+            _ => Ok(Vec::new()),
+        }
+    }
+
+    fn count_bound(&self, energy: &BigRational) -> BigUint {
+        match self.rungs(energy, &Budget::default()) {
+            Ok((rungs, _)) => rungs
+                .iter()
+                .map(|(j, _)| BigUint::from((2 * j + 1) * (2 * j + 1)))
+                .sum(),
+            Err(_) => BigUint::from(u64::MAX),
+        }
+    }
+
+    fn warnings(&self, cutoff: &BigRational) -> Vec<String> {
+        match self.rungs(cutoff, &Budget::default()) {
+            Ok((rungs, Some(j))) => vec![turnover_warning(
+                "spherical top",
+                j,
+                &rungs[j as usize].1,
+                &self.unit,
+            )],
+            _ => Vec::new(),
+        }
+    }
+}
