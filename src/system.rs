@@ -46,6 +46,7 @@ use crate::models::rotor::{LinearRotor, SphericalTop, SymmetricTop, TopShape};
 use crate::models::zeeman::ZeemanMultiplet;
 use crate::models::ParticleInBox;
 use crate::spectrum::Spectrum;
+pub use crate::units::parse_energy;
 use crate::units::{parse_length_m, parse_mass_kg, EnergyUnit};
 use num_bigint::BigUint;
 use num_rational::BigRational;
@@ -361,39 +362,6 @@ impl PartReader<'_> {
             }
         }
     }
-}
-
-/// Reads `"<number> <unit>"` (or `"<number><unit>"`) as an exact energy.
-pub fn parse_energy(text: &str) -> Result<(BigRational, EnergyUnit)> {
-    let t = text.trim();
-    let cut = t
-        .char_indices()
-        .find(|&(i, c)| {
-            (c.is_alphabetic() && !((c == 'e' || c == 'E') && is_exponent(t, i))) || c == ' '
-        })
-        .map(|(i, _)| i)
-        .ok_or_else(|| {
-            Error::parse(
-                "energy",
-                text,
-                "a number with a unit, e.g. \"1.99824 cm-1\" (units J, eV, meV, cm-1, K, kJ/mol)",
-            )
-        })?;
-    let value = parse_rational(&t[..cut])?;
-    let unit = EnergyUnit::parse(t[cut..].trim())?;
-    Ok((value, unit))
-}
-
-fn is_exponent(t: &str, i: usize) -> bool {
-    let before = t[..i]
-        .chars()
-        .last()
-        .is_some_and(|c| c.is_ascii_digit() || c == '.');
-    let after = t[i + 1..]
-        .chars()
-        .next()
-        .is_some_and(|c| c.is_ascii_digit() || c == '-' || c == '+');
-    before && after
 }
 
 /// Reads a nuclear spin I (0, 1/2, 1, 3/2, ...) and returns 2I.

@@ -198,13 +198,17 @@ impl fmt::Display for EnergyUnit {
     }
 }
 
-/// Splits `"4.0026u"` or `"10 nm"` into its number and its unit text.
-fn split_quantity(text: &str) -> (&str, &str) {
+/// Splits `"4.0026u"`, `"10 nm"` or `"2000 1/cm"` into its number and its
+/// unit text: the number ends at the first space or the first letter that
+/// is not an exponent marker.
+pub(crate) fn split_quantity(text: &str) -> (&str, &str) {
     let t = text.trim();
     let cut = t
         .char_indices()
         .find(|&(i, c)| {
-            c.is_alphabetic() && !((c == 'e' || c == 'E') && exponent_position(t, i)) || c == 'Å'
+            c.is_whitespace()
+                || c == 'Å'
+                || (c.is_alphabetic() && !((c == 'e' || c == 'E') && exponent_position(t, i)))
         })
         .map(|(i, _)| i)
         .unwrap_or(t.len());
@@ -223,6 +227,26 @@ fn exponent_position(t: &str, i: usize) -> bool {
         .next()
         .is_some_and(|c| c.is_ascii_digit() || c == '-' || c == '+');
     before && after
+}
+
+/// Reads an energy with its unit, `"1.99824 cm-1"` or `"300K"`, exactly.
+///
+/// ```
+/// use zsum::units::{parse_energy, EnergyUnit};
+/// let (v, u) = parse_energy("2000 1/cm").unwrap();
+/// assert_eq!(u, EnergyUnit::Wavenumber);
+/// assert_eq!(v, num_rational::BigRational::from_integer(2000.into()));
+/// ```
+pub fn parse_energy(text: &str) -> Result<(BigRational, EnergyUnit)> {
+    let (num, unit) = split_quantity(text);
+    if unit.is_empty() {
+        return Err(Error::parse(
+            "energy",
+            text,
+            "a number with a unit, e.g. \"1.99824 cm-1\" (units J, eV, meV, cm-1, K, kJ/mol)",
+        ));
+    }
+    Ok((parse_rational(num)?, EnergyUnit::parse(unit)?))
 }
 
 fn positive_quantity(
