@@ -91,6 +91,43 @@ pub(crate) fn ladder(
     Ok((out, None))
 }
 
+/// Refuses a ladder whose estimated number of rungs exceeds the budget,
+/// before any arithmetic: `j_est` is an estimate of the highest J reached.
+fn check_rungs(what: &str, j_est: f64, cutoff: &BigRational, budget: &Budget) -> Result<()> {
+    budget.check(
+        &format!(
+            "listing the {what} levels up to {}",
+            exact_decimal(cutoff, 30)
+        ),
+        (j_est + 1.0) * LEVEL_BYTES,
+        "give a lower cutoff",
+    )
+}
+
+/// sqrt(cutoff / b) as a float estimate of the highest J of a ladder B J(J+1).
+fn j_estimate(cutoff: &BigRational, b: &BigRational) -> f64 {
+    let c = cutoff.to_f64().unwrap_or(f64::INFINITY).max(0.0);
+    let b = b
+        .to_f64()
+        .unwrap_or(f64::MIN_POSITIVE)
+        .max(f64::MIN_POSITIVE);
+    (c / b).sqrt()
+}
+
+/// Where a centrifugal term D turns the ladder over: J ≈ sqrt(B/(2D)).
+fn turnover_estimate(b: &BigRational, d: &BigRational) -> f64 {
+    if d.is_positive() {
+        let b = b.to_f64().unwrap_or(f64::INFINITY);
+        let d = d
+            .to_f64()
+            .unwrap_or(f64::MIN_POSITIVE)
+            .max(f64::MIN_POSITIVE);
+        (b / (2.0 * d)).sqrt() + 1.0
+    } else {
+        f64::INFINITY
+    }
+}
+
 /// How many rungs a budget allows.
 fn max_rungs(budget: &Budget) -> u64 {
     (budget.limit() as f64 / LEVEL_BYTES) as u64
@@ -194,6 +231,12 @@ impl LinearRotor {
     }
 
     fn rungs(&self, cutoff: &BigRational, budget: &Budget) -> Result<Rungs> {
+        let est = if self.h.is_zero() {
+            j_estimate(cutoff, &self.b).min(turnover_estimate(&self.b, &self.d))
+        } else {
+            j_estimate(cutoff, &self.b)
+        };
+        check_rungs("rotor", est, cutoff, budget)?;
         ladder(|j| self.energy(j), cutoff, max_rungs(budget))
     }
 
@@ -432,6 +475,22 @@ impl SymmetricTop {
         cutoff: &BigRational,
         budget: &Budget,
     ) -> Result<(Vec<(u64, u64, BigRational)>, Vec<String>)> {
+        // Estimate the (J, |K|) rows first: J up to where the lowest energy
+        // of a J row passes the cutoff (K = 0 for prolate, K = J for oblate,
+        // where E ≥ C J²), each row with at most J + 1 values of |K|.
+        let lowest = match self.shape {
+            TopShape::Prolate => &self.b,
+            TopShape::Oblate => &self.unique,
+        };
+        let j_est = j_estimate(cutoff, lowest).min(turnover_estimate(&self.b, &self.dj));
+        budget.check(
+            &format!(
+                "listing the top's levels up to {}",
+                exact_decimal(cutoff, 30)
+            ),
+            (j_est + 1.0) * (j_est + 2.0) / 2.0 * LEVEL_BYTES,
+            "give a lower cutoff",
+        )?;
         let mut out = Vec::new();
         let mut notes = Vec::new();
         let limit = max_rungs(budget);
@@ -600,6 +659,8 @@ impl SphericalTop {
     }
 
     fn rungs(&self, cutoff: &BigRational, budget: &Budget) -> Result<Rungs> {
+        let est = j_estimate(cutoff, &self.b).min(turnover_estimate(&self.b, &self.d));
+        check_rungs("spherical top", est, cutoff, budget)?;
         ladder(|j| self.energy(j), cutoff, max_rungs(budget))
     }
 }
