@@ -222,6 +222,10 @@ fn cli_refuses_bad_model_input_with_status_2() {
             "x.toml",
         ),
         (vec!["levels"], "model"),
+        // Oversized ladders are refused from an estimate, not after hours of
+        // arithmetic (regression: these once ran until stopped).
+        (vec!["levels", "rotor", "--B", "1", "--up-to", "1e300"], "budget"),
+        (vec!["levels", "top", "--C", "0.1", "--B", "1", "--up-to", "1e12"], "budget"),
     ] {
         let (code, out, err) = zsum(&args);
         assert_eq!(code, 2, "{args:?}");
