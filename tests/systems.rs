@@ -224,8 +224,14 @@ fn cli_refuses_bad_model_input_with_status_2() {
         (vec!["levels"], "model"),
         // Oversized ladders are refused from an estimate, not after hours of
         // arithmetic (regression: these once ran until stopped).
-        (vec!["levels", "rotor", "--B", "1", "--up-to", "1e300"], "budget"),
-        (vec!["levels", "top", "--C", "0.1", "--B", "1", "--up-to", "1e12"], "budget"),
+        (
+            vec!["levels", "rotor", "--B", "1", "--up-to", "1e300"],
+            "budget",
+        ),
+        (
+            vec!["levels", "top", "--C", "0.1", "--B", "1", "--up-to", "1e12"],
+            "budget",
+        ),
     ] {
         let (code, out, err) = zsum(&args);
         assert_eq!(code, 2, "{args:?}");
