@@ -139,9 +139,15 @@ pub fn format_sig(x: &BigRational, digits: u32) -> String {
     let neg = x.is_negative();
     let a = x.abs();
     let (m, e) = round_sig(&a, digits);
-    let mut s = m.to_string();
-    // Plain notation unless that would need non-significant trailing zeros
-    // or more than four leading zeros (as C's %g).
+    layout_digits(neg, &m.to_string(), e, digits)
+}
+
+/// Lays out significant `digits` (a string of decimal digits, the first
+/// non-zero) of a value `±d.ddd × 10^e` in plain notation when every written
+/// digit is significant and at most four leading zeros are needed, else in
+/// scientific notation (as C's `%g`).
+pub fn layout_digits(neg: bool, digit_str: &str, e: i64, digits: u32) -> String {
+    let mut s = digit_str.to_string();
     let out = if (-5..digits as i64).contains(&e) {
         if e >= 0 {
             let int_len = (e + 1) as usize;

@@ -44,7 +44,9 @@ pub mod models;
 pub mod report;
 pub mod serde_exact;
 pub mod spectrum;
+pub mod sum;
 pub mod system;
+pub mod thermo;
 pub mod units;
 
 pub use error::{Error, ErrorKind, Result};

@@ -123,6 +123,28 @@ pub trait Spectrum {
         Vec::new()
     }
 
+    /// How the engine may organise this spectrum's sums (independent parts,
+    /// square ladders, harmonic modes); default: list levels and sum them.
+    fn shape(&self) -> crate::sum::Shape<'_> {
+        crate::sum::Shape::Direct
+    }
+
+    /// The highest level, for spectra with finitely many levels (they are
+    /// summed completely, with no tail). Default: none (infinitely many).
+    fn highest_energy(&self) -> Option<BigRational> {
+        None
+    }
+
+    /// An exponent p with N(E₀ + λΔ) ≤ 4 λ^p max(count_bound(E₀ + Δ), 1)
+    /// for λ ≥ 1 and Δ beyond the first few levels: how fast the number of
+    /// states grows (d/2 for a d-dimensional box, 1 for a linear rotor, 3/2
+    /// for tops, n for n oscillator components). The engine bounds the far
+    /// tail with it; without it (and without a highest level) a spectrum
+    /// cannot be summed.
+    fn growth_exponent(&self) -> Option<f64> {
+        None
+    }
+
     /// Warnings about the listing up to `cutoff`, e.g. that centrifugal
     /// terms stop the energy increasing so levels end early. Default: none.
     fn warnings(&self, _cutoff: &BigRational) -> Vec<String> {

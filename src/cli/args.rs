@@ -29,6 +29,28 @@ pub enum Command {
         #[command(flatten)]
         system: SystemLevels,
     },
+    /// Partition function q and ln q at one temperature (or a grid), every
+    /// digit certified, with the error bound. Give a model, or --system FILE.
+    #[command(args_conflicts_with_subcommands = true, subcommand_negates_reqs = true)]
+    Sum {
+        /// The model.
+        #[command(subcommand)]
+        model: Option<ThermoModel>,
+        /// A system file instead of a model.
+        #[command(flatten)]
+        system: SystemThermo,
+    },
+    /// Thermodynamic functions U/kT, Cv/k, S/k, F/kT (and in J/mol with
+    /// --per mole) over a temperature grid, every digit certified.
+    #[command(args_conflicts_with_subcommands = true, subcommand_negates_reqs = true)]
+    Thermo {
+        /// The model.
+        #[command(subcommand)]
+        model: Option<ThermoModel>,
+        /// A system file instead of a model.
+        #[command(flatten)]
+        system: SystemThermo,
+    },
     /// Count a model's states up to an energy exactly, without listing them.
     Count {
         /// The model.
@@ -169,9 +191,9 @@ pub enum OnlyArg {
     Para,
 }
 
-/// `zsum levels rotor`.
+/// The rotor model's parameters.
 #[derive(Debug, Args)]
-pub struct RotorLevels {
+pub struct RotorModel {
     /// Rotational constant B (in --unit).
     #[arg(long = "B", value_name = "B", allow_hyphen_values = true)]
     pub b: String,
@@ -187,14 +209,33 @@ pub struct RotorLevels {
     /// Nuclear-spin statistics.
     #[command(flatten)]
     pub spin: SpinArgs,
+}
+
+/// `zsum levels rotor`.
+#[derive(Debug, Args)]
+pub struct RotorLevels {
+    /// Model parameters.
+    #[command(flatten)]
+    pub model: RotorModel,
     /// Listing options.
     #[command(flatten)]
     pub list: ListArgs,
 }
 
-/// `zsum levels top`.
+/// `zsum sum|thermo rotor`.
 #[derive(Debug, Args)]
-pub struct TopLevels {
+pub struct RotorThermo {
+    /// Model parameters.
+    #[command(flatten)]
+    pub model: RotorModel,
+    /// Temperature and output options.
+    #[command(flatten)]
+    pub temp: TempArgs,
+}
+
+/// The top model's parameters.
+#[derive(Debug, Args)]
+pub struct TopModel {
     /// Rotational constant B (in --unit).
     #[arg(long = "B", value_name = "B", allow_hyphen_values = true)]
     pub b: String,
@@ -224,14 +265,33 @@ pub struct TopLevels {
     /// Unit of the constants and energies.
     #[arg(long, value_name = "UNIT", default_value = "cm-1")]
     pub unit: String,
+}
+
+/// `zsum levels top`.
+#[derive(Debug, Args)]
+pub struct TopLevels {
+    /// Model parameters.
+    #[command(flatten)]
+    pub model: TopModel,
     /// Listing options.
     #[command(flatten)]
     pub list: ListArgs,
 }
 
-/// `zsum levels oscillator`.
+/// `zsum sum|thermo top`.
 #[derive(Debug, Args)]
-pub struct OscillatorLevels {
+pub struct TopThermo {
+    /// Model parameters.
+    #[command(flatten)]
+    pub model: TopModel,
+    /// Temperature and output options.
+    #[command(flatten)]
+    pub temp: TempArgs,
+}
+
+/// The oscillator model's parameters.
+#[derive(Debug, Args)]
+pub struct OscillatorModel {
     /// Harmonic mode frequencies, comma-separated, each optionally with a
     /// mode degeneracy as xN: e.g. 1000,1500x2,3000 (a doubly degenerate
     /// mode at 1500). One mode 100x3 is the isotropic 3D oscillator.
@@ -266,14 +326,33 @@ pub struct OscillatorLevels {
     /// Unit of the constants and energies.
     #[arg(long, value_name = "UNIT", default_value = "cm-1")]
     pub unit: String,
+}
+
+/// `zsum levels oscillator`.
+#[derive(Debug, Args)]
+pub struct OscillatorLevels {
+    /// Model parameters.
+    #[command(flatten)]
+    pub model: OscillatorModel,
     /// Listing options.
     #[command(flatten)]
     pub list: ListArgs,
 }
 
-/// `zsum levels diatomic`.
+/// `zsum sum|thermo oscillator`.
 #[derive(Debug, Args)]
-pub struct DiatomicLevels {
+pub struct OscillatorThermo {
+    /// Model parameters.
+    #[command(flatten)]
+    pub model: OscillatorModel,
+    /// Temperature and output options.
+    #[command(flatten)]
+    pub temp: TempArgs,
+}
+
+/// The diatomic model's parameters.
+#[derive(Debug, Args)]
+pub struct DiatomicModel {
     /// Harmonic constant omega_e.
     #[arg(long, value_name = "WE", allow_hyphen_values = true)]
     pub we: String,
@@ -298,25 +377,63 @@ pub struct DiatomicLevels {
     /// Nuclear-spin statistics.
     #[command(flatten)]
     pub spin: SpinArgs,
+}
+
+/// `zsum levels diatomic`.
+#[derive(Debug, Args)]
+pub struct DiatomicLevels {
+    /// Model parameters.
+    #[command(flatten)]
+    pub model: DiatomicModel,
     /// Listing options.
     #[command(flatten)]
     pub list: ListArgs,
+}
+
+/// `zsum sum|thermo diatomic`.
+#[derive(Debug, Args)]
+pub struct DiatomicThermo {
+    /// Model parameters.
+    #[command(flatten)]
+    pub model: DiatomicModel,
+    /// Temperature and output options.
+    #[command(flatten)]
+    pub temp: TempArgs,
+}
+
+/// The file model's parameters.
+#[derive(Debug, Args)]
+pub struct FileModel {
+    /// The level file.
+    #[arg(value_name = "PATH")]
+    pub path: PathBuf,
 }
 
 /// `zsum levels file`.
 #[derive(Debug, Args)]
 pub struct FileLevels {
-    /// The level file.
-    #[arg(value_name = "PATH")]
-    pub path: PathBuf,
+    /// Model parameters.
+    #[command(flatten)]
+    pub model: FileModel,
     /// Listing options.
     #[command(flatten)]
     pub list: ListArgs,
 }
 
-/// `zsum levels zeeman`.
+/// `zsum sum|thermo file`.
 #[derive(Debug, Args)]
-pub struct ZeemanLevels {
+pub struct FileThermo {
+    /// Model parameters.
+    #[command(flatten)]
+    pub model: FileModel,
+    /// Temperature and output options.
+    #[command(flatten)]
+    pub temp: TempArgs,
+}
+
+/// The zeeman model's parameters.
+#[derive(Debug, Args)]
+pub struct ZeemanModel {
     /// Total angular momentum J: 0, 1/2, 1, 3/2, ... (e.g. 7/2).
     #[arg(long = "J", value_name = "J")]
     pub j: String,
@@ -326,9 +443,134 @@ pub struct ZeemanLevels {
     /// Magnetic flux density with unit T or mT, e.g. 1T.
     #[arg(long, value_name = "B", allow_hyphen_values = true)]
     pub field: String,
+}
+
+/// `zsum levels zeeman`.
+#[derive(Debug, Args)]
+pub struct ZeemanLevels {
+    /// Model parameters.
+    #[command(flatten)]
+    pub model: ZeemanModel,
     /// Listing options.
     #[command(flatten)]
     pub list: ListArgs,
+}
+
+/// `zsum sum|thermo zeeman`.
+#[derive(Debug, Args)]
+pub struct ZeemanThermo {
+    /// Model parameters.
+    #[command(flatten)]
+    pub model: ZeemanModel,
+    /// Temperature and output options.
+    #[command(flatten)]
+    pub temp: TempArgs,
+}
+
+/// Models for `sum` and `thermo`.
+#[derive(Debug, Subcommand)]
+pub enum ThermoModel {
+    /// Particle in a box (kT in box units with --kT, or T in kelvin with
+    /// --mass and --side).
+    Box(BoxThermo),
+    /// Linear rotor.
+    Rotor(RotorThermo),
+    /// Symmetric or spherical top.
+    Top(TopThermo),
+    /// Harmonic, anharmonic or Morse oscillator.
+    Oscillator(OscillatorThermo),
+    /// Vibrating rotor.
+    Diatomic(DiatomicThermo),
+    /// Levels from a file.
+    File(FileThermo),
+    /// Zeeman multiplet.
+    Zeeman(ZeemanThermo),
+}
+
+/// Temperatures, precision and output for `sum` and `thermo`.
+#[derive(Debug, Args)]
+pub struct TempArgs {
+    /// Temperature(s) in kelvin: one value (298.15), a linear grid
+    /// START:STOP:STEP (10:300:5), or a logarithmic grid log:START:STOP:COUNT
+    /// (log:1:1000:50). Exact decimals.
+    #[arg(
+        long = "T",
+        value_name = "T",
+        allow_hyphen_values = true,
+        conflicts_with = "kt"
+    )]
+    pub t: Option<String>,
+
+    /// Instead of --T: kT in the model's own energy unit (same grid forms),
+    /// e.g. for a box without mass and side.
+    #[arg(long = "kT", value_name = "KT", allow_hyphen_values = true)]
+    pub kt: Option<String>,
+
+    /// Significant digits of every printed value, each certified.
+    #[arg(long, value_name = "N", default_value_t = 15)]
+    pub digits: u32,
+
+    /// Also give U, Cv, S, F in J/mol (per mole) or J (per particle).
+    #[arg(long, value_enum)]
+    pub per: Option<PerArg>,
+
+    /// Output options.
+    #[command(flatten)]
+    pub out: Output,
+}
+
+/// Physical units for thermodynamic functions.
+#[derive(Debug, Clone, Copy, ValueEnum)]
+pub enum PerArg {
+    /// Per mole: J/mol and J/(mol K).
+    Mole,
+    /// Per particle: J and J/K.
+    Particle,
+}
+
+/// `zsum sum|thermo box`.
+#[derive(Debug, Args)]
+pub struct BoxThermo {
+    /// Box shape.
+    #[command(flatten)]
+    pub shape: BoxShape,
+    /// Particle mass with unit (for --T in kelvin).
+    #[arg(long, value_name = "MASS", requires = "side")]
+    pub mass: Option<String>,
+    /// Reference side with unit (for --T in kelvin).
+    #[arg(long, value_name = "LENGTH", requires = "mass")]
+    pub side: Option<String>,
+    /// Temperature and output options.
+    #[command(flatten)]
+    pub temp: TempArgs,
+}
+
+/// `zsum levels --system` and friends for sum/thermo.
+#[derive(Debug, Args)]
+pub struct SystemThermo {
+    /// A system file (TOML).
+    #[arg(long, value_name = "FILE")]
+    pub system: Option<PathBuf>,
+    /// Temperature(s) in kelvin, as for the models.
+    #[arg(
+        long = "T",
+        value_name = "T",
+        allow_hyphen_values = true,
+        requires = "system"
+    )]
+    pub t: Option<String>,
+    /// Significant digits.
+    #[arg(long, value_name = "N", default_value_t = 15)]
+    pub digits: u32,
+    /// Physical units.
+    #[arg(long, value_enum)]
+    pub per: Option<PerArg>,
+    /// Output format.
+    #[arg(long, value_enum, default_value_t = FormatArg::Table)]
+    pub format: FormatArg,
+    /// Write to this file instead of standard output (atomically).
+    #[arg(long, short = 'o', value_name = "FILE")]
+    pub output: Option<PathBuf>,
 }
 
 /// Models for `count`.

@@ -1,9 +1,10 @@
 //! Validates raw arguments into library objects, runs the library, renders.
 
 use super::args::{
-    BoxCount, BoxLevels, BoxShape, Cli, Command, CountModel, DiatomicLevels, FileLevels, FormatArg,
-    LevelsModel, ListArgs, OnlyArg, OscillatorLevels, Output, RotorLevels, SpinArgs, SystemLevels,
-    TopLevels, ZeemanLevels,
+    BoxCount, BoxLevels, BoxShape, Cli, Command, CountModel, DiatomicLevels, DiatomicModel,
+    FileLevels, FileModel, FormatArg, LevelsModel, ListArgs, OnlyArg, OscillatorLevels,
+    OscillatorModel, Output, PerArg, RotorLevels, RotorModel, SpinArgs, SystemLevels, SystemThermo,
+    TempArgs, ThermoModel, TopLevels, TopModel, ZeemanLevels, ZeemanModel,
 };
 use num_rational::BigRational;
 use num_traits::Zero;
@@ -21,6 +22,7 @@ use zsum::report::{ListOptions, SpectrumLevelsReport};
 use zsum::spectrum::Budget;
 use zsum::spectrum::Spectrum;
 use zsum::system::{parse_energy, parse_twice_spin, parse_weights, restrict_weights, System};
+use zsum::thermo::{parse_grid, Per, ThermoReport};
 use zsum::units::{parse_length_m, parse_mass_kg, EnergyUnit};
 
 /// Runs a parsed command line; returns text for standard output (`None` when
@@ -37,6 +39,8 @@ pub fn run(cli: Cli) -> Result<Option<String>> {
             Some(LevelsModel::Zeeman(a)) => levels_zeeman(a),
             None => levels_system(system),
         },
+        Command::Sum { model, system } => run_thermo(model, system, false),
+        Command::Thermo { model, system } => run_thermo(model, system, true),
         Command::Count {
             model: CountModel::Box(a),
         } => count_box(a),
@@ -234,19 +238,22 @@ fn spin_weights(s: &SpinArgs) -> Result<ParityWeights> {
     restrict_weights(w, only)
 }
 
-fn levels_rotor(a: RotorLevels) -> Result<Option<String>> {
+type Model = Box<dyn Spectrum + Send + Sync>;
+
+fn rotor(a: &RotorModel) -> Result<Model> {
     let unit = EnergyUnit::parse(&a.unit)?;
-    let rotor = LinearRotor::new(
-        number("--B", &a.b)?,
-        opt_number("--D", &a.d)?,
-        opt_number("--H", &a.h)?,
-        unit,
-    )?
-    .with_weights(spin_weights(&a.spin)?);
-    list_generic("rotor", &rotor, &a.list)
+    Ok(Box::new(
+        LinearRotor::new(
+            number("--B", &a.b)?,
+            opt_number("--D", &a.d)?,
+            opt_number("--H", &a.h)?,
+            unit,
+        )?
+        .with_weights(spin_weights(&a.spin)?),
+    ))
 }
 
-fn levels_top(a: TopLevels) -> Result<Option<String>> {
+fn top(a: &TopModel) -> Result<Model> {
     let unit = EnergyUnit::parse(&a.unit)?;
     let b = number("--B", &a.b)?;
     if a.spherical {
@@ -257,8 +264,11 @@ fn levels_top(a: TopLevels) -> Result<Option<String>> {
                 "a spherical top takes only --B and --DJ",
             ));
         }
-        let top = SphericalTop::new(b, opt_number("--DJ", &a.dj)?, unit)?;
-        return list_generic("spherical_top", &top, &a.list);
+        return Ok(Box::new(SphericalTop::new(
+            b,
+            opt_number("--DJ", &a.dj)?,
+            unit,
+        )?));
     }
     let (shape, unique) = match (&a.a, &a.c) {
         (Some(x), None) => (TopShape::Prolate, number("--A", x)?),
@@ -271,7 +281,7 @@ fn levels_top(a: TopLevels) -> Result<Option<String>> {
             ))
         }
     };
-    let top = SymmetricTop::new(
+    Ok(Box::new(SymmetricTop::new(
         shape,
         unique,
         b,
@@ -279,8 +289,7 @@ fn levels_top(a: TopLevels) -> Result<Option<String>> {
         opt_number("--DJK", &a.djk)?,
         opt_number("--DK", &a.dk)?,
         unit,
-    )?;
-    list_generic("top", &top, &a.list)
+    )?))
 }
 
 fn parse_modes(text: &str) -> Result<Vec<(BigRational, u32)>> {
@@ -300,16 +309,17 @@ fn parse_modes(text: &str) -> Result<Vec<(BigRational, u32)>> {
         .collect()
 }
 
-fn levels_oscillator(a: OscillatorLevels) -> Result<Option<String>> {
+fn oscillator(a: &OscillatorModel) -> Result<Model> {
     let unit = EnergyUnit::parse(&a.unit)?;
     match (&a.freq, &a.we) {
-        (Some(f), _) => {
-            let m = HarmonicModes::new(parse_modes(f)?, a.zero_point, unit)?;
-            list_generic("oscillator", &m, &a.list)
-        }
+        (Some(f), _) => Ok(Box::new(HarmonicModes::new(
+            parse_modes(f)?,
+            a.zero_point,
+            unit,
+        )?)),
         (None, Some(we)) => {
             let we = number("--we", we)?;
-            let osc = match (&a.wexe, &a.dissociation) {
+            Ok(Box::new(match (&a.wexe, &a.dissociation) {
                 (Some(x), None) => AnharmonicOscillator::new(
                     we,
                     number("--wexe", x)?,
@@ -326,8 +336,7 @@ fn levels_oscillator(a: OscillatorLevels) -> Result<Option<String>> {
                         "give --wexe (anharmonic) or --dissociation (Morse)",
                     ))
                 }
-            };
-            list_generic("oscillator", &osc, &a.list)
+            }))
         }
         (None, None) => Err(Error::invalid(
             "oscillator",
@@ -337,7 +346,7 @@ fn levels_oscillator(a: OscillatorLevels) -> Result<Option<String>> {
     }
 }
 
-fn levels_diatomic(a: DiatomicLevels) -> Result<Option<String>> {
+fn diatomic(a: &DiatomicModel) -> Result<Model> {
     let unit = EnergyUnit::parse(&a.unit)?;
     let vib = AnharmonicOscillator::new(
         number("--we", &a.we)?,
@@ -345,24 +354,151 @@ fn levels_diatomic(a: DiatomicLevels) -> Result<Option<String>> {
         opt_number("--weye", &a.weye)?,
         unit,
     )?;
-    let m = RovibDiatomic::new(
+    Ok(Box::new(RovibDiatomic::new(
         vib,
         number("--Be", &a.be)?,
         opt_number("--alpha", &a.alpha)?,
         opt_number("--De", &a.de)?,
         spin_weights(&a.spin)?,
-    )?;
-    list_generic("diatomic", &m, &a.list)
+    )?))
+}
+
+fn file(a: &FileModel) -> Result<Model> {
+    Ok(Box::new(LevelFile::read(&a.path)?))
+}
+
+fn zeeman(a: &ZeemanModel) -> Result<Model> {
+    Ok(Box::new(ZeemanMultiplet::from_text(&a.j, &a.g, &a.field)?))
+}
+
+fn levels_rotor(a: RotorLevels) -> Result<Option<String>> {
+    list_generic("rotor", rotor(&a.model)?.as_ref(), &a.list)
+}
+
+fn levels_top(a: TopLevels) -> Result<Option<String>> {
+    let m = top(&a.model)?;
+    let id = if a.model.spherical {
+        "spherical_top"
+    } else {
+        "top"
+    };
+    list_generic(id, m.as_ref(), &a.list)
+}
+
+fn levels_oscillator(a: OscillatorLevels) -> Result<Option<String>> {
+    list_generic("oscillator", oscillator(&a.model)?.as_ref(), &a.list)
+}
+
+fn levels_diatomic(a: DiatomicLevels) -> Result<Option<String>> {
+    list_generic("diatomic", diatomic(&a.model)?.as_ref(), &a.list)
 }
 
 fn levels_file(a: FileLevels) -> Result<Option<String>> {
-    let f = LevelFile::read(&a.path)?;
-    list_generic("file", &f, &a.list)
+    list_generic("file", file(&a.model)?.as_ref(), &a.list)
 }
 
 fn levels_zeeman(a: ZeemanLevels) -> Result<Option<String>> {
-    let z = ZeemanMultiplet::from_text(&a.j, &a.g, &a.field)?;
-    list_generic("zeeman", &z, &a.list)
+    list_generic("zeeman", zeeman(&a.model)?.as_ref(), &a.list)
+}
+
+/// A model for sum/thermo, with its identifier and temperature options.
+fn thermo_model(m: ThermoModel) -> Result<(&'static str, Model, TempArgs)> {
+    Ok(match m {
+        ThermoModel::Box(a) => {
+            let mut b = box_model(&a.shape)?;
+            if let (Some(m), Some(s)) = (&a.mass, &a.side) {
+                b = b.with_scale(&parse_mass_kg(m)?, &parse_length_m(s)?);
+            }
+            ("box", Box::new(b), a.temp)
+        }
+        ThermoModel::Rotor(a) => ("rotor", rotor(&a.model)?, a.temp),
+        ThermoModel::Top(a) => ("top", top(&a.model)?, a.temp),
+        ThermoModel::Oscillator(a) => ("oscillator", oscillator(&a.model)?, a.temp),
+        ThermoModel::Diatomic(a) => ("diatomic", diatomic(&a.model)?, a.temp),
+        ThermoModel::File(a) => ("file", file(&a.model)?, a.temp),
+        ThermoModel::Zeeman(a) => ("zeeman", zeeman(&a.model)?, a.temp),
+    })
+}
+
+fn run_thermo(
+    model: Option<ThermoModel>,
+    system: SystemThermo,
+    with_functions: bool,
+) -> Result<Option<String>> {
+    let (id, spectrum, temp) = match model {
+        Some(m) => thermo_model(m)?,
+        None => {
+            let path = system.system.ok_or_else(|| {
+                Error::invalid(
+                    "sum/thermo",
+                    "without a model",
+                    "name a model (box, rotor, top, oscillator, diatomic, file, zeeman) or give \
+                     --system FILE",
+                )
+            })?;
+            let sys = System::read(&path)?;
+            let temp = TempArgs {
+                t: Some(system.t.ok_or_else(|| {
+                    Error::invalid("--system", path.display(), "it needs --T as well")
+                })?),
+                kt: None,
+                digits: system.digits,
+                per: system.per,
+                out: Output {
+                    format: system.format,
+                    output: system.output,
+                },
+            };
+            ("system", Box::new(sys.product) as Model, temp)
+        }
+    };
+    let (grid, kelvin) = match (&temp.t, &temp.kt) {
+        (Some(t), None) => (parse_grid("--T", t)?, true),
+        (None, Some(k)) => (parse_grid("--kT", k)?, false),
+        _ => {
+            return Err(Error::invalid(
+                "temperature",
+                "missing",
+                "give --T (kelvin) or --kT (in the model's unit)",
+            ))
+        }
+    };
+    let per = temp.per.map(|p| match p {
+        PerArg::Mole => Per::Mole,
+        PerArg::Particle => Per::Particle,
+    });
+    let report = ThermoReport::build(
+        id,
+        spectrum.as_ref(),
+        &grid,
+        kelvin,
+        temp.digits,
+        per,
+        with_functions,
+        &mut progress_observer(grid.len()),
+    )?;
+    emit(render(&report, format(temp.out.format))?, &temp.out)
+}
+
+/// A progress bar on a terminal, nothing otherwise.
+fn progress_observer(n: usize) -> impl FnMut(usize) {
+    use std::io::IsTerminal;
+    let bar = (std::io::stderr().is_terminal() && n >= 20).then(|| {
+        let b = indicatif::ProgressBar::new(n as u64);
+        b.set_style(
+            indicatif::ProgressStyle::with_template("{bar:40} {pos}/{len} temperatures {eta}")
+                .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar()),
+        );
+        b
+    });
+    move |done| {
+        if let Some(b) = &bar {
+            b.set_position(done as u64);
+            if done >= n {
+                b.finish_and_clear();
+            }
+        }
+    }
 }
 
 fn levels_system(a: SystemLevels) -> Result<Option<String>> {

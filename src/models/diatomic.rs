@@ -631,6 +631,11 @@ impl Spectrum for RovibDiatomic {
         Ok(states)
     }
 
+    fn growth_exponent(&self) -> Option<f64> {
+        // Σ over bound v of (E − G_v)/B_v grows at most like E².
+        Some(2.0)
+    }
+
     fn count_bound(&self, energy: &BigRational) -> BigUint {
         if energy < &self.ground {
             return BigUint::zero();

@@ -647,6 +647,10 @@ impl Spectrum for LevelFile {
         Ok(states)
     }
 
+    fn highest_energy(&self) -> Option<BigRational> {
+        self.levels().levels().last().map(|l| l.energy.clone())
+    }
+
     fn count_bound(&self, energy: &BigRational) -> BigUint {
         self.levels.count_up_to(energy)
     }

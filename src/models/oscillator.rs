@@ -631,6 +631,14 @@ impl Spectrum for HarmonicModes {
         Ok(states)
     }
 
+    fn shape(&self) -> crate::sum::Shape<'_> {
+        crate::sum::Shape::Harmonic(self.modes().to_vec(), self.zero_point())
+    }
+
+    fn growth_exponent(&self) -> Option<f64> {
+        Some(self.components() as f64)
+    }
+
     fn count_bound(&self, energy: &BigRational) -> BigUint {
         let e0 = self.ground_energy();
         if energy < &e0 {
@@ -983,6 +991,14 @@ impl Spectrum for AnharmonicOscillator {
             )
         })?;
         Ok(vec![State(vec![v])])
+    }
+
+    fn highest_energy(&self) -> Option<BigRational> {
+        self.v_max().map(|v| self.term_value(v))
+    }
+
+    fn growth_exponent(&self) -> Option<f64> {
+        Some(1.0)
     }
 
     fn count_bound(&self, energy: &BigRational) -> BigUint {

@@ -693,6 +693,14 @@ impl Spectrum for ParticleInBox {
         Ok(states)
     }
 
+    fn shape(&self) -> crate::sum::Shape<'_> {
+        crate::sum::Shape::Squares(self.sides.iter().map(|s| (s * s).recip()).collect())
+    }
+
+    fn growth_exponent(&self) -> Option<f64> {
+        Some(self.dims() as f64 / 2.0)
+    }
+
     fn count_bound(&self, energy: &BigRational) -> BigUint {
         if energy < &self.ground_energy() {
             return BigUint::zero();

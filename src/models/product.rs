@@ -272,6 +272,32 @@ impl Spectrum for Product {
         Ok(out)
     }
 
+    fn shape(&self) -> crate::sum::Shape<'_> {
+        crate::sum::Shape::Parts(
+            self.parts
+                .iter()
+                .zip(&self.factor)
+                .map(|(p, f)| (p.spectrum.as_ref() as &dyn Spectrum, f.clone()))
+                .collect(),
+        )
+    }
+
+    fn highest_energy(&self) -> Option<BigRational> {
+        let mut total = BigRational::zero();
+        for (p, f) in self.parts.iter().zip(&self.factor) {
+            total += p.spectrum.highest_energy()? * f;
+        }
+        Some(total)
+    }
+
+    fn growth_exponent(&self) -> Option<f64> {
+        let mut p = 0.0;
+        for part in &self.parts {
+            p += part.spectrum.growth_exponent()?;
+        }
+        Some(p)
+    }
+
     fn count_bound(&self, energy: &BigRational) -> BigUint {
         if energy < &self.ground_energy() {
             return BigUint::zero();

@@ -128,6 +128,23 @@ fn turnover_estimate(b: &BigRational, d: &BigRational) -> f64 {
     }
 }
 
+/// The energy of the last rung before a ladder turns over, if it does
+/// within ten million rungs (`distorted` says whether it can at all).
+fn turnover(energy: impl Fn(u64) -> BigRational, distorted: bool) -> Option<BigRational> {
+    if !distorted {
+        return None;
+    }
+    let mut e = energy(0);
+    for j in 0..10_000_000u64 {
+        let next = energy(j + 1);
+        if next <= e {
+            return Some(e);
+        }
+        e = next;
+    }
+    None
+}
+
 /// How many rungs a budget allows.
 fn max_rungs(budget: &Budget) -> u64 {
     (budget.limit() as f64 / LEVEL_BYTES) as u64
@@ -329,6 +346,14 @@ impl Spectrum for LinearRotor {
             }
             _ => Ok(Vec::new()),
         }
+    }
+
+    fn highest_energy(&self) -> Option<BigRational> {
+        turnover(|j| self.energy(j), !(self.d.is_zero() && self.h.is_zero()))
+    }
+
+    fn growth_exponent(&self) -> Option<f64> {
+        Some(1.0)
     }
 
     fn count_bound(&self, energy: &BigRational) -> BigUint {
@@ -611,6 +636,10 @@ impl Spectrum for SymmetricTop {
         Ok(out)
     }
 
+    fn growth_exponent(&self) -> Option<f64> {
+        Some(1.5)
+    }
+
     fn count_bound(&self, energy: &BigRational) -> BigUint {
         if energy.is_negative() {
             return BigUint::zero();
@@ -711,6 +740,14 @@ impl Spectrum for SphericalTop {
             }
             _ => Ok(Vec::new()),
         }
+    }
+
+    fn highest_energy(&self) -> Option<BigRational> {
+        turnover(|j| self.energy(j), !self.d.is_zero())
+    }
+
+    fn growth_exponent(&self) -> Option<f64> {
+        Some(1.5)
     }
 
     fn count_bound(&self, energy: &BigRational) -> BigUint {

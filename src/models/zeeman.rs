@@ -381,6 +381,14 @@ impl Spectrum for ZeemanMultiplet {
             .collect())
     }
 
+    fn highest_energy(&self) -> Option<BigRational> {
+        let j = i64::from(self.twice_j);
+        match (self.energy_of(j), self.energy_of(-j)) {
+            (Some(a), Some(b)) => Some(a.max(b)),
+            (a, b) => a.or(b),
+        }
+    }
+
     fn count_bound(&self, energy: &BigRational) -> BigUint {
         // Exact. With s = |g μ_B B|, the energies are s·k − J s for
         // k = 0..=2J (k = m_J + J, or J − m_J if g < 0), so the count up to

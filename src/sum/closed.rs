@@ -1,0 +1,158 @@
+//! Closed forms and fast paths: square ladders (Jacobi's imaginary
+//! transformation) and harmonic modes (geometric series).
+
+use super::direct::to_rug;
+use super::Stats;
+use num_rational::BigRational;
+use num_traits::ToPrimitive;
+use rug::float::Constant;
+use rug::Float;
+
+fn ulp(prec: u32) -> f64 {
+    2f64.powi(-(prec as i32))
+}
+
+/// One ladder `x = a n²`, n ≥ 1, at reduced step `a = w/kT`.
+pub(crate) fn squares(a: &BigRational, eps: f64, prec: u32) -> Stats {
+    let af = a.to_f64().unwrap_or(f64::INFINITY);
+    let a_r = Float::with_val(prec, &to_rug(a));
+    let big_l = -eps.ln() + 40.0;
+    if af >= 1.0 {
+        direct_squares(&a_r, af, big_l, prec)
+    } else {
+        theta_squares(&a_r, af, big_l, prec)
+    }
+}
+
+/// Direct sum over n of e^{−a(n²−1)}: for a ≥ 1 a few terms suffice.
+fn direct_squares(a: &Float, af: f64, big_l: f64, prec: u32) -> Stats {
+    // Terms until a(n²−1) > L; the next term and everything after it (the
+    // ratio of neighbours is at most e^{−3a} < 1/20) add at most twice the
+    // first omitted term times its x², below e^{−L}·(L+...)² relative.
+    let n_max = ((big_l / af + 1.0).sqrt().ceil() as u64).max(2);
+    let mut xs = Vec::new();
+    let mut ws = Vec::new();
+    let mut s0 = Float::new(prec);
+    let mut s1 = Float::new(prec);
+    for n in 1..=n_max {
+        let x = Float::with_val(prec, a * (n * n - 1));
+        let w = Float::with_val(prec, -&x).exp();
+        s1 += Float::with_val(prec, &w * &x);
+        s0 += &w;
+        xs.push(x);
+        ws.push(w);
+    }
+    let mu = Float::with_val(prec, &s1 / &s0);
+    let mut s2 = Float::new(prec);
+    for (x, w) in xs.iter().zip(&ws) {
+        let d = Float::with_val(prec, x - &mu);
+        s2 += Float::with_val(prec, &d * &d) * w;
+    }
+    let var = Float::with_val(prec, &s2 / &s0);
+    let x_next = af * ((n_max + 1) * (n_max + 1) - 1) as f64;
+    let tail = 2.0 * (-x_next).exp() * (1.0 + x_next) * (1.0 + x_next);
+    let rel = (n_max as f64 + big_l + 8.0) * ulp(prec) * 2.0;
+    let m = mu.to_f64();
+    let v = var.to_f64();
+    let ln_q = Float::with_val(prec, s0.ln_ref()) - a;
+    let u = Float::with_val(prec, &mu + a);
+    Stats {
+        ln_q,
+        u,
+        cv: var,
+        err_ln_q: tail + rel + af * ulp(prec),
+        err_u: tail * (1.0 + m) + rel * (1.0 + m),
+        err_cv: 4.0 * tail * (1.0 + m) * (1.0 + m) + rel * (v + 1e-300),
+    }
+}
+
+/// Through Σ_{n∈Z} e^{−an²} = sqrt(π/a) Σ_{m∈Z} e^{−π²m²/a} and its first
+/// two derivatives in a.
+fn theta_squares(a: &Float, af: f64, big_l: f64, prec: u32) -> Stats {
+    let pi = Float::with_val(prec, Constant::Pi);
+    let pi2 = Float::with_val(prec, &pi * &pi);
+    // Dual terms m ≥ 1 until π²m²/a exceeds L plus room for the polynomial
+    // prefactors (c/a²)²; beyond it the ratio of neighbours is at most
+    // e^{−π²/a} < 1e-4, so the remainder is below twice the first omitted.
+    let room = big_l + 8.0 * (1.0 + 1.0 / af).ln() + 20.0;
+    let m_max = ((af * room).sqrt() / std::f64::consts::PI).ceil() as u64 + 1;
+    let inv_a = Float::with_val(prec, a.recip_ref());
+    let pref = Float::with_val(prec, &pi * &inv_a).sqrt(); // sqrt(π/a)
+                                                           // For h_m = e^{−c/a} (times sqrt(π/a)): d/da of sqrt(π/a) e^{−c/a} is
+                                                           // that times (−1/(2a) + c/a²); the second derivative adds
+                                                           // (1/(2a²) − 2c/a³).
+    let mut g0 = Float::new(prec);
+    let mut g1 = Float::new(prec);
+    let mut g2 = Float::new(prec);
+    for m in 0..=m_max {
+        let c = Float::with_val(prec, &pi2 * (m * m));
+        let e = Float::with_val(prec, -(Float::with_val(prec, &c * &inv_a))).exp();
+        let h = Float::with_val(prec, &pref * &e) * if m == 0 { 1u32 } else { 2u32 };
+        let c_a2 = Float::with_val(prec, &c * &inv_a) * &inv_a;
+        let d1 = Float::with_val(prec, &c_a2 - Float::with_val(prec, &inv_a / 2u32));
+        let inv_a2 = Float::with_val(prec, &inv_a * &inv_a);
+        let d2 = Float::with_val(prec, &d1 * &d1) + Float::with_val(prec, &inv_a2 / 2u32)
+            - Float::with_val(prec, &c_a2 * &inv_a) * 2u32;
+        g1 += Float::with_val(prec, &h * &d1);
+        g2 += Float::with_val(prec, &h * &d2);
+        g0 += h;
+    }
+    // S0 = Σ_{n≥1} e^{−an²} = (G−1)/2, S1 = Σ n² e^{−an²} = −G'/2,
+    // S2 = Σ n⁴ e^{−an²} = G''/2.
+    let s0 = Float::with_val(prec, &g0 - 1u32) / 2u32;
+    let s1 = Float::with_val(prec, -&g1) / 2u32;
+    let s2 = Float::with_val(prec, &g2 / 2u32);
+    let mean_n2 = Float::with_val(prec, &s1 / &s0);
+    let u = Float::with_val(prec, a * &mean_n2);
+    let second = Float::with_val(prec, &s2 / &s0) * Float::with_val(prec, a * a);
+    let cv = Float::with_val(prec, &second - Float::with_val(prec, &u * &u));
+    let ln_q = Float::with_val(prec, s0.ln_ref());
+    // Errors: truncation of the dual series (relative to the m = 0 term,
+    // which is at least sqrt(π)) and rounding, amplified by G/(G−1) in S0
+    // and by the cancellation in Cv.
+    let trunc = 2.0 * (-room).exp();
+    let g = g0.to_f64();
+    let amp = g / (g - 1.0);
+    let rel = (m_max as f64 + 40.0) * ulp(prec) * amp * 4.0 + trunc * amp * (1.0 + 1.0 / (af * af));
+    let uf = u.to_f64();
+    let sec = second.to_f64();
+    Stats {
+        ln_q,
+        u,
+        cv,
+        err_ln_q: rel,
+        err_u: 3.0 * rel * uf.abs(),
+        err_cv: 6.0 * rel * (sec + uf * uf),
+    }
+}
+
+/// One harmonic mode of quantum `y = ω/kT` and degeneracy `d`.
+pub(crate) fn harmonic(y: &BigRational, d: u32, zero_point: bool, prec: u32) -> Stats {
+    let y_r = Float::with_val(prec, &to_rug(y));
+    let neg_y = Float::with_val(prec, -&y_r);
+    let e = Float::with_val(prec, neg_y.exp_ref()); // e^{−y}, may underflow to 0
+    let one_minus = Float::with_val(prec, neg_y.exp_m1_ref()) * -1i32; // 1 − e^{−y}
+    let ln_q1 = Float::with_val(prec, one_minus.ln_ref()) * -1i32;
+    let ratio = Float::with_val(prec, &e / &one_minus); // 1/(e^y − 1)
+    let mean1 = Float::with_val(prec, &y_r * &ratio);
+    // Cv/k per component: y² e^{−y}/(1 − e^{−y})².
+    let cv1 = Float::with_val(prec, &mean1 * &mean1) / &e;
+    let cv1 = if e.is_zero() { Float::new(prec) } else { cv1 };
+    let half = if zero_point {
+        Float::with_val(prec, &y_r * d) / 2u32
+    } else {
+        Float::new(prec)
+    };
+    let ln_q = Float::with_val(prec, &ln_q1 * d) - &half;
+    let u = Float::with_val(prec, &mean1 * d) + &half;
+    let cv = Float::with_val(prec, &cv1 * d);
+    let r = 32.0 * ulp(prec);
+    Stats {
+        err_ln_q: r * (ln_q.to_f64().abs() + half.to_f64() + 1.0),
+        err_u: r * (u.to_f64().abs() + 1.0),
+        err_cv: r * (cv.to_f64() + 1e-300),
+        ln_q,
+        u,
+        cv,
+    }
+}

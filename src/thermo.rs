@@ -1,0 +1,360 @@
+//! Thermodynamic functions over temperature grids, per particle and in
+//! physical units, from the certified sums of [`crate::sum`].
+//!
+//! Physical values are the dimensionless ones times exact constants:
+//! U = (U/kT)·kT, Cv = (Cv/k)·k, S = (S/k)·k, F = (F/kT)·kT, with k and
+//! R = k N_A exact (SI 2019). Every value is printed to the requested digits
+//! and flagged unless both ends of its error interval round alike.
+
+use crate::error::{Error, Result};
+use crate::exact::{exact_decimal, format_sig, parse_rational};
+use crate::export::Tabular;
+use crate::spectrum::Spectrum;
+use crate::sum::{thermo, Temperature, ThermoPoint};
+use crate::units::constants;
+use num_bigint::BigInt;
+use num_rational::BigRational;
+use num_traits::{Signed, ToPrimitive, Zero};
+use serde::Serialize;
+
+/// The most temperatures one grid may hold.
+pub const MAX_GRID: usize = 100_000;
+
+/// Reads a temperature grid: `298.15`, `10:300:5` (start:stop:step,
+/// exact decimals, stop included when on the grid) or `log:1:1000:50`
+/// (COUNT points spaced evenly in ln T, each rounded to 12 significant
+/// digits so that it is an exact decimal).
+///
+/// ```
+/// use zsum::thermo::parse_grid;
+/// assert_eq!(parse_grid("--T", "10:30:10").unwrap().len(), 3);
+/// assert_eq!(parse_grid("--T", "log:1:1000:4").unwrap()[1].to_string(), "10");
+/// assert!(parse_grid("--T", "10:30:0").is_err());
+/// ```
+pub fn parse_grid(flag: &str, text: &str) -> Result<Vec<BigRational>> {
+    let num = |s: &str| {
+        parse_rational(s).map_err(|_| {
+            Error::parse(
+                flag,
+                text,
+                "a temperature (298.15), a grid START:STOP:STEP (10:300:5) or log:START:STOP:COUNT",
+            )
+        })
+    };
+    let positive = |t: &BigRational| -> Result<()> {
+        if t.is_positive() {
+            Ok(())
+        } else {
+            Err(Error::invalid(
+                flag,
+                text,
+                "temperatures must be greater than zero",
+            ))
+        }
+    };
+    let parts: Vec<&str> = text.split(':').collect();
+    let out = match parts.as_slice() {
+        [one] => {
+            let t = num(one)?;
+            positive(&t)?;
+            vec![t]
+        }
+        ["log", a, b, n] => {
+            let (a, b) = (num(a)?, num(b)?);
+            positive(&a)?;
+            positive(&b)?;
+            let n: usize = n
+                .trim()
+                .parse()
+                .ok()
+                .filter(|&n| (2..=MAX_GRID).contains(&n))
+                .ok_or_else(|| {
+                    Error::invalid(
+                        flag,
+                        text,
+                        &format!("a log grid needs a COUNT from 2 to {MAX_GRID}"),
+                    )
+                })?;
+            if a >= b {
+                return Err(Error::invalid(flag, text, "a log grid needs START < STOP"));
+            }
+            let (la, lb) = (
+                a.to_f64().unwrap_or(0.0).ln(),
+                b.to_f64().unwrap_or(0.0).ln(),
+            );
+            (0..n)
+                .map(|i| {
+                    if i == 0 {
+                        return Ok(a.clone());
+                    }
+                    if i == n - 1 {
+                        return Ok(b.clone());
+                    }
+                    let t = (la + (lb - la) * i as f64 / (n - 1) as f64).exp();
+                    num(&format!("{t:.11e}"))
+                })
+                .collect::<Result<Vec<_>>>()?
+        }
+        [a, b, step] => {
+            let (a, b, st) = (num(a)?, num(b)?, num(step)?);
+            positive(&a)?;
+            positive(&b)?;
+            if st.is_zero() || (b > a && st.is_negative()) || (b < a && st.is_positive()) {
+                return Err(Error::invalid(
+                    flag,
+                    text,
+                    "the step must be non-zero and point from START towards STOP",
+                ));
+            }
+            let count = ((&b - &a) / &st)
+                .floor()
+                .to_integer()
+                .to_usize()
+                .unwrap_or(usize::MAX);
+            if count >= MAX_GRID {
+                return Err(Error::invalid(
+                    flag,
+                    text,
+                    &format!("a grid may hold at most {MAX_GRID} temperatures; use a larger step"),
+                ));
+            }
+            (0..=count)
+                .map(|i| &a + &st * BigRational::from_integer(BigInt::from(i)))
+                .collect()
+        }
+        _ => {
+            return Err(Error::parse(
+                flag,
+                text,
+                "a temperature (298.15), a grid START:STOP:STEP (10:300:5) or log:START:STOP:COUNT",
+            ))
+        }
+    };
+    Ok(out)
+}
+
+/// Physical units for thermodynamic functions.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Per {
+    /// Per mole (J/mol, J/(mol K)).
+    Mole,
+    /// Per particle (J, J/K).
+    Particle,
+}
+
+/// One row of a thermodynamic table.
+#[derive(Debug, Clone, Serialize)]
+pub struct ThermoRow {
+    /// Dimensionless values at this temperature.
+    #[serde(flatten)]
+    pub point: ThermoPoint,
+    /// U in J/mol or J, when asked for.
+    #[serde(rename = "U", skip_serializing_if = "Option::is_none")]
+    pub u: Option<String>,
+    /// Cv in J/(mol K) or J/K.
+    #[serde(rename = "Cv", skip_serializing_if = "Option::is_none")]
+    pub cv: Option<String>,
+    /// S in J/(mol K) or J/K.
+    #[serde(rename = "S", skip_serializing_if = "Option::is_none")]
+    pub s: Option<String>,
+    /// F in J/mol or J.
+    #[serde(rename = "F", skip_serializing_if = "Option::is_none")]
+    pub f: Option<String>,
+}
+
+/// The answer to `sum` or `thermo`: one row per temperature.
+#[derive(Debug, Clone, Serialize)]
+pub struct ThermoReport {
+    /// Model identifier.
+    pub model: String,
+    /// Human description.
+    pub description: String,
+    /// What the temperatures are: `K` or `kT in <unit>`.
+    pub temperature_unit: String,
+    /// Units of U, Cv, S, F when given.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub units: Option<serde_json::Value>,
+    /// Whether the table carries U, Cv, S and F (thermo) or only q (sum).
+    #[serde(skip)]
+    pub functions: bool,
+    /// The rows.
+    pub rows: Vec<ThermoRow>,
+}
+
+/// Re-rounds a certified decimal at `extra` more digits to `digits`, times
+/// an exact factor, checking that its half-unit interval rounds alike.
+fn scaled(text: &str, extra_digits: u32, factor: &BigRational, digits: u32) -> (String, bool) {
+    let v = match parse_rational(text) {
+        Ok(v) => v,
+        Err(_) => return (text.to_string(), false),
+    };
+    if v.is_zero() {
+        return ("0".into(), true);
+    }
+    let e = crate::exact::decimal_exponent(&v.abs());
+    let half =
+        BigRational::new(BigInt::from(5), BigInt::from(10)) * pow10r(e - extra_digits as i64 + 1);
+    let lo = (&v - &half) * factor;
+    let hi = (&v + &half) * factor;
+    let mid = format_sig(&(&v * factor), digits);
+    let ok = format_sig(&lo, digits) == mid && format_sig(&hi, digits) == mid;
+    (mid, ok)
+}
+
+fn pow10r(k: i64) -> BigRational {
+    if k >= 0 {
+        BigRational::from_integer(crate::exact::pow10(k as u32))
+    } else {
+        BigRational::new(BigInt::from(1), crate::exact::pow10((-k) as u32))
+    }
+}
+
+impl ThermoReport {
+    /// Evaluates `spectrum` at every temperature of `grid` (kelvin when
+    /// `kelvin`, else kT in the spectrum's unit), to `digits` certified
+    /// digits; `per` adds physical values (kelvin only). `progress` is told
+    /// how many temperatures are done.
+    #[allow(clippy::too_many_arguments)]
+    pub fn build(
+        model: &str,
+        spectrum: &dyn Spectrum,
+        grid: &[BigRational],
+        kelvin: bool,
+        digits: u32,
+        per: Option<Per>,
+        functions: bool,
+        progress: &mut dyn FnMut(usize),
+    ) -> Result<Self> {
+        if per.is_some() && !kelvin {
+            return Err(Error::invalid(
+                "--per",
+                "with --kT",
+                "physical units need temperatures in kelvin (--T)",
+            ));
+        }
+        const EXTRA: u32 = 4;
+        let k = constants::boltzmann();
+        let scale = match per {
+            Some(Per::Mole) => Some(&k * constants::avogadro()),
+            Some(Per::Particle) => Some(k.clone()),
+            None => None,
+        };
+        let mut rows = Vec::with_capacity(grid.len());
+        for (i, t) in grid.iter().enumerate() {
+            let temp = if kelvin {
+                Temperature::Kelvin(t.clone())
+            } else {
+                Temperature::Reduced(t.clone())
+            };
+            let wide = thermo(spectrum, &temp, digits + EXTRA)?;
+            let one = BigRational::from_integer(BigInt::from(1));
+            let mut ok = wide.certified;
+            let mut re = |s: &str, f: &BigRational| {
+                let (v, good) = scaled(s, digits + EXTRA, f, digits);
+                ok &= good;
+                v
+            };
+            let mut point = wide.clone();
+            point.q = re(&wide.q, &one);
+            point.ln_q = re(&wide.ln_q, &one);
+            point.u_over_kt = re(&wide.u_over_kt, &one);
+            point.cv_over_k = re(&wide.cv_over_k, &one);
+            point.s_over_k = re(&wide.s_over_k, &one);
+            point.f_over_kt = re(&wide.f_over_kt, &one);
+            point.digits = digits;
+            let (u, cv, s, f) = match &scale {
+                Some(c) => {
+                    let ct = c * t;
+                    (
+                        Some(re(&wide.u_over_kt, &ct)),
+                        Some(re(&wide.cv_over_k, c)),
+                        Some(re(&wide.s_over_k, c)),
+                        Some(re(&wide.f_over_kt, &ct)),
+                    )
+                }
+                None => (None, None, None, None),
+            };
+            point.certified = ok;
+            point.t = exact_decimal(t, 40);
+            rows.push(ThermoRow { point, u, cv, s, f });
+            progress(i + 1);
+        }
+        let units = per.map(|p| {
+            let (e, c) = match p {
+                Per::Mole => ("J/mol", "J/(mol K)"),
+                Per::Particle => ("J", "J/K"),
+            };
+            serde_json::json!({"U": e, "Cv": c, "S": c, "F": e})
+        });
+        Ok(ThermoReport {
+            model: model.into(),
+            description: spectrum.describe(),
+            temperature_unit: if kelvin {
+                "K".into()
+            } else {
+                format!("kT in {}", spectrum.unit())
+            },
+            units,
+            functions,
+            rows,
+        })
+    }
+}
+
+impl Tabular for ThermoReport {
+    fn preamble(&self) -> Vec<String> {
+        let mut p = vec![format!(
+            "{}; T in {}; per particle; every digit certified unless marked *",
+            self.description, self.temperature_unit
+        )];
+        if self.units.is_some() {
+            p.push(
+                "ideal model values; design decisions follow certified property data, local \
+                 codes and licensed engineering practice"
+                    .into(),
+            );
+        }
+        p
+    }
+
+    fn columns(&self) -> Vec<String> {
+        let mut c: Vec<String> = vec!["T".into(), "q".into(), "ln q".into(), "rel bound".into()];
+        if self.functions {
+            c.extend(["U/kT", "Cv/k", "S/k", "F/kT"].map(String::from));
+            if let Some(u) = &self.units {
+                for key in ["U", "Cv", "S", "F"] {
+                    c.push(format!("{key} [{}]", u[key].as_str().unwrap_or("")));
+                }
+            }
+        }
+        c
+    }
+
+    fn rows(&self) -> Vec<Vec<String>> {
+        self.rows
+            .iter()
+            .map(|r| {
+                let mark = |s: &str| {
+                    if r.point.certified {
+                        s.to_string()
+                    } else {
+                        format!("{s}*")
+                    }
+                };
+                let p = &r.point;
+                let mut v = vec![p.t.clone(), mark(&p.q), mark(&p.ln_q), p.rel_bound.clone()];
+                if self.functions {
+                    v.extend(
+                        [&p.u_over_kt, &p.cv_over_k, &p.s_over_k, &p.f_over_kt].map(|s| mark(s)),
+                    );
+                    if self.units.is_some() {
+                        for x in [&r.u, &r.cv, &r.s, &r.f] {
+                            v.push(mark(x.as_deref().unwrap_or("")));
+                        }
+                    }
+                }
+                v
+            })
+            .collect()
+    }
+}
