@@ -164,7 +164,30 @@ fn precision_for(digits: u32, attempt: u32) -> u32 {
     (digits as f64 * std::f64::consts::LOG2_10).ceil() as u32 + 64 + 32 * attempt
 }
 
+/// Which summation path to take.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Path {
+    /// The fastest exact path the spectrum's shape allows.
+    Auto,
+    /// List every level and sum directly (for cross-checks of the fast
+    /// paths: both must agree to every printed digit).
+    Direct,
+}
+
 fn stats_of(s: &dyn Spectrum, beta: &BigRational, eps: f64, prec: u32) -> Result<Stats> {
+    stats_path(s, beta, eps, prec, Path::Auto)
+}
+
+fn stats_path(
+    s: &dyn Spectrum,
+    beta: &BigRational,
+    eps: f64,
+    prec: u32,
+    path: Path,
+) -> Result<Stats> {
+    if path == Path::Direct {
+        return direct::stats(s, beta, eps, prec);
+    }
     match s.shape() {
         Shape::Direct => direct::stats(s, beta, eps, prec),
         Shape::Parts(parts) => {
@@ -248,7 +271,7 @@ pub struct ThermoPoint {
 /// use zsum::exact::parse_rational;
 /// use zsum::units::EnergyUnit;
 /// let r = |s: &str| parse_rational(s).unwrap();
-/// // A two-level check: a rotor with B = 1 K at T = 1000 K has Cv/k near 1.
+/// // A rotor with B = 1 K at T = 1000 K has Cv/k near 1.
 /// let rot = LinearRotor::rigid(r("1"), EnergyUnit::Kelvin).unwrap();
 /// let p = thermo(&rot, &Temperature::Kelvin(r("1000")), 20).unwrap();
 /// assert!(p.certified);
@@ -258,6 +281,16 @@ pub fn thermo(
     spectrum: &dyn Spectrum,
     temperature: &Temperature,
     digits: u32,
+) -> Result<ThermoPoint> {
+    thermo_with(spectrum, temperature, digits, Path::Auto)
+}
+
+/// As [`thermo`], choosing the summation path.
+pub fn thermo_with(
+    spectrum: &dyn Spectrum,
+    temperature: &Temperature,
+    digits: u32,
+    path: Path,
 ) -> Result<ThermoPoint> {
     if !(1..=MAX_DIGITS).contains(&digits) {
         return Err(Error::invalid(
@@ -276,7 +309,7 @@ pub fn thermo(
         let eps = 10f64
             .powi(-(digits as i32) - 6 - 8 * attempt as i32)
             .max(1e-300);
-        let st = stats_of(spectrum, &beta, eps, prec)?;
+        let st = stats_path(spectrum, &beta, eps, prec, path)?;
         let p = point(&st, &t_text, digits, prec);
         if p.certified {
             return Ok(p);

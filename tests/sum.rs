@@ -1,0 +1,284 @@
+//! The summation engine against closed forms, published expansions, its own
+//! fast paths, and its precision promise.
+
+use num_rational::BigRational;
+use proptest::prelude::*;
+use zsum::exact::parse_rational;
+use zsum::level::LevelList;
+use zsum::models::oscillator::HarmonicModes;
+use zsum::models::product::{Part, Product};
+use zsum::models::rotor::LinearRotor;
+use zsum::models::ParticleInBox;
+use zsum::spectrum::{Budget, Spectrum, State};
+use zsum::sum::{thermo, thermo_with, Path, Temperature, ThermoPoint};
+use zsum::units::EnergyUnit;
+
+fn r(s: &str) -> BigRational {
+    parse_rational(s).unwrap()
+}
+
+fn f(s: &str) -> f64 {
+    s.parse().unwrap()
+}
+
+fn kelvin(t: &str) -> Temperature {
+    Temperature::Kelvin(r(t))
+}
+
+fn same_digits(a: &ThermoPoint, b: &ThermoPoint) {
+    assert_eq!(a.q, b.q, "q");
+    assert_eq!(a.ln_q, b.ln_q, "ln q");
+    assert_eq!(a.u_over_kt, b.u_over_kt, "U/kT");
+    assert_eq!(a.cv_over_k, b.cv_over_k, "Cv/k");
+    assert_eq!(a.s_over_k, b.s_over_k, "S/k");
+    assert!(a.certified && b.certified);
+}
+
+#[test]
+fn harmonic_oscillator_matches_its_closed_form_and_the_direct_sum() {
+    // q = 1/(1 − e^{−x}), U/kT = x/(e^x − 1), Cv/k = x² e^x/(e^x − 1)²
+    // (standard closed forms), x = θ/T; compared in f64 at 1e-13 relative
+    // (f64 evaluation of the closed form limits the tolerance).
+    let ho = HarmonicModes::one_d(r("1"), false, EnergyUnit::Kelvin).unwrap();
+    for t in ["0.05", "0.3", "1", "2", "7.5", "40", "1000"] {
+        let p = thermo(&ho, &kelvin(t), 25).unwrap();
+        let x = 1.0 / f(t);
+        let q = 1.0 / (1.0 - (-x).exp());
+        let u = x / x.exp_m1();
+        let cv = x * x * x.exp() / (x.exp_m1() * x.exp_m1());
+        assert!((f(&p.q) / q - 1.0).abs() < 1e-13, "q at {t}");
+        assert!((f(&p.u_over_kt) / u - 1.0).abs() < 1e-12, "U at {t}");
+        assert!((f(&p.cv_over_k) / cv - 1.0).abs() < 1e-12, "Cv at {t}");
+        // The geometric-series path and the plain direct sum agree on every
+        // printed digit.
+        if f(t) <= 40.0 {
+            let d = thermo_with(&ho, &kelvin(t), 25, Path::Direct).unwrap();
+            same_digits(&p, &d);
+        }
+    }
+}
+
+#[test]
+fn rigid_rotor_matches_mulholland_at_high_temperature() {
+    // Mulholland (1928): q = T/θ + 1/3 + θ/(15T) + 4/315 (θ/T)² + 1/315 (θ/T)³
+    // + ... (from memory); the next term is of order (θ/T)⁴.
+    let rot = LinearRotor::rigid(r("1"), EnergyUnit::Kelvin).unwrap();
+    for (t, tol) in [("100", 1e-9), ("1000", 1e-13), ("10000", 1e-15)] {
+        let p = thermo(&rot, &kelvin(t), 30).unwrap();
+        let y = 1.0 / f(t);
+        let m = 1.0 / y + 1.0 / 3.0 + y / 15.0 + 4.0 / 315.0 * y * y + y * y * y / 315.0;
+        assert!((f(&p.q) / m - 1.0).abs() < tol, "T/θ = {t}: {} vs {m}", p.q);
+    }
+}
+
+#[test]
+fn box_theta_path_matches_the_direct_sum() {
+    // The 1D box through Jacobi's imaginary transformation against the plain
+    // sum over n, for a = θ/T from 1e-4 to 10: every digit must agree.
+    let seg = ParticleInBox::cube(1).unwrap();
+    for kt in [
+        "10000", "1000", "100", "10", "2", "1", "0.999", "0.5", "0.1",
+    ] {
+        let t = Temperature::Reduced(r(kt));
+        let a = thermo(&seg, &t, 30).unwrap();
+        let d = thermo_with(&seg, &t, 30, Path::Direct).unwrap();
+        same_digits(&a, &d);
+    }
+    // 2D and 3D boxes are products of axes; the direct lattice sum agrees.
+    let sq = ParticleInBox::new(vec![r("1"), r("3/2")]).unwrap();
+    let t = Temperature::Reduced(r("40"));
+    same_digits(
+        &thermo(&sq, &t, 20).unwrap(),
+        &thermo_with(&sq, &t, 20, Path::Direct).unwrap(),
+    );
+}
+
+#[test]
+fn asking_for_more_digits_extends_the_same_digits() {
+    // Precision semantics: the 30-digit value is the 60-digit value rounded.
+    let rot = LinearRotor::rigid(r("1.99824"), EnergyUnit::Wavenumber).unwrap();
+    let cube = ParticleInBox::cube(3).unwrap();
+    let cases: Vec<(&dyn Spectrum, Temperature)> = vec![
+        (&rot, kelvin("298.15")),
+        (&rot, kelvin("3.7")),
+        (&cube, Temperature::Reduced(r("1e16"))),
+        (&cube, Temperature::Reduced(r("2.5"))),
+    ];
+    for (s, t) in cases {
+        let p30 = thermo(s, &t, 30).unwrap();
+        let p60 = thermo(s, &t, 60).unwrap();
+        for (a, b) in [
+            (&p30.q, &p60.q),
+            (&p30.ln_q, &p60.ln_q),
+            (&p30.cv_over_k, &p60.cv_over_k),
+        ] {
+            let rounded = zsum::exact::format_sig(&r(b), 30);
+            assert_eq!(a, &rounded, "{}", s.describe());
+        }
+    }
+}
+
+#[test]
+fn extreme_temperatures_behave() {
+    // T → 0: q → ground degeneracy, Cv → 0, no underflow to nonsense.
+    let o2 = LinearRotor::rigid(r("2"), EnergyUnit::Kelvin)
+        .unwrap()
+        .with_weights(zsum::models::diatomic::ParityWeights::from_nuclear_spin(
+            0, true,
+        ));
+    let p = thermo(&o2, &kelvin("1e-6"), 20).unwrap();
+    // Only odd N: the ground level is N = 1 with 3 states (E = 4 K).
+    assert_eq!(
+        p.q.parse::<f64>().unwrap(),
+        0.0,
+        "q is e^(-4e6) times 3, far below f64"
+    );
+    assert_eq!(p.u_over_kt, zsum::exact::format_sig(&r("4e6"), 20));
+    // S/k → ln 3 (three ground states), compared with f64's ln 3.
+    assert!(
+        (f(&p.s_over_k) - 3f64.ln()).abs() < 1e-15,
+        "S/k = {}",
+        p.s_over_k
+    );
+    let ho = HarmonicModes::one_d(r("1"), false, EnergyUnit::Kelvin).unwrap();
+    let p = thermo(&ho, &kelvin("0.001"), 20).unwrap();
+    assert_eq!(p.q, "1.0000000000000000000");
+    assert!(f(&p.cv_over_k) < 1e-400_f64.max(1e-300));
+    // High T: the classical values (equipartition): rotor 1, oscillator 1,
+    // 3D box 3/2 (common practice).
+    let rot = LinearRotor::rigid(r("1"), EnergyUnit::Kelvin).unwrap();
+    assert!((f(&thermo(&rot, &kelvin("1e6"), 20).unwrap().cv_over_k) - 1.0).abs() < 1e-12);
+    assert!((f(&thermo(&ho, &kelvin("1e6"), 20).unwrap().cv_over_k) - 1.0).abs() < 1e-11);
+    let cube = ParticleInBox::cube(3).unwrap();
+    let p = thermo(&cube, &Temperature::Reduced(r("1e16")), 20).unwrap();
+    assert!((f(&p.cv_over_k) - 1.5).abs() < 1e-8);
+}
+
+/// A spectrum that claims no counting growth and no top: cannot be bounded.
+struct Unbounded;
+
+impl Spectrum for Unbounded {
+    fn describe(&self) -> String {
+        "unbounded test spectrum".into()
+    }
+    fn unit(&self) -> EnergyUnit {
+        EnergyUnit::Kelvin
+    }
+    fn quantum_numbers(&self) -> Vec<String> {
+        vec!["n".into()]
+    }
+    fn ground_energy(&self) -> BigRational {
+        r("0")
+    }
+    fn levels_within(&self, cutoff: &BigRational, _: &Budget) -> zsum::Result<LevelList> {
+        let rot = LinearRotor::rigid(r("1"), EnergyUnit::Kelvin)?;
+        rot.levels_up_to(cutoff)
+    }
+    fn states_at(&self, _: &BigRational) -> zsum::Result<Vec<State>> {
+        Ok(vec![])
+    }
+    fn count_bound(&self, _: &BigRational) -> num_bigint::BigUint {
+        0u32.into()
+    }
+}
+
+#[test]
+fn bad_requests_are_refused() {
+    let rot = LinearRotor::rigid(r("1"), EnergyUnit::Kelvin).unwrap();
+    for t in ["0", "-5"] {
+        let e = thermo(&rot, &kelvin(t), 10).unwrap_err().to_string();
+        assert!(e.contains("greater than zero"), "{e}");
+    }
+    assert!(thermo(&rot, &kelvin("10"), 0)
+        .unwrap_err()
+        .to_string()
+        .contains("digits"));
+    assert!(thermo(&rot, &kelvin("10"), 5000)
+        .unwrap_err()
+        .to_string()
+        .contains("1000"));
+    let e = thermo(&Unbounded, &kelvin("10"), 10)
+        .unwrap_err()
+        .to_string();
+    assert!(e.contains("cannot be bounded"), "{e}");
+    // A box without mass and side has no kelvin scale.
+    let e = thermo(&ParticleInBox::cube(3).unwrap(), &kelvin("10"), 10)
+        .unwrap_err()
+        .to_string();
+    assert!(e.contains("mass and side"), "{e}");
+}
+
+fn entropy_from_populations(s: &dyn Spectrum, t: f64) -> f64 {
+    // S/k = −Σ p ln p over states (a separate formula), in f64.
+    let cut = s.ground_energy() + BigRational::from_float(60.0 * t).unwrap();
+    let l = s.levels_up_to(&cut).unwrap();
+    let e0 = num_traits::ToPrimitive::to_f64(&s.ground_energy()).unwrap();
+    let ws: Vec<(f64, f64)> = l
+        .iter()
+        .map(|lv| {
+            let x = (num_traits::ToPrimitive::to_f64(&lv.energy).unwrap() - e0) / t;
+            (
+                num_traits::ToPrimitive::to_f64(&lv.degeneracy).unwrap(),
+                (-x).exp(),
+            )
+        })
+        .collect();
+    let z: f64 = ws.iter().map(|(g, w)| g * w).sum();
+    -ws.iter()
+        .map(|(g, w)| {
+            let p = w / z;
+            if p > 0.0 {
+                g * p * p.ln()
+            } else {
+                0.0
+            }
+        })
+        .sum::<f64>()
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(24))]
+
+    #[test]
+    fn thermodynamic_invariants(b in 1i64..50, t1 in 1i64..200, dt in 1i64..200) {
+        let rot = LinearRotor::rigid(BigRational::from_integer(b.into()), EnergyUnit::Kelvin).unwrap();
+        let (ta, tb) = (t1.to_string(), (t1 + dt).to_string());
+        let pa = thermo(&rot, &kelvin(&ta), 16).unwrap();
+        let pb = thermo(&rot, &kelvin(&tb), 16).unwrap();
+        // q increases with T; Cv ≥ 0.
+        prop_assert!(f(&pb.q) > f(&pa.q));
+        prop_assert!(f(&pa.cv_over_k) >= 0.0);
+        // S from ln q + U/kT equals −Σ p ln p (in f64: relative 1e-10, or
+        // 1e-15 absolute where p ln p of a near-certain ground state loses
+        // digits in f64).
+        let s_pop = entropy_from_populations(&rot, t1 as f64);
+        prop_assert!((f(&pa.s_over_k) - s_pop).abs() <= 1e-10 * s_pop + 1e-15,
+            "{} vs {}", pa.s_over_k, s_pop);
+    }
+
+    #[test]
+    fn independent_parts_add(b in 1i64..20, w in 1i64..40, t in 1i64..100) {
+        let rot = LinearRotor::rigid(BigRational::from_integer(b.into()), EnergyUnit::Kelvin).unwrap();
+        let ho = HarmonicModes::one_d(BigRational::from_integer(w.into()), true, EnergyUnit::Kelvin).unwrap();
+        let temp = kelvin(&t.to_string());
+        let pr = thermo(&rot, &temp, 20).unwrap();
+        let ph = thermo(&ho, &temp, 20).unwrap();
+        let prod = Product::new(vec![
+            Part { name: "r".into(), spectrum: Box::new(rot) },
+            Part { name: "v".into(), spectrum: Box::new(ho) },
+        ], None).unwrap();
+        let pp = thermo(&prod, &temp, 20).unwrap();
+        let pd = thermo_with(&prod, &temp, 20, Path::Direct).unwrap();
+        // The part-by-part path and the direct sum over the product agree.
+        same_digits(&pp, &pd);
+        for (a, b, c) in [
+            (&pp.ln_q, &pr.ln_q, &ph.ln_q),
+            (&pp.u_over_kt, &pr.u_over_kt, &ph.u_over_kt),
+            (&pp.cv_over_k, &pr.cv_over_k, &ph.cv_over_k),
+            (&pp.s_over_k, &pr.s_over_k, &ph.s_over_k),
+        ] {
+            let sum = f(b) + f(c);
+            prop_assert!((f(a) - sum).abs() <= 1e-14 * sum.abs().max(1e-300));
+        }
+    }
+}
