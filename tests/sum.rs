@@ -31,7 +31,14 @@ fn same_digits(a: &ThermoPoint, b: &ThermoPoint) {
     assert_eq!(a.u_over_kt, b.u_over_kt, "U/kT");
     assert_eq!(a.cv_over_k, b.cv_over_k, "Cv/k");
     assert_eq!(a.s_over_k, b.s_over_k, "S/k");
-    assert!(a.certified && b.certified);
+    assert!(
+        a.certified && b.certified,
+        "certified: {} {} ({:?} {:?})",
+        a.certified,
+        b.certified,
+        a,
+        b
+    );
 }
 
 #[test]
@@ -68,6 +75,27 @@ fn rigid_rotor_matches_mulholland_at_high_temperature() {
         let y = 1.0 / f(t);
         let m = 1.0 / y + 1.0 / 3.0 + y / 15.0 + 4.0 / 315.0 * y * y + y * y * y / 315.0;
         assert!((f(&p.q) / m - 1.0).abs() < tol, "T/θ = {t}: {} vs {m}", p.q);
+    }
+}
+
+#[test]
+fn rotor_recurrence_matches_the_direct_sum() {
+    // The rigid-ladder recurrence against the plain sum over listed levels,
+    // with and without nuclear-spin weights, from T/θ = 0.05 to 3000.
+    use zsum::models::diatomic::ParityWeights;
+    for w in [
+        ParityWeights::uniform(),
+        ParityWeights::from_nuclear_spin(1, false),
+        ParityWeights::from_nuclear_spin(0, true),
+    ] {
+        let rot = LinearRotor::rigid(r("1"), EnergyUnit::Kelvin)
+            .unwrap()
+            .with_weights(w);
+        for t in ["0.05", "0.7", "3", "40", "3000"] {
+            let a = thermo(&rot, &kelvin(t), 30).unwrap();
+            let d = thermo_with(&rot, &kelvin(t), 30, Path::Direct).unwrap();
+            same_digits(&a, &d);
+        }
     }
 }
 

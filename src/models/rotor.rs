@@ -352,11 +352,42 @@ impl Spectrum for LinearRotor {
         turnover(|j| self.energy(j), !(self.d.is_zero() && self.h.is_zero()))
     }
 
+    fn shape(&self) -> crate::sum::Shape<'_> {
+        if self.d.is_zero() && self.h.is_zero() {
+            crate::sum::Shape::RigidLadder(
+                self.b.clone(),
+                [
+                    self.weights.weight(0).clone(),
+                    self.weights.weight(1).clone(),
+                ],
+            )
+        } else {
+            crate::sum::Shape::Direct
+        }
+    }
+
     fn growth_exponent(&self) -> Option<f64> {
         Some(1.0)
     }
 
     fn count_bound(&self, energy: &BigRational) -> BigUint {
+        if self.d.is_zero() && self.h.is_zero() {
+            // Rigid: J(J+1) ≤ E/B ⇔ (2J+1)² ≤ 4E/B + 1, so J_max follows
+            // from one integer square root; (J_max+1)² states times the
+            // larger parity weight bounds the count.
+            if energy.is_negative() {
+                return BigUint::zero();
+            }
+            let s = (energy * BigRational::from_integer(BigInt::from(4)) / &self.b
+                + BigRational::from_integer(BigInt::from(1)))
+            .floor()
+            .to_integer();
+            let r: BigInt = s.sqrt(); // floor(sqrt)
+            let jmax: BigInt = (r - 1) / 2;
+            let n: BigInt = (&jmax + 1) * (&jmax + 1);
+            let w = self.weights.weight(0).max(self.weights.weight(1)).clone();
+            return n.to_biguint().unwrap_or_default() * w;
+        }
         // Exact: the ladder is finite below any energy.
         match self.rungs(energy, &Budget::default()) {
             Ok((rungs, _)) => rungs

@@ -156,3 +156,89 @@ pub(crate) fn harmonic(y: &BigRational, d: u32, zero_point: bool, prec: u32) -> 
         cv,
     }
 }
+
+/// The ladder `x = y J(J+1)` with `(2J+1)·w(J mod 2)` states, by recurrence.
+pub(crate) fn rigid_ladder(
+    y: &BigRational,
+    w: &[num_bigint::BigUint; 2],
+    eps: f64,
+    prec: u32,
+) -> Stats {
+    use num_traits::Zero;
+    let y_f = y.to_f64().unwrap_or(f64::INFINITY);
+    let y_r = Float::with_val(prec, &to_rug(y));
+    let wf = |j: u64| -> Float {
+        let g = &w[(j % 2) as usize];
+        Float::with_val(
+            prec,
+            &rug::Integer::from_digits(&g.to_u32_digits(), rug::integer::Order::Lsf),
+        )
+    };
+    let w_max = w[0]
+        .to_f64()
+        .unwrap_or(f64::MAX)
+        .max(w[1].to_f64().unwrap_or(f64::MAX));
+    let j0: u64 = if w[0].is_zero() { 1 } else { 0 };
+    let r2 = Float::with_val(prec, Float::with_val(prec, &y_r * -2i32).exp_ref());
+    // f = e^{−(x_{J+1} − x_J)} = e^{−2y(J+1)}, starting at J0.
+    let mut f = Float::with_val(
+        prec,
+        Float::with_val(prec, &y_r * (-2i64 * (j0 as i64 + 1))).exp_ref(),
+    );
+    let mut e = Float::with_val(prec, 1u32); // e^{−(x_J − x_J0)}
+    let mut xs: Vec<Float> = Vec::new();
+    let mut ts: Vec<Float> = Vec::new();
+    let mut s0 = Float::new(prec);
+    let mut s1 = Float::new(prec);
+    let base = j0 * (j0 + 1);
+    let target = eps * 1e-3;
+    let mut j = j0;
+    let tail;
+    loop {
+        let x = Float::with_val(prec, &y_r * (j * (j + 1) - base));
+        let t = Float::with_val(prec, &e * (2 * j + 1)) * wf(j);
+        s1 += Float::with_val(prec, &t * &x);
+        s0 += &t;
+        xs.push(x);
+        ts.push(t);
+        // Next term.
+        e *= &f;
+        f *= &r2;
+        j += 1;
+        // First omitted term with the x² prefactor, relative to q' ≥ 1, and
+        // the neighbour ratio f·(2J+3)/(2J+1)·(x_{J+1}/x_J)² bounded by 4f
+        // for J ≥ 1 (after the peak).
+        let xn = y_f * (j * (j + 1) - base) as f64;
+        let next = e.to_f64() * (2 * j + 1) as f64 * w_max * (1.0 + xn) * (1.0 + xn);
+        let ratio = 4.0 * f.to_f64() * 2.0;
+        if j > j0 + 2 && ratio < 0.5 && next < target * s0.to_f64() {
+            tail = 2.0 * next / s0.to_f64();
+            break;
+        }
+        if e.is_zero() {
+            tail = 0.0;
+            break;
+        }
+    }
+    let mu = Float::with_val(prec, &s1 / &s0);
+    let mut s2 = Float::new(prec);
+    for (x, t) in xs.iter().zip(&ts) {
+        let d = Float::with_val(prec, x - &mu);
+        s2 += Float::with_val(prec, &d * &d) * t;
+    }
+    let var = Float::with_val(prec, &s2 / &s0);
+    let n = xs.len() as f64;
+    let x_max = xs.last().map(|x| x.to_f64()).unwrap_or(0.0);
+    let rel = (3.0 * n + 20.0) * (1.0 + x_max) * ulp(prec) * 2.0;
+    let shift = Float::with_val(prec, &y_r * base);
+    let m = mu.to_f64();
+    let v = var.to_f64();
+    Stats {
+        ln_q: Float::with_val(prec, s0.ln_ref()) - &shift,
+        u: Float::with_val(prec, &mu + &shift),
+        cv: var,
+        err_ln_q: tail + rel + shift.to_f64() * ulp(prec) * 4.0,
+        err_u: tail * (1.0 + m) + rel * (1.0 + m) + shift.to_f64() * ulp(prec) * 4.0,
+        err_cv: 4.0 * tail * (1.0 + m) * (1.0 + m) + rel * (v + m * m * ulp(prec)),
+    }
+}

@@ -67,8 +67,34 @@ fn tail_bounds(count: &dyn Fn(f64) -> f64, x_c: f64, p: f64, ln_eps: f64) -> [f6
     out
 }
 
-/// Direct sum of a spectrum's levels at inverse temperature `beta`.
+/// Direct sum of a spectrum's levels at inverse temperature `beta`. The
+/// cutoff widens until the tail bound is small against every result, not
+/// only against q: at low temperature Cv/k can be far smaller than the
+/// tail's share of q.
 pub(crate) fn stats(s: &dyn Spectrum, beta: &BigRational, eps: f64, prec: u32) -> Result<Stats> {
+    let mut x_min = 0.0;
+    for _ in 0..12 {
+        let (st, x_c) = stats_from(s, beta, eps, prec, x_min)?;
+        let small = |err: f64, v: &rug::Float| err <= eps * v.to_f64().abs();
+        if x_c == 0.0 || (small(st.err_cv, &st.cv) && small(st.err_u, &st.u)) {
+            return Ok(st);
+        }
+        x_min = 2.0 * x_c;
+    }
+    stats_from(s, beta, eps, prec, x_min).map(|(st, _)| st)
+}
+
+/// One direct sum with the cutoff at least `x_min` (in units of kT above
+/// the ground); returns the stats and the cutoff used (0 for a finite
+/// spectrum summed completely).
+fn stats_from(
+    s: &dyn Spectrum,
+    beta: &BigRational,
+    eps: f64,
+    prec: u32,
+    x_min: f64,
+) -> Result<(Stats, f64)> {
+    let mut x_used = 0.0;
     let e0 = s.ground_energy();
     let beta_f = beta.to_f64().unwrap_or(f64::INFINITY);
     let (levels, ln_tail) = match s.highest_energy() {
@@ -84,7 +110,7 @@ pub(crate) fn stats(s: &dyn Spectrum, beta: &BigRational, eps: f64, prec: u32) -
             })?;
             // Start where e^{-x} alone is far below eps, then widen until the
             // tail bound is small enough.
-            let mut x_c = -(eps.ln()) + 10.0 + 2.0 * p;
+            let mut x_c = (-(eps.ln()) + 10.0 + 2.0 * p).max(x_min);
             loop {
                 let width = BigRational::from_float(x_c / beta_f).ok_or_else(|| {
                     Error::invalid(
@@ -110,6 +136,7 @@ pub(crate) fn stats(s: &dyn Spectrum, beta: &BigRational, eps: f64, prec: u32) -
                             s.describe()
                         )));
                     }
+                    x_used = x_c;
                     break (s.levels_up_to(&cutoff)?, t);
                 }
                 x_c *= 1.5;
@@ -165,12 +192,15 @@ pub(crate) fn stats(s: &dyn Spectrum, beta: &BigRational, eps: f64, prec: u32) -
     let ln_q = Float::with_val(prec, s0.ln_ref()) - &shift;
     let u = Float::with_val(prec, &mu + &shift);
     let shift_err = shift.to_f64().abs() * ulp * 4.0;
-    Ok(Stats {
-        ln_q,
-        u,
-        cv: var,
-        err_ln_q: t0 + round_rel + shift_err,
-        err_u: err_mu + shift_err,
-        err_cv: err_var,
-    })
+    Ok((
+        Stats {
+            ln_q,
+            u,
+            cv: var,
+            err_ln_q: t0 + round_rel + shift_err,
+            err_u: err_mu + shift_err,
+            err_cv: err_var,
+        },
+        x_used,
+    ))
 }

@@ -55,7 +55,11 @@
 //!   for `a = w/kT < 1` through Jacobi's imaginary transformation
 //!   `Σ_{n∈Z} e^{−an²} = sqrt(π/a) Σ_{m∈Z} e^{−π²m²/a}` and its derivatives in
 //!   a, so a macroscopic box costs a handful of terms;
-//! - harmonic modes ([`Shape::Harmonic`]): the geometric series in closed form.
+//! - harmonic modes ([`Shape::Harmonic`]): the geometric series in closed form;
+//! - the rigid rotor ladder ([`Shape::RigidLadder`]): successive terms by the
+//!   recurrence `e^{−x_{J+1}} = e^{−x_J} · f_J`, `f_{J+1} = f_J e^{−2y}`; the
+//!   tail past J is at most twice the first omitted term once the ratio of
+//!   neighbours stays below 1/2.
 
 mod closed;
 mod direct;
@@ -88,6 +92,10 @@ pub enum Shape<'a> {
     Squares(Vec<BigRational>),
     /// Harmonic modes `(ω, degeneracy)`, with or without zero-point energy.
     Harmonic(Vec<(BigRational, u32)>, bool),
+    /// `E = b J(J+1)`, J = 0, 1, ..., with `(2J+1)·w(J mod 2)` states (a
+    /// rigid linear rotor with parity weights `[even, odd]`): summed by a
+    /// two-multiplication recurrence instead of one exponential per level.
+    RigidLadder(BigRational, [num_bigint::BigUint; 2]),
 }
 
 /// A temperature: in kelvin, or as kT in the spectrum's own unit (for a box
@@ -213,6 +221,7 @@ fn stats_path(
             }
             acc.ok_or_else(|| Error::invalid("box", "with no axes", "it needs an axis"))
         }
+        Shape::RigidLadder(b, w) => Ok(closed::rigid_ladder(&(&b * beta), &w, eps, prec)),
         Shape::Harmonic(modes, zero_point) => {
             let mut acc: Option<Stats> = None;
             for (w, d) in &modes {

@@ -1,0 +1,67 @@
+//! Summation speed (figures quoted in the README).
+
+use criterion::{criterion_group, criterion_main, Criterion};
+use std::hint::black_box;
+use zsum::exact::parse_rational;
+use zsum::models::oscillator::HarmonicModes;
+use zsum::models::product::{Part, Product};
+use zsum::models::rotor::LinearRotor;
+use zsum::models::ParticleInBox;
+use zsum::sum::{thermo, Temperature};
+use zsum::units::EnergyUnit;
+
+fn r(s: &str) -> num_rational::BigRational {
+    parse_rational(s).unwrap()
+}
+
+fn sums(c: &mut Criterion) {
+    let mut g = c.benchmark_group("sum");
+    let rot = LinearRotor::rigid(r("1"), EnergyUnit::Kelvin).unwrap();
+    let t = Temperature::Kelvin(r("1e4"));
+    g.bench_function("rotor_T_over_theta_1e4_50_digits", |b| {
+        b.iter(|| black_box(thermo(&rot, &t, 50).unwrap()))
+    });
+    let cube = ParticleInBox::cube(3).unwrap();
+    for kt in ["1e3", "1e16"] {
+        let t = Temperature::Reduced(r(kt));
+        g.bench_function(format!("cube_kT_{kt}_30_digits"), |b| {
+            b.iter(|| black_box(thermo(&cube, &t, 30).unwrap()))
+        });
+    }
+    g.finish();
+}
+
+fn sweep(c: &mut Criterion) {
+    let mut g = c.benchmark_group("sweep");
+    g.sample_size(10);
+    let prod = Product::new(
+        vec![
+            Part {
+                name: "rot".into(),
+                spectrum: Box::new(LinearRotor::rigid(r("2.88"), EnergyUnit::Kelvin).unwrap()),
+            },
+            Part {
+                name: "vib".into(),
+                spectrum: Box::new(
+                    HarmonicModes::one_d(r("3393"), true, EnergyUnit::Kelvin).unwrap(),
+                ),
+            },
+        ],
+        None,
+    )
+    .unwrap();
+    let grid: Vec<Temperature> = (1..=1000)
+        .map(|i| Temperature::Kelvin(num_rational::BigRational::from_integer(i.into())))
+        .collect();
+    g.bench_function("rotor_x_oscillator_1000_temperatures_30_digits", |b| {
+        b.iter(|| {
+            for t in &grid {
+                black_box(thermo(&prod, t, 30).unwrap());
+            }
+        })
+    });
+    g.finish();
+}
+
+criterion_group!(benches, sums, sweep);
+criterion_main!(benches);

@@ -1,0 +1,60 @@
+//! Cross-check against an independent oracle outside the project:
+//! `tests/crosscheck/oracle.py` sums the partition functions directly with
+//! Python's mpmath (arbitrary-precision floating point) at 50 digits, runs
+//! the zsum binary with `--digits 30 --format json`, and requires every
+//! printed digit of q, ln q, U/kT, Cv/k, S/k and F/kT to equal the oracle's
+//! value correctly rounded to 30 significant digits. It exits non-zero with
+//! a report naming the command, the oracle's value and zsum's value if any
+//! digit disagrees.
+//!
+//! mpmath is required (CI installs it in `.ci/run`): without it this test
+//! fails rather than skipping.
+
+use std::path::Path;
+use std::process::Command;
+
+#[test]
+fn zsum_agrees_with_the_mpmath_oracle_to_30_digits() {
+    let have_mpmath = Command::new("python3")
+        .args(["-c", "import mpmath"])
+        .output()
+        .map(|out| out.status.success());
+    match have_mpmath {
+        Ok(true) => {}
+        Ok(false) => panic!(
+            "the cross-check oracle needs Python's mpmath, which `python3 -c \"import mpmath\"` \
+             could not import: run `pip install mpmath` (or `python3 -m pip install mpmath`)"
+        ),
+        Err(e) => panic!(
+            "could not start python3 ({e}): the cross-check oracle needs python3 with mpmath; \
+             install Python 3 and run `pip install mpmath`"
+        ),
+    }
+
+    let oracle = Path::new(env!("CARGO_MANIFEST_DIR"))
+        .join("tests")
+        .join("crosscheck")
+        .join("oracle.py");
+    let out = Command::new("python3")
+        .arg(&oracle)
+        .arg(env!("CARGO_BIN_EXE_zsum"))
+        .output()
+        .expect("failed to start python3 on tests/crosscheck/oracle.py");
+    let stdout = String::from_utf8_lossy(&out.stdout);
+    let stderr = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        out.status.success(),
+        "the mpmath oracle disagrees with zsum (or failed), status {:?}\n\
+         --- stdout ---\n{stdout}\n--- stderr ---\n{stderr}",
+        out.status.code()
+    );
+    // The oracle reports one verdict line per case; make sure it really ran
+    // its cases and all of them passed.
+    let passed = stdout.lines().filter(|l| l.starts_with("PASS")).count();
+    let failed = stdout.lines().filter(|l| l.starts_with("FAIL")).count();
+    assert!(
+        passed >= 11 && failed == 0,
+        "expected at least 11 PASS lines and no FAIL, got {passed} PASS, {failed} FAIL\n{stdout}"
+    );
+    println!("{stdout}");
+}
