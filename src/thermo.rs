@@ -233,6 +233,14 @@ impl ThermoReport {
             ));
         }
         const EXTRA: u32 = 4;
+        let max = crate::sum::MAX_DIGITS - EXTRA;
+        if !(1..=max).contains(&digits) {
+            return Err(Error::invalid(
+                "digits",
+                digits,
+                &format!("choose between 1 and {max} significant digits"),
+            ));
+        }
         let k = constants::boltzmann();
         let scale = match per {
             Some(Per::Mole) => Some(&k * constants::avogadro()),

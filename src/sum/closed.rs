@@ -167,13 +167,16 @@ pub(crate) fn rigid_ladder(
     use num_traits::Zero;
     let y_f = y.to_f64().unwrap_or(f64::INFINITY);
     let y_r = Float::with_val(prec, &to_rug(y));
-    let wf = |j: u64| -> Float {
-        let g = &w[(j % 2) as usize];
-        Float::with_val(
-            prec,
-            &rug::Integer::from_digits(&g.to_u32_digits(), rug::integer::Order::Lsf),
-        )
-    };
+    let w_float: Vec<Float> = w
+        .iter()
+        .map(|g| {
+            Float::with_val(
+                prec,
+                &rug::Integer::from_digits(&g.to_u32_digits(), rug::integer::Order::Lsf),
+            )
+        })
+        .collect();
+    let wf = |j: u64| -> &Float { &w_float[(j % 2) as usize] };
     let w_max = w[0]
         .to_f64()
         .unwrap_or(f64::MAX)
@@ -186,33 +189,58 @@ pub(crate) fn rigid_ladder(
         Float::with_val(prec, &y_r * (-2i64 * (j0 as i64 + 1))).exp_ref(),
     );
     let mut e = Float::with_val(prec, 1u32); // e^{−(x_J − x_J0)}
-    let mut xs: Vec<Float> = Vec::new();
-    let mut ts: Vec<Float> = Vec::new();
+                                             // One pass with integer moments: with k = J(J+1) − J0(J0+1) and x = y k,
+                                             // S0 = Σ t, S1 = Σ t k, S2 = Σ t k², so μ = y S1/S0 and
+                                             // σ² = y² (S2/S0 − (S1/S0)²). The subtraction costs at most a few bits
+                                             // here (k starts at 0 with the largest weight at low T, and spreads
+                                             // like an exponential at high T); the error bound below charges it in
+                                             // full.
+    use rug::Assign;
     let mut s0 = Float::new(prec);
     let mut s1 = Float::new(prec);
+    let mut s2 = Float::new(prec);
+    let mut t = Float::new(prec);
     let base = j0 * (j0 + 1);
     let target = eps * 1e-3;
     let mut j = j0;
+    let unit_weights =
+        w[0] <= num_bigint::BigUint::from(1u8) && w[1] <= num_bigint::BigUint::from(1u8);
+    let mut n_terms = 0u64;
     let tail;
     loop {
-        let x = Float::with_val(prec, &y_r * (j * (j + 1) - base));
-        let t = Float::with_val(prec, &e * (2 * j + 1)) * wf(j);
-        s1 += Float::with_val(prec, &t * &x);
+        let k = j * (j + 1) - base;
+        if unit_weights {
+            if !w[(j % 2) as usize].is_zero() {
+                t.assign(&e * (2 * j + 1));
+            } else {
+                t.assign(0u32);
+            }
+        } else {
+            t.assign(&e * (2 * j + 1));
+            t *= wf(j);
+        }
         s0 += &t;
-        xs.push(x);
-        ts.push(t);
+        t *= k;
+        s1 += &t;
+        t *= k;
+        s2 += &t;
+        n_terms += 1;
         // Next term.
         e *= &f;
         f *= &r2;
         j += 1;
-        // First omitted term with the x² prefactor, relative to q' ≥ 1, and
-        // the neighbour ratio f·(2J+3)/(2J+1)·(x_{J+1}/x_J)² bounded by 4f
-        // for J ≥ 1 (after the peak).
+        // The envelope w_max (2n+1) e^{−x_n} (1+x_n)² of the omitted terms
+        // (it bounds the summands of q', μ and σ² alike) falls from n to
+        // n+1 by ρ_n = f_n · (2n+3)/(2n+1) · ((1+x_{n+1})/(1+x_n))², and every
+        // factor shrinks as n grows; once ρ_J < 1 the tail is at most the
+        // first omitted envelope term over (1 − ρ_J).
         let xn = y_f * (j * (j + 1) - base) as f64;
+        let xn1 = y_f * ((j + 1) * (j + 2) - base) as f64;
         let next = e.to_f64() * (2 * j + 1) as f64 * w_max * (1.0 + xn) * (1.0 + xn);
-        let ratio = 4.0 * f.to_f64() * 2.0;
-        if j > j0 + 2 && ratio < 0.5 && next < target * s0.to_f64() {
-            tail = 2.0 * next / s0.to_f64();
+        let rho = f.to_f64() * (2 * j + 3) as f64 / (2 * j + 1) as f64
+            * ((1.0 + xn1) / (1.0 + xn)).powi(2);
+        if j > j0 + 2 && rho < 1.0 && next / (1.0 - rho) < target * s0.to_f64() {
+            tail = next / (1.0 - rho) / s0.to_f64();
             break;
         }
         if e.is_zero() {
@@ -220,16 +248,16 @@ pub(crate) fn rigid_ladder(
             break;
         }
     }
-    let mu = Float::with_val(prec, &s1 / &s0);
-    let mut s2 = Float::new(prec);
-    for (x, t) in xs.iter().zip(&ts) {
-        let d = Float::with_val(prec, x - &mu);
-        s2 += Float::with_val(prec, &d * &d) * t;
-    }
-    let var = Float::with_val(prec, &s2 / &s0);
-    let n = xs.len() as f64;
-    let x_max = xs.last().map(|x| x.to_f64()).unwrap_or(0.0);
+    let m1 = Float::with_val(prec, &s1 / &s0);
+    let m2 = Float::with_val(prec, &s2 / &s0);
+    let var_k = Float::with_val(prec, &m2 - Float::with_val(prec, &m1 * &m1));
+    let mu = Float::with_val(prec, &m1 * &y_r);
+    let var = Float::with_val(prec, &var_k * Float::with_val(prec, &y_r * &y_r));
+    let n = n_terms as f64;
+    let x_max = y_f * (j * (j + 1) - base) as f64;
     let rel = (3.0 * n + 20.0) * (1.0 + x_max) * ulp(prec) * 2.0;
+    // Rounding in σ² is relative to the two terms subtracted, not to σ².
+    let second = m2.to_f64() * y_f * y_f;
     let shift = Float::with_val(prec, &y_r * base);
     let m = mu.to_f64();
     let v = var.to_f64();
@@ -239,6 +267,6 @@ pub(crate) fn rigid_ladder(
         cv: var,
         err_ln_q: tail + rel + shift.to_f64() * ulp(prec) * 4.0,
         err_u: tail * (1.0 + m) + rel * (1.0 + m) + shift.to_f64() * ulp(prec) * 4.0,
-        err_cv: 4.0 * tail * (1.0 + m) * (1.0 + m) + rel * (v + m * m * ulp(prec)),
+        err_cv: 4.0 * tail * (1.0 + m) * (1.0 + m) + 4.0 * rel * (second + m * m) + v * rel,
     }
 }
