@@ -32,23 +32,13 @@ fn direct_squares(a: &Float, af: f64, big_l: f64, prec: u32) -> Stats {
     let n_max = ((big_l / af + 1.0).sqrt().ceil() as u64).max(2);
     let mut xs = Vec::new();
     let mut ws = Vec::new();
-    let mut s0 = Float::new(prec);
-    let mut s1 = Float::new(prec);
     for n in 1..=n_max {
         let x = Float::with_val(prec, a * (n * n - 1));
         let w = Float::with_val(prec, -&x).exp();
-        s1 += Float::with_val(prec, &w * &x);
-        s0 += &w;
         xs.push(x);
         ws.push(w);
     }
-    let mu = Float::with_val(prec, &s1 / &s0);
-    let mut s2 = Float::new(prec);
-    for (x, w) in xs.iter().zip(&ws) {
-        let d = Float::with_val(prec, x - &mu);
-        s2 += Float::with_val(prec, &d * &d) * w;
-    }
-    let var = Float::with_val(prec, &s2 / &s0);
+    let (s0, mu, var) = super::direct::moments(&xs, &ws, prec);
     let x_next = af * ((n_max + 1) * (n_max + 1) - 1) as f64;
     let tail = 2.0 * (-x_next).exp() * (1.0 + x_next) * (1.0 + x_next);
     let rel = (n_max as f64 + big_l + 8.0) * ulp(prec) * 2.0;

@@ -67,6 +67,26 @@ fn tail_bounds(count: &dyn Fn(f64) -> f64, x_c: f64, p: f64, ln_eps: f64) -> [f6
     out
 }
 
+/// The weighted sum, mean and central second moment of terms `w_i` at
+/// reduced energies `x_i` (two passes: the mean first, then Σ w (x − μ)²,
+/// so nothing cancels).
+pub(crate) fn moments(xs: &[Float], ws: &[Float], prec: u32) -> (Float, Float, Float) {
+    let mut s0 = Float::new(prec);
+    let mut s1 = Float::new(prec);
+    for (x, w) in xs.iter().zip(ws) {
+        s1 += Float::with_val(prec, w * x);
+        s0 += w;
+    }
+    let mu = Float::with_val(prec, &s1 / &s0);
+    let mut s2 = Float::new(prec);
+    for (x, w) in xs.iter().zip(ws) {
+        let d = Float::with_val(prec, x - &mu);
+        s2 += Float::with_val(prec, &d * &d) * w;
+    }
+    let var = Float::with_val(prec, &s2 / &s0);
+    (s0, mu, var)
+}
+
 /// Direct sum of a spectrum's levels at inverse temperature `beta`. The
 /// cutoff widens until the tail bound is small against every result, not
 /// only against q: at low temperature Cv/k can be far smaller than the
@@ -153,8 +173,6 @@ fn stats_from(
     let beta_r = Float::with_val(prec, &to_rug(beta));
     let mut xs = Vec::with_capacity(levels.len());
     let mut ws = Vec::with_capacity(levels.len());
-    let mut s0 = Float::new(prec);
-    let mut s1 = Float::new(prec);
     let mut x_max = 0f64;
     for l in levels.iter() {
         let de = &l.energy - &e0;
@@ -162,18 +180,10 @@ fn stats_from(
         let g = Integer::from_digits(&l.degeneracy.to_u32_digits(), rug::integer::Order::Lsf);
         let w = Float::with_val(prec, -&x).exp() * &g;
         x_max = x_max.max(x.to_f64());
-        s1 += Float::with_val(prec, &w * &x);
-        s0 += &w;
         xs.push(x);
         ws.push(w);
     }
-    let mu = Float::with_val(prec, &s1 / &s0);
-    let mut s2 = Float::new(prec);
-    for (x, w) in xs.iter().zip(&ws) {
-        let d = Float::with_val(prec, x - &mu);
-        s2 += Float::with_val(prec, &d * &d) * w;
-    }
-    let var = Float::with_val(prec, &s2 / &s0);
+    let (s0, mu, var) = moments(&xs, &ws, prec);
     // Error bounds.
     let n = levels.len() as f64;
     let ulp = 2f64.powi(-(prec as i32));
