@@ -248,13 +248,20 @@ impl ThermoReport {
             None => None,
         };
         let mut rows = Vec::with_capacity(grid.len());
-        for (i, t) in grid.iter().enumerate() {
+        // Reuse level listings across the grid: sweep from the hottest
+        // temperature down, so the first listing covers every later one.
+        let cached = crate::sum::Cached::new(spectrum);
+        let mut order: Vec<usize> = (0..grid.len()).collect();
+        order.sort_by(|&a, &b| grid[b].cmp(&grid[a]));
+        let mut done = vec![None; grid.len()];
+        for (count, &i) in order.iter().enumerate() {
+            let t = &grid[i];
             let temp = if kelvin {
                 Temperature::Kelvin(t.clone())
             } else {
                 Temperature::Reduced(t.clone())
             };
-            let wide = thermo(spectrum, &temp, digits + EXTRA)?;
+            let wide = thermo(&cached, &temp, digits + EXTRA)?;
             let one = BigRational::from_integer(BigInt::from(1));
             let mut ok = wide.certified;
             let mut re = |s: &str, f: &BigRational| {
@@ -284,9 +291,10 @@ impl ThermoReport {
             };
             point.certified = ok;
             point.t = exact_decimal(t, 40);
-            rows.push(ThermoRow { point, u, cv, s, f });
-            progress(i + 1);
+            done[i] = Some(ThermoRow { point, u, cv, s, f });
+            progress(count + 1);
         }
+        rows.extend(done.into_iter().flatten());
         let units = per.map(|p| {
             let (e, c) = match p {
                 Per::Mole => ("J/mol", "J/(mol K)"),

@@ -314,3 +314,35 @@ proptest! {
         }
     }
 }
+
+#[test]
+fn sweeps_reuse_levels_without_changing_a_digit() {
+    // A grid evaluated with the level cache (hottest first) gives the same
+    // digits as each temperature alone.
+    use zsum::models::diatomic::{ParityWeights, RovibDiatomic};
+    use zsum::models::oscillator::AnharmonicOscillator;
+    use zsum::thermo::{parse_grid, ThermoReport};
+    let vib = AnharmonicOscillator::new(r("2358.57"), r("14.324"), r("0"), EnergyUnit::Wavenumber)
+        .unwrap();
+    let m = RovibDiatomic::new(
+        vib,
+        r("1.99824"),
+        r("0.017318"),
+        r("5.76e-6"),
+        ParityWeights::from_nuclear_spin(2, false),
+    )
+    .unwrap();
+    let grid = parse_grid("--T", "50:1250:400").unwrap();
+    let rep =
+        ThermoReport::build("diatomic", &m, &grid, true, 12, None, true, &mut |_| {}).unwrap();
+    assert_eq!(rep.rows.len(), 4);
+    for (row, t) in rep.rows.iter().zip(&grid) {
+        let alone = thermo(&m, &Temperature::Kelvin(t.clone()), 16).unwrap();
+        assert_eq!(row.point.t, zsum::exact::exact_decimal(t, 40));
+        assert_eq!(row.point.q, zsum::exact::format_sig(&r(&alone.q), 12));
+        assert_eq!(
+            row.point.cv_over_k,
+            zsum::exact::format_sig(&r(&alone.cv_over_k), 12)
+        );
+    }
+}

@@ -360,3 +360,74 @@ fn point(st: &Stats, t: &str, digits: u32, prec: u32) -> ThermoPoint {
         certified: ok_q && ok_l && ok_u && ok_c && ok_s && ok_f,
     }
 }
+
+/// A spectrum whose level listings are kept and reused: a temperature sweep
+/// lists levels once, at the highest cutoff any temperature needs, and
+/// later temperatures take the part of the list they need.
+pub struct Cached<'a> {
+    inner: &'a dyn Spectrum,
+    store: std::cell::RefCell<Option<(BigRational, crate::level::LevelList)>>,
+}
+
+impl<'a> Cached<'a> {
+    /// Wraps `inner`.
+    pub fn new(inner: &'a dyn Spectrum) -> Self {
+        Cached {
+            inner,
+            store: std::cell::RefCell::new(None),
+        }
+    }
+}
+
+impl Spectrum for Cached<'_> {
+    fn describe(&self) -> String {
+        self.inner.describe()
+    }
+    fn unit(&self) -> EnergyUnit {
+        self.inner.unit()
+    }
+    fn quantum_numbers(&self) -> Vec<String> {
+        self.inner.quantum_numbers()
+    }
+    fn ground_energy(&self) -> BigRational {
+        self.inner.ground_energy()
+    }
+    fn levels_within(
+        &self,
+        cutoff: &BigRational,
+        budget: &crate::spectrum::Budget,
+    ) -> Result<crate::level::LevelList> {
+        if let Some((c, list)) = self.store.borrow().as_ref() {
+            if cutoff <= c {
+                return Ok(list.truncated(cutoff));
+            }
+        }
+        let list = self.inner.levels_within(cutoff, budget)?;
+        *self.store.borrow_mut() = Some((cutoff.clone(), list.clone()));
+        Ok(list)
+    }
+    fn states_at(&self, energy: &BigRational) -> Result<Vec<crate::spectrum::State>> {
+        self.inner.states_at(energy)
+    }
+    fn count_bound(&self, energy: &BigRational) -> num_bigint::BigUint {
+        self.inner.count_bound(energy)
+    }
+    fn doubled_numbers(&self) -> Vec<bool> {
+        self.inner.doubled_numbers()
+    }
+    fn labels_at(&self, energy: &BigRational) -> Vec<String> {
+        self.inner.labels_at(energy)
+    }
+    fn shape(&self) -> Shape<'_> {
+        self.inner.shape()
+    }
+    fn highest_energy(&self) -> Option<BigRational> {
+        self.inner.highest_energy()
+    }
+    fn growth_exponent(&self) -> Option<f64> {
+        self.inner.growth_exponent()
+    }
+    fn warnings(&self, cutoff: &BigRational) -> Vec<String> {
+        self.inner.warnings(cutoff)
+    }
+}
