@@ -21,6 +21,10 @@ fn sums(c: &mut Criterion) {
     g.bench_function("rotor_T_over_theta_1e4_50_digits", |b| {
         b.iter(|| black_box(thermo(&rot, &t, 50).unwrap()))
     });
+    let t_low = Temperature::Kelvin(r("1"));
+    g.bench_function("rotor_T_over_theta_1_50_digits", |b| {
+        b.iter(|| black_box(thermo(&rot, &t_low, 50).unwrap()))
+    });
     let cube = ParticleInBox::cube(3).unwrap();
     for kt in ["1e3", "1e16"] {
         let t = Temperature::Reduced(r(kt));
