@@ -260,3 +260,129 @@ pub(crate) fn rigid_ladder(
         err_cv: 4.0 * tail * (1.0 + m) * (1.0 + m) + 4.0 * rel * (second + m * m) + v * rel,
     }
 }
+
+/// The rigid ladder in fixed point, for `y = θ/T ≤ 1/2`, where every term
+/// that matters is far above the fixed-point unit: integers scaled by 2^P
+/// replace floating point, so each step is a few exact integer operations
+/// and two truncating products. The truncation errors are tracked term by
+/// term (in f64, inflated) and enter the bounds; the result is then
+/// certified like any other.
+pub(crate) fn rigid_ladder_fixed(
+    y: &BigRational,
+    w: &[num_bigint::BigUint; 2],
+    eps: f64,
+    prec: u32,
+) -> Option<Stats> {
+    use num_traits::Zero;
+    use rug::Integer;
+    let y_f = y.to_f64()?;
+    if !(y_f > 0.0 && y_f <= 0.5) {
+        return None;
+    }
+    let p = prec + 24; // with prec ≥ 64 guard bits, P fits four 64-bit limbs at 50 digits
+    let y_r = Float::with_val(p + 16, &to_rug(y));
+    let to_fixed = |x: Float| -> Integer {
+        let scaled = x << p;
+        scaled.to_integer().unwrap_or_default()
+    };
+    let wi: Vec<Integer> = w
+        .iter()
+        .map(|g| Integer::from_digits(&g.to_u32_digits(), rug::integer::Order::Lsf))
+        .collect();
+    let w_max = w[0].to_f64()?.max(w[1].to_f64()?);
+    let j0: u64 = if w[0].is_zero() { 1 } else { 0 };
+    let base = j0 * (j0 + 1);
+    // R = e^{−2y}, F = e^{−2y(J0+1)}, E = 1, all times 2^P; each off by at
+    // most 2 units (MPFR's rounding plus the truncation).
+    let r_fix = to_fixed(Float::with_val(p + 16, &y_r * -2i32).exp());
+    let mut f_fix = to_fixed(Float::with_val(p + 16, &y_r * (-2i64 * (j0 as i64 + 1))).exp());
+    let mut e_fix = Integer::from(1) << p;
+    let (mut s0, mut s1, mut s2) = (Integer::new(), Integer::new(), Integer::new());
+    let (mut d_e, mut d_f) = (0f64, 2f64); // error bounds of E, F in units
+    let (mut err0, mut err1, mut err2) = (0f64, 0f64, 0f64);
+    let unit = 2f64.powi(-(p as i32));
+    let target = eps; // the tail bound itself enters the error interval
+    let mut a = Integer::new();
+    let mut j = j0;
+    let unit_weights = wi.iter().all(|g| *g <= 1u32);
+    let tail;
+    loop {
+        let k = j * (j + 1) - base;
+        let g = &wi[(j % 2) as usize];
+        a.assign(&e_fix * (2 * j + 1));
+        if !unit_weights {
+            a *= g;
+        } else if g.is_zero() {
+            a.assign(0u32);
+        }
+        s0 += &a;
+        a *= k;
+        s1 += &a;
+        a *= k;
+        s2 += &a;
+        let weight = (2 * j + 1) as f64 * w_max * d_e;
+        err0 += weight;
+        err1 += weight * k as f64;
+        err2 += weight * (k as f64) * (k as f64);
+        // E ← E·F / 2^P, F ← F·R / 2^P (truncating; one more unit each).
+        e_fix *= &f_fix;
+        e_fix >>= p;
+        d_e += d_f + 1.0;
+        f_fix *= &r_fix;
+        f_fix >>= p;
+        d_f += 3.0;
+        j += 1;
+        // Test for the end every fourth term (summing a few more is harmless).
+        if j % 4 != 0 {
+            continue;
+        }
+        let e = e_fix.to_f64() * unit;
+        let f = f_fix.to_f64() * unit;
+        let xn = y_f * (j * (j + 1) - base) as f64;
+        let xn1 = y_f * ((j + 1) * (j + 2) - base) as f64;
+        // As in the floating-point ladder: the envelope's neighbour ratio.
+        let next = (e + d_e * unit) * (2 * j + 1) as f64 * w_max * (1.0 + xn) * (1.0 + xn);
+        let rho = (f + d_f * unit) * (2 * j + 3) as f64 / (2 * j + 1) as f64
+            * ((1.0 + xn1) / (1.0 + xn)).powi(2);
+        let s0_f = s0.to_f64() * unit;
+        if j > j0 + 2 && rho < 1.0 && next / (1.0 - rho) < target * s0_f {
+            tail = next / (1.0 - rho) / s0_f;
+            break;
+        }
+        if e_fix.is_zero() || j > 100_000_000 {
+            return None;
+        }
+    }
+    use rug::Assign;
+    let to_float = |i: &Integer| Float::with_val(prec, i) >> p;
+    let (f0, f1, f2) = (to_float(&s0), to_float(&s1), to_float(&s2));
+    let y_w = Float::with_val(prec, &to_rug(y));
+    let m1 = Float::with_val(prec, &f1 / &f0);
+    let m2 = Float::with_val(prec, &f2 / &f0);
+    let var_k = Float::with_val(prec, &m2 - Float::with_val(prec, &m1 * &m1));
+    let mu = Float::with_val(prec, &m1 * &y_w);
+    let var = Float::with_val(prec, &var_k * Float::with_val(prec, &y_w * &y_w));
+    // Relative errors of S0, S1, S2 from the truncations (inflated 2×),
+    // plus the final divisions.
+    let q0 = f0.to_f64();
+    let r0 = 2.0 * err0 * unit / q0;
+    let r1 = 2.0 * err1 * unit / f1.to_f64().max(f64::MIN_POSITIVE);
+    let r2 = 2.0 * err2 * unit / f2.to_f64().max(f64::MIN_POSITIVE);
+    let u = ulp(prec) * 16.0;
+    let rel_mu = r0 + r1 + u;
+    let second = m2.to_f64() * y_f * y_f;
+    let m = mu.to_f64();
+    let v = var.to_f64();
+    let shift = Float::with_val(prec, &y_w * base);
+    Some(Stats {
+        ln_q: Float::with_val(prec, f0.ln_ref()) - &shift,
+        u: Float::with_val(prec, &mu + &shift),
+        cv: var,
+        err_ln_q: tail + r0 + u + shift.to_f64() * u,
+        err_u: tail * (1.0 + m) + rel_mu * m.abs() + shift.to_f64() * u,
+        err_cv: 4.0 * tail * (1.0 + m) * (1.0 + m)
+            + (r0 + r2 + u) * second
+            + 2.0 * (r0 + r1 + u) * m * m
+            + v * u,
+    })
+}

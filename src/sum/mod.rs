@@ -58,8 +58,10 @@
 //! - harmonic modes ([`Shape::Harmonic`]): the geometric series in closed form;
 //! - the rigid rotor ladder ([`Shape::RigidLadder`]): successive terms by the
 //!   recurrence `e^{−x_{J+1}} = e^{−x_J} · f_J`, `f_{J+1} = f_J e^{−2y}`; the
-//!   tail past J is at most twice the first omitted term once the ratio of
-//!   neighbours stays below 1/2.
+//!   tail past J is at most the first omitted envelope term over (1 − ρ) once
+//!   the neighbour ratio ρ of the envelope is below 1. For y = θ/T ≤ 1/2 the
+//!   recurrence runs in fixed point (integers scaled by 2^P, P = prec + 24),
+//!   with each truncation's error tracked term by term into the bounds.
 
 mod closed;
 mod direct;
@@ -221,7 +223,11 @@ fn stats_path(
             }
             acc.ok_or_else(|| Error::invalid("box", "with no axes", "it needs an axis"))
         }
-        Shape::RigidLadder(b, w) => Ok(closed::rigid_ladder(&(&b * beta), &w, eps, prec)),
+        Shape::RigidLadder(b, w) => {
+            let y = &b * beta;
+            Ok(closed::rigid_ladder_fixed(&y, &w, eps, prec)
+                .unwrap_or_else(|| closed::rigid_ladder(&y, &w, eps, prec)))
+        }
         Shape::Harmonic(modes, zero_point) => {
             let mut acc: Option<Stats> = None;
             for (w, d) in &modes {
