@@ -147,6 +147,18 @@ pub(crate) fn harmonic(y: &BigRational, d: u32, zero_point: bool, prec: u32) -> 
     }
 }
 
+/// The first omitted envelope term `w_max (2J+1) e (1+x_J)²` of the rigid
+/// ladder and the envelope's neighbour ratio
+/// `ρ_J = f (2J+3)/(2J+1) ((1+x_{J+1})/(1+x_J))²`, where `e = e^{−x_J}` and
+/// `f = e^{−(x_{J+1}−x_J)}` (relative to the ground rung `base`).
+fn envelope(e: f64, f: f64, j: u64, base: u64, y_f: f64, w_max: f64) -> (f64, f64) {
+    let xn = y_f * (j * (j + 1) - base) as f64;
+    let xn1 = y_f * ((j + 1) * (j + 2) - base) as f64;
+    let next = e * (2 * j + 1) as f64 * w_max * (1.0 + xn) * (1.0 + xn);
+    let rho = f * (2 * j + 3) as f64 / (2 * j + 1) as f64 * ((1.0 + xn1) / (1.0 + xn)).powi(2);
+    (next, rho)
+}
+
 /// The ladder `x = y J(J+1)` with `(2J+1)·w(J mod 2)` states, by recurrence.
 pub(crate) fn rigid_ladder(
     y: &BigRational,
@@ -224,11 +236,7 @@ pub(crate) fn rigid_ladder(
         // n+1 by ρ_n = f_n · (2n+3)/(2n+1) · ((1+x_{n+1})/(1+x_n))², and every
         // factor shrinks as n grows; once ρ_J < 1 the tail is at most the
         // first omitted envelope term over (1 − ρ_J).
-        let xn = y_f * (j * (j + 1) - base) as f64;
-        let xn1 = y_f * ((j + 1) * (j + 2) - base) as f64;
-        let next = e.to_f64() * (2 * j + 1) as f64 * w_max * (1.0 + xn) * (1.0 + xn);
-        let rho = f.to_f64() * (2 * j + 3) as f64 / (2 * j + 1) as f64
-            * ((1.0 + xn1) / (1.0 + xn)).powi(2);
+        let (next, rho) = envelope(e.to_f64(), f.to_f64(), j, base, y_f, w_max);
         if j > j0 + 2 && rho < 1.0 && next / (1.0 - rho) < target * s0.to_f64() {
             tail = next / (1.0 - rho) / s0.to_f64();
             break;
@@ -338,12 +346,8 @@ pub(crate) fn rigid_ladder_fixed(
         }
         let e = e_fix.to_f64() * unit;
         let f = f_fix.to_f64() * unit;
-        let xn = y_f * (j * (j + 1) - base) as f64;
-        let xn1 = y_f * ((j + 1) * (j + 2) - base) as f64;
-        // As in the floating-point ladder: the envelope's neighbour ratio.
-        let next = (e + d_e * unit) * (2 * j + 1) as f64 * w_max * (1.0 + xn) * (1.0 + xn);
-        let rho = (f + d_f * unit) * (2 * j + 3) as f64 / (2 * j + 1) as f64
-            * ((1.0 + xn1) / (1.0 + xn)).powi(2);
+        // As in the floating-point ladder, with e and f at their upper bounds.
+        let (next, rho) = envelope(e + d_e * unit, f + d_f * unit, j, base, y_f, w_max);
         let s0_f = s0.to_f64() * unit;
         if j > j0 + 2 && rho < 1.0 && next / (1.0 - rho) < target * s0_f {
             tail = next / (1.0 - rho) / s0_f;
