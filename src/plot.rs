@@ -1,0 +1,970 @@
+//! Figures: curves on linear or logarithmic axes, rendered to SVG or PNG.
+//!
+//! A figure is a list of [`Panel`]s stacked vertically. Each panel has a
+//! title, two axis labels, any number of [`Series`] (curves) and any number
+//! of dashed horizontal reference lines, and a legend to the right of its
+//! plotting area naming every curve and every reference line.
+//!
+//! Points that cannot be drawn (a non-finite coordinate, or a coordinate
+//! that is zero or negative on a logarithmic axis) are skipped; the curve
+//! breaks there and each contiguous run of drawable points is drawn as its
+//! own line. A run of a single point is drawn as a dot.
+//!
+//! Text is laid out with the DejaVu Sans metrics embedded in the binary, so
+//! rendering needs no font installed on the machine. In SVG, text is emitted
+//! as `<text>` elements (the viewer supplies a sans-serif font) and every
+//! name, title and label is XML-escaped; control characters are replaced by
+//! spaces so that the document is always well formed.
+//!
+//! ```
+//! use zsum::plot::{render_svg, Panel, Series};
+//!
+//! let panel = Panel {
+//!     title: "heat capacity".into(),
+//!     x_label: "T / K".into(),
+//!     y_label: "Cv / k".into(),
+//!     log_x: true,
+//!     series: vec![Series {
+//!         name: "exact".into(),
+//!         points: vec![(1.0, 0.1), (10.0, 0.8), (100.0, 1.0)],
+//!         dashed: false,
+//!         colour: None,
+//!     }],
+//!     ..Panel::default()
+//! };
+//! let svg = render_svg(&[panel], 800, 400)?;
+//! assert!(svg.starts_with("<svg"));
+//! # Ok::<(), zsum::Error>(())
+//! ```
+
+use std::path::Path;
+use std::sync::OnceLock;
+
+use plotters::coord::ranged1d::{
+    AsRangedCoord, DefaultFormatting, KeyPointHint, Ranged, ValueFormatter,
+};
+use plotters::coord::Shift;
+use plotters::element::DashedPathElement;
+use plotters::prelude::{
+    BitMapBackend, ChartBuilder, Circle, Color, DashedLineSeries, DrawingArea, DrawingBackend,
+    FontDesc, FontFamily, FontStyle, IntoDrawingArea, IntoLogRange, LineSeries, PathElement,
+    RGBColor, SVGBackend, ShapeStyle, Text, TextStyle, BLACK, WHITE,
+};
+
+use crate::error::{Error, ErrorKind, Result};
+
+/// One curve: a name for the legend, its points `(x, y)` in drawing order,
+/// and whether it is drawn dashed.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct Series {
+    /// The name shown in the legend (any text; it is escaped in SVG).
+    pub name: String,
+    /// The points `(x, y)`, joined in this order.
+    pub points: Vec<(f64, f64)>,
+    /// Draw the curve dashed instead of solid.
+    pub dashed: bool,
+    /// Its palette slot, so one curve keeps its colour across panels;
+    /// default: its position in the panel.
+    pub colour: Option<usize>,
+}
+
+/// One panel: axes, curves, optional horizontal reference lines.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct Panel {
+    /// The title above the panel.
+    pub title: String,
+    /// The label of the x axis, e.g. `"T / K"` or `"T/θ"`.
+    pub x_label: String,
+    /// The label of the y axis, e.g. `"Cv / k"` or `"|relative error|"`.
+    pub y_label: String,
+    /// Logarithmic x axis (points with `x <= 0` are skipped).
+    pub log_x: bool,
+    /// Logarithmic y axis (points with `y <= 0` are skipped).
+    pub log_y: bool,
+    /// The curves, each in its own colour.
+    pub series: Vec<Series>,
+    /// Horizontal reference lines `(legend name, y)`, drawn dashed across
+    /// the whole panel, e.g. `("tolerance 1%", 0.01)`. Their values are
+    /// included in the y range.
+    pub hlines: Vec<(String, f64)>,
+}
+
+/// The smallest accepted figure width, in pixels.
+pub const MIN_WIDTH: u32 = 320;
+/// The smallest accepted panel height, in pixels.
+pub const MIN_PANEL_HEIGHT: u32 = 200;
+/// The largest accepted figure width or total height, in pixels.
+pub const MAX_SIDE: u32 = 20_000;
+/// The largest accepted figure area (width × total height), in pixels.
+pub const MAX_PIXELS: u64 = 64_000_000;
+
+/// Renders panels stacked vertically into one self-contained SVG document
+/// (a `String`), `width` pixels wide and `height_per_panel` pixels high per
+/// panel.
+///
+/// # Errors
+/// [`ErrorKind::InvalidParameter`] if there are no panels, if the size is
+/// outside [`MIN_WIDTH`], [`MIN_PANEL_HEIGHT`], [`MAX_SIDE`] and
+/// [`MAX_PIXELS`], or if a panel has no drawable point at all (the message
+/// names the panel's title).
+pub fn render_svg(panels: &[Panel], width: u32, height_per_panel: u32) -> Result<String> {
+    let total = check_size(panels, width, height_per_panel)?;
+    let plans = plan_all(panels)?;
+    ensure_fonts()?;
+    let mut out = String::new();
+    {
+        let root = SVGBackend::with_string(&mut out, (width, total)).into_drawing_area();
+        draw_figure(&root, panels, &plans)?;
+        root.present().map_err(|e| draw_error("the figure", e))?;
+    }
+    Ok(out)
+}
+
+/// Renders panels like [`render_svg`] and writes the SVG document to `path`.
+///
+/// # Errors
+/// As [`render_svg`], plus [`ErrorKind::Io`] if the file cannot be written.
+pub fn write_svg(panels: &[Panel], width: u32, height_per_panel: u32, path: &Path) -> Result<()> {
+    let svg = render_svg(panels, width, height_per_panel)?;
+    std::fs::write(path, svg).map_err(|e| {
+        Error::new(
+            ErrorKind::Io,
+            format!("cannot write SVG file {}: {e}", path.display()),
+        )
+    })
+}
+
+/// Renders panels like [`render_svg`] into a PNG image written to `path`,
+/// which must end in `.png`. Text is rasterised from the embedded font.
+///
+/// # Errors
+/// As [`render_svg`], plus [`ErrorKind::InvalidParameter`] if `path` does
+/// not end in `.png`, and [`ErrorKind::Io`] if the file cannot be written.
+pub fn render_png(panels: &[Panel], width: u32, height_per_panel: u32, path: &Path) -> Result<()> {
+    let is_png = path
+        .extension()
+        .and_then(|e| e.to_str())
+        .is_some_and(|e| e.eq_ignore_ascii_case("png"));
+    if !is_png {
+        return Err(Error::invalid(
+            "PNG output path",
+            path.display(),
+            "the file name must end in .png",
+        ));
+    }
+    let total = check_size(panels, width, height_per_panel)?;
+    let plans = plan_all(panels)?;
+    ensure_fonts()?;
+    let root = BitMapBackend::new(path, (width, total)).into_drawing_area();
+    draw_figure(&root, panels, &plans)?;
+    root.present().map_err(|e| {
+        Error::new(
+            ErrorKind::Io,
+            format!("cannot write PNG file {}: {e}", path.display()),
+        )
+    })
+}
+
+// ---------------------------------------------------------------------------
+// Style.
+
+/// Font sizes as plotters takes them; the SVG backend writes `size / 1.24`
+/// px, so every text is at least 14.5 px.
+const TITLE_SIZE: f64 = 26.0;
+const LABEL_SIZE: f64 = 22.0;
+const TICK_SIZE: f64 = 18.0;
+const LEGEND_SIZE: f64 = 18.0;
+
+/// The series colours: a fixed palette readable on white (colour-blind
+/// friendly order first); it repeats after eight series.
+const PALETTE: [RGBColor; 8] = [
+    RGBColor(0, 114, 178),   // blue
+    RGBColor(213, 94, 0),    // vermillion
+    RGBColor(0, 158, 115),   // green
+    RGBColor(204, 121, 167), // reddish purple
+    RGBColor(86, 180, 233),  // sky blue
+    RGBColor(230, 159, 0),   // orange
+    RGBColor(148, 103, 189), // violet
+    RGBColor(140, 86, 75),   // brown
+];
+
+/// The reference-line colours, apart from the series colours.
+const HLINE_PALETTE: [RGBColor; 3] = [
+    RGBColor(0, 0, 0),       // black
+    RGBColor(110, 110, 110), // grey
+    RGBColor(128, 128, 0),   // olive
+];
+
+const LINE_WIDTH: u32 = 2;
+const DASH: i32 = 8;
+const GAP: i32 = 5;
+const LEGEND_GLYPH: i32 = 28;
+
+fn font(size: f64) -> TextStyle<'static> {
+    TextStyle::from(FontDesc::new(
+        FontFamily::SansSerif,
+        size,
+        FontStyle::Normal,
+    ))
+    .color(&BLACK)
+}
+
+fn bold_font(size: f64) -> TextStyle<'static> {
+    TextStyle::from(FontDesc::new(FontFamily::SansSerif, size, FontStyle::Bold)).color(&BLACK)
+}
+
+/// Registers the embedded DejaVu Sans as plotters' "sans-serif" (once).
+fn ensure_fonts() -> Result<()> {
+    static REGISTERED: OnceLock<bool> = OnceLock::new();
+    let ok = *REGISTERED.get_or_init(|| {
+        let normal = plotters::style::register_font(
+            "sans-serif",
+            FontStyle::Normal,
+            dejavu::sans::regular(),
+        );
+        let bold =
+            plotters::style::register_font("sans-serif", FontStyle::Bold, dejavu::sans::bold());
+        normal.is_ok() && bold.is_ok()
+    });
+    if ok {
+        Ok(())
+    } else {
+        Err(Error::new(
+            ErrorKind::Io,
+            "the embedded font could not be loaded for text layout",
+        ))
+    }
+}
+
+/// Text safe for one line of SVG/XML: control characters become spaces
+/// (plotters escapes `<`, `>`, `&` and quotes itself).
+fn clean(text: &str) -> String {
+    text.chars()
+        .map(|c| if c.is_control() { ' ' } else { c })
+        .collect()
+}
+
+fn draw_error(what: &str, e: impl std::fmt::Display) -> Error {
+    Error::new(ErrorKind::Io, format!("cannot draw {what}: {e}"))
+}
+
+// ---------------------------------------------------------------------------
+// Planning: validation, drawable runs, axis ranges and ticks.
+
+fn check_size(panels: &[Panel], width: u32, height_per_panel: u32) -> Result<u32> {
+    if panels.is_empty() {
+        return Err(Error::invalid(
+            "number of panels",
+            0,
+            "a figure needs at least one panel",
+        ));
+    }
+    if !(MIN_WIDTH..=MAX_SIDE).contains(&width) {
+        return Err(Error::invalid(
+            "figure width",
+            width,
+            &format!("it must be between {MIN_WIDTH} and {MAX_SIDE} pixels"),
+        ));
+    }
+    if height_per_panel < MIN_PANEL_HEIGHT {
+        return Err(Error::invalid(
+            "panel height",
+            height_per_panel,
+            &format!("it must be at least {MIN_PANEL_HEIGHT} pixels"),
+        ));
+    }
+    let total = u64::from(height_per_panel) * panels.len() as u64;
+    if total > u64::from(MAX_SIDE) || total * u64::from(width) > MAX_PIXELS {
+        return Err(Error::invalid(
+            "figure size",
+            format!("{width} x {total} pixels"),
+            &format!(
+                "the total height must be at most {MAX_SIDE} pixels and the area at most \
+                 {MAX_PIXELS} pixels; use fewer panels or smaller ones"
+            ),
+        ));
+    }
+    // `total <= MAX_SIDE` fits in u32.
+    Ok(total as u32)
+}
+
+/// One axis: its range and tick positions.
+#[derive(Debug, Clone, PartialEq)]
+struct Axis {
+    lo: f64,
+    hi: f64,
+    /// Labelled ticks.
+    ticks: Vec<f64>,
+    /// Extra grid lines without labels.
+    minor: Vec<f64>,
+    /// How the tick labels are written.
+    style: LabelStyle,
+}
+
+/// How the tick labels of one axis are written.
+#[derive(Debug, Clone, Copy, PartialEq)]
+enum LabelStyle {
+    /// Plain between 0.001 and 10⁴, `1e-5` style otherwise, per value.
+    Auto,
+    /// Plain with this many decimals (trailing zeros dropped), all ticks.
+    Plain(usize),
+    /// Scientific with this many mantissa decimals (trailing zeros
+    /// dropped), all ticks.
+    Sci(usize),
+}
+
+/// What a panel will draw.
+#[derive(Debug, Clone)]
+struct Plan {
+    x: (f64, f64, bool),
+    y: (f64, f64, bool),
+    /// Per series: its runs of drawable points.
+    runs: Vec<Vec<Vec<(f64, f64)>>>,
+    /// Per hline: its y if drawable.
+    hlines: Vec<Option<f64>>,
+}
+
+fn drawable(v: f64, log: bool) -> bool {
+    v.is_finite() && (!log || v > 0.0)
+}
+
+fn plan_all(panels: &[Panel]) -> Result<Vec<Plan>> {
+    panels.iter().map(plan).collect()
+}
+
+fn plan(panel: &Panel) -> Result<Plan> {
+    let ok = |&(x, y): &(f64, f64)| drawable(x, panel.log_x) && drawable(y, panel.log_y);
+    let runs: Vec<Vec<Vec<(f64, f64)>>> = panel
+        .series
+        .iter()
+        .map(|s| {
+            let mut runs = Vec::new();
+            let mut run = Vec::new();
+            for p in &s.points {
+                if ok(p) {
+                    run.push(*p);
+                } else if !run.is_empty() {
+                    runs.push(std::mem::take(&mut run));
+                }
+            }
+            if !run.is_empty() {
+                runs.push(run);
+            }
+            runs
+        })
+        .collect();
+    let hlines: Vec<Option<f64>> = panel
+        .hlines
+        .iter()
+        .map(|&(_, y)| drawable(y, panel.log_y).then_some(y))
+        .collect();
+
+    let points = || runs.iter().flatten().flatten();
+    if points().next().is_none() {
+        return Err(Error::invalid(
+            "panel",
+            format!("{:?}", panel.title),
+            "it has no drawable point: every point has a non-finite coordinate, or a \
+             coordinate <= 0 on a logarithmic axis",
+        ));
+    }
+    let x = min_max(points().map(|p| p.0));
+    let y = min_max(
+        points()
+            .map(|p| p.1)
+            .chain(hlines.iter().flatten().copied()),
+    );
+    let x = padded(x, panel.log_x, &panel.title, "x")?;
+    let y = padded(y, panel.log_y, &panel.title, "y")?;
+    Ok(Plan {
+        x: (x.0, x.1, panel.log_x),
+        y: (y.0, y.1, panel.log_y),
+        runs,
+        hlines,
+    })
+}
+
+fn min_max(values: impl Iterator<Item = f64>) -> (f64, f64) {
+    values.fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), v| {
+        (lo.min(v), hi.max(v))
+    })
+}
+
+/// Exactly 10^e as the nearest f64.
+fn decade(e: i32) -> f64 {
+    format!("1e{e}").parse().unwrap_or(f64::NAN)
+}
+
+/// The axis range for finite data `min <= max`: whole decades on a log
+/// axis, a 3% margin on a linear one.
+fn padded((min, max): (f64, f64), log: bool, title: &str, axis: &str) -> Result<(f64, f64)> {
+    if log {
+        // Here 0 < min <= max < inf.
+        let mut e_lo = min.log10().floor() as i32;
+        if decade(e_lo) > min {
+            e_lo -= 1;
+        }
+        let mut e_hi = max.log10().ceil() as i32;
+        if decade(e_hi) < max {
+            e_hi += 1;
+        }
+        if e_hi <= e_lo {
+            e_hi = e_lo + 1;
+        }
+        let lo = Some(decade(e_lo)).filter(|v| *v > 0.0).unwrap_or(min);
+        let hi = Some(decade(e_hi)).filter(|v| v.is_finite()).unwrap_or(max);
+        if lo < hi {
+            return Ok((lo, hi));
+        }
+    } else {
+        let span = max - min;
+        let mag = min.abs().max(max.abs());
+        let pad = if mag == 0.0 {
+            1.0
+        } else {
+            (span * 0.03).max(mag * 1e-6)
+        };
+        let mut lo = min - pad;
+        let mut hi = max + pad;
+        if !lo.is_finite() {
+            lo = min;
+        }
+        if !hi.is_finite() {
+            hi = max;
+        }
+        if lo < hi && (hi - lo).is_finite() {
+            return Ok((lo, hi));
+        }
+    }
+    Err(Error::invalid(
+        &format!("{axis} range of panel {title:?}"),
+        format!("[{min:e}, {max:e}]"),
+        "the data must span a range that a finite axis can show",
+    ))
+}
+
+/// Ticks for a logarithmic axis: decades, thinned to about `target`.
+fn log_axis(lo: f64, hi: f64, target: usize) -> Axis {
+    let e_lo = lo.log10().ceil() as i32;
+    let e_hi = hi.log10().floor() as i32;
+    let decades: Vec<i32> = (e_lo..=e_hi)
+        .filter(|&e| {
+            let v = decade(e);
+            v >= lo && v <= hi
+        })
+        .collect();
+    let n = decades.len();
+    let step = n.div_ceil(target.max(2)).max(1);
+    let mut ticks: Vec<f64> = decades
+        .iter()
+        .filter(|&&e| (e - e_lo) as usize % step == 0)
+        .map(|&e| decade(e))
+        .collect();
+    if ticks.len() < 2 {
+        ticks = vec![lo, hi];
+    }
+    let mut minor = Vec::new();
+    if n <= 8 {
+        for e in (e_lo - 1)..=e_hi {
+            for m in 2..=9 {
+                let v = f64::from(m) * decade(e);
+                if v > lo && v < hi {
+                    minor.push(v);
+                }
+            }
+        }
+    } else if step > 1 {
+        minor = decades.iter().map(|&e| decade(e)).collect();
+    }
+    Axis {
+        lo,
+        hi,
+        ticks,
+        minor,
+        style: LabelStyle::Auto,
+    }
+}
+
+/// Ticks for a linear axis: multiples of 1, 2 or 5 × 10^k, about `target`.
+fn linear_axis(lo: f64, hi: f64, target: usize) -> Axis {
+    let fallback = Axis {
+        lo,
+        hi,
+        ticks: vec![lo, hi],
+        minor: Vec::new(),
+        style: LabelStyle::Auto,
+    };
+    let raw = (hi - lo) / target.max(2) as f64;
+    if !(raw.is_finite() && raw > 0.0) {
+        return fallback;
+    }
+    let k = raw.log10().floor() as i32;
+    let base = decade(k);
+    // The nice step nearest to `raw` on a log scale.
+    let mut step = base;
+    for m in [2.0, 5.0, 10.0] {
+        let s = m * base;
+        if (s / raw).ln().abs() < (step / raw).ln().abs() {
+            step = s;
+        }
+    }
+    let k = if step >= 10.0 * base { k + 1 } else { k };
+    if !(step.is_finite() && step > 0.0) {
+        return fallback;
+    }
+    let first = (lo / step).ceil();
+    let mut ticks = Vec::new();
+    let mut minor = Vec::new();
+    for i in 0..=(4 * target.max(2)) {
+        let v = (first + i as f64) * step;
+        if v > hi {
+            break;
+        }
+        // Snap tiny rounding residues to zero.
+        let v = if v.abs() < step * 1e-9 { 0.0 } else { v };
+        ticks.push(v);
+        let half = v + step / 2.0;
+        if half < hi {
+            minor.push(half);
+        }
+        let before = v - step / 2.0;
+        if i == 0 && before > lo {
+            minor.push(before);
+        }
+    }
+    if ticks.len() < 2 {
+        return fallback;
+    }
+    // One style for all ticks, with enough digits to tell them apart.
+    let top = ticks.iter().fold(0.0f64, |m, t| m.max(t.abs()));
+    let style = if (1e-3..1e5).contains(&top) {
+        LabelStyle::Plain(if k >= 0 { 0 } else { (-k) as usize })
+    } else {
+        let digits = top.log10().floor() as i32 - k;
+        LabelStyle::Sci(digits.clamp(0, 6) as usize)
+    };
+    Axis {
+        lo,
+        hi,
+        ticks,
+        minor,
+        style,
+    }
+}
+
+fn make_axis((lo, hi, log): (f64, f64, bool), target: usize) -> Axis {
+    if log {
+        log_axis(lo, hi, target)
+    } else {
+        linear_axis(lo, hi, target)
+    }
+}
+
+/// A tick label in the axis' style; zero is always `0`.
+fn tick_label(v: f64, style: LabelStyle) -> String {
+    fn trim(s: &str) -> &str {
+        if s.contains('.') {
+            s.trim_end_matches('0').trim_end_matches('.')
+        } else {
+            s
+        }
+    }
+    fn sci(v: f64, decimals: usize) -> String {
+        let s = format!("{:.*e}", decimals, v);
+        match s.split_once('e') {
+            Some((m, e)) => format!("{}e{e}", trim(m)),
+            None => s,
+        }
+    }
+    if v == 0.0 {
+        return "0".to_string();
+    }
+    match style {
+        LabelStyle::Plain(d) => trim(&format!("{:.*}", d.min(12), v)).to_string(),
+        LabelStyle::Sci(d) => sci(v, d.min(12)),
+        LabelStyle::Auto if (1e-3..1e4).contains(&v.abs()) => trim(&format!("{v:.6}")).to_string(),
+        LabelStyle::Auto => sci(v, 3),
+    }
+}
+
+// ---------------------------------------------------------------------------
+// Drawing.
+
+fn draw_figure<DB: DrawingBackend>(
+    root: &DrawingArea<DB, Shift>,
+    panels: &[Panel],
+    plans: &[Plan],
+) -> Result<()> {
+    root.fill(&WHITE)
+        .map_err(|e| draw_error("the background", e))?;
+    let areas = root.split_evenly((panels.len(), 1));
+    let (width, height) = areas.first().map_or((0, 0), |a| a.dim_in_pixel());
+
+    // First pass: legends and y ticks of every panel, measured, so that all
+    // panels share one plotting width and their axes line up.
+    let legend_font = font(LEGEND_SIZE);
+    let tick_font = font(TICK_SIZE);
+    // About one labelled tick per 70 px of height.
+    let y_target = (height as usize / 70).clamp(2, 8);
+    let mut prepared = Vec::with_capacity(panels.len());
+    let mut text_w = 0u32;
+    let mut y_tick_w = 0u32;
+    for (panel, plan) in panels.iter().zip(plans) {
+        let entries = legend_entries(panel);
+        for entry in &entries {
+            let (w, _) = root
+                .estimate_text_size(&entry.name, &legend_font)
+                .map_err(|e| draw_error(&format!("panel {:?}", panel.title), e))?;
+            text_w = text_w.max(w);
+        }
+        let y_axis = make_axis(plan.y, y_target);
+        for &t in &y_axis.ticks {
+            let (w, _) = root
+                .estimate_text_size(&tick_label(t, y_axis.style), &tick_font)
+                .map_err(|e| draw_error(&format!("panel {:?}", panel.title), e))?;
+            y_tick_w = y_tick_w.max(w);
+        }
+        prepared.push((entries, y_axis));
+    }
+    let any_legend = prepared.iter().any(|(entries, _)| !entries.is_empty());
+    let layout = Layout {
+        legend_w: if any_legend {
+            (text_w + LEGEND_GLYPH as u32 + 30).min(width / 3)
+        } else {
+            0
+        },
+        y_area: y_tick_w + (LABEL_SIZE * 1.2) as u32 + 20,
+        x_area: (TICK_SIZE + LABEL_SIZE * 1.2) as u32 + 16,
+    };
+
+    for (((area, panel), plan), (entries, y_axis)) in
+        areas.iter().zip(panels).zip(plans).zip(prepared)
+    {
+        draw_panel(area, panel, plan, &layout, &entries, &y_axis)?;
+    }
+    Ok(())
+}
+
+/// Sizes shared by all panels of a figure, in pixels.
+struct Layout {
+    legend_w: u32,
+    y_area: u32,
+    x_area: u32,
+}
+
+/// One legend entry: name, colour, dashed.
+struct Entry {
+    name: String,
+    color: RGBColor,
+    dashed: bool,
+}
+
+/// The legend entries of a panel: its series, then its reference lines,
+/// each in the colour it is drawn with.
+fn legend_entries(panel: &Panel) -> Vec<Entry> {
+    let mut entries: Vec<Entry> = panel
+        .series
+        .iter()
+        .enumerate()
+        .map(|(i, s)| Entry {
+            name: clean(&s.name),
+            color: PALETTE[s.colour.unwrap_or(i) % PALETTE.len()],
+            dashed: s.dashed,
+        })
+        .collect();
+    entries.extend(panel.hlines.iter().enumerate().map(|(j, (name, _))| Entry {
+        name: clean(name),
+        color: HLINE_PALETTE[j % HLINE_PALETTE.len()],
+        dashed: true,
+    }));
+    entries
+}
+
+fn draw_panel<DB: DrawingBackend>(
+    area: &DrawingArea<DB, Shift>,
+    panel: &Panel,
+    plan: &Plan,
+    layout: &Layout,
+    entries: &[Entry],
+    y_axis: &Axis,
+) -> Result<()> {
+    let what = format!("panel {:?}", panel.title);
+    let err = |e: &dyn std::fmt::Display| draw_error(&what, e);
+    let body = area
+        .titled(&clean(&panel.title), bold_font(TITLE_SIZE))
+        .map_err(|e| err(&e))?;
+    let (body_w, _) = body.dim_in_pixel();
+    let (plot_area, legend_area) = body.split_horizontally(body_w.saturating_sub(layout.legend_w));
+
+    let plot_w = body_w.saturating_sub(layout.legend_w + layout.y_area);
+    // About one labelled tick per 120 px of width; decade labels are short,
+    // so a log axis takes one per 75 px.
+    let per_tick = if panel.log_x { 75 } else { 120 };
+    let x_axis = make_axis(plan.x, (plot_w as usize / per_tick).clamp(2, 12));
+    let x_range = x_axis.lo..x_axis.hi;
+    let y_range = y_axis.lo..y_axis.hi;
+    let chart = ChartSetup {
+        panel,
+        plan,
+        x_axis: &x_axis,
+        y_axis,
+        x_area: layout.x_area,
+        y_area: layout.y_area,
+        what: &what,
+    };
+    match (panel.log_x, panel.log_y) {
+        (false, false) => chart.draw(
+            &plot_area,
+            ticked(x_range, &x_axis),
+            ticked(y_range, y_axis),
+        )?,
+        (true, false) => chart.draw(
+            &plot_area,
+            ticked(x_range.log_scale(), &x_axis),
+            ticked(y_range, y_axis),
+        )?,
+        (false, true) => chart.draw(
+            &plot_area,
+            ticked(x_range, &x_axis),
+            ticked(y_range.log_scale(), y_axis),
+        )?,
+        (true, true) => chart.draw(
+            &plot_area,
+            ticked(x_range.log_scale(), &x_axis),
+            ticked(y_range.log_scale(), y_axis),
+        )?,
+    }
+
+    draw_legend(&legend_area, entries, &font(LEGEND_SIZE)).map_err(|e| err(&e))
+}
+
+/// A plotters coordinate (linear or logarithmic) with our own tick
+/// positions: labelled ticks as bold points, grid-only ones as light points.
+struct Ticked<R> {
+    inner: R,
+    ticks: Vec<f64>,
+    minor: Vec<f64>,
+}
+
+fn ticked<A: AsRangedCoord<Value = f64>>(spec: A, axis: &Axis) -> Ticked<A::CoordDescType> {
+    Ticked {
+        inner: A::CoordDescType::from(spec),
+        ticks: axis.ticks.clone(),
+        minor: axis.minor.clone(),
+    }
+}
+
+impl<R: Ranged<ValueType = f64>> Ranged for Ticked<R> {
+    type FormatOption = DefaultFormatting;
+    type ValueType = f64;
+
+    fn map(&self, value: &f64, limit: (i32, i32)) -> i32 {
+        self.inner.map(value, limit)
+    }
+
+    fn key_points<Hint: KeyPointHint>(&self, hint: Hint) -> Vec<f64> {
+        if hint.weight().allow_light_points() {
+            self.minor.clone()
+        } else {
+            self.ticks.clone()
+        }
+    }
+
+    fn range(&self) -> std::ops::Range<f64> {
+        self.inner.range()
+    }
+
+    fn axis_pixel_range(&self, limit: (i32, i32)) -> std::ops::Range<i32> {
+        self.inner.axis_pixel_range(limit)
+    }
+}
+
+/// Everything a chart needs besides its coordinate types.
+struct ChartSetup<'a> {
+    panel: &'a Panel,
+    plan: &'a Plan,
+    x_axis: &'a Axis,
+    y_axis: &'a Axis,
+    x_area: u32,
+    y_area: u32,
+    what: &'a str,
+}
+
+impl ChartSetup<'_> {
+    fn draw<DB, X, Y>(&self, area: &DrawingArea<DB, Shift>, x: X, y: Y) -> Result<()>
+    where
+        DB: DrawingBackend,
+        X: Ranged<ValueType = f64> + ValueFormatter<f64>,
+        Y: Ranged<ValueType = f64> + ValueFormatter<f64>,
+    {
+        let err = |e: &dyn std::fmt::Display| draw_error(self.what, e);
+        let mut chart = ChartBuilder::on(area)
+            .margin_top(10)
+            .margin_left(10)
+            .margin_right(20)
+            .margin_bottom(10)
+            .x_label_area_size(self.x_area)
+            .y_label_area_size(self.y_area)
+            .build_cartesian_2d(x, y)
+            .map_err(|e| err(&e))?;
+
+        let x_label = clean(&self.panel.x_label);
+        let y_label = clean(&self.panel.y_label);
+        let xd = self.x_axis.style;
+        let yd = self.y_axis.style;
+        let x_fmt = move |v: &f64| tick_label(*v, xd);
+        let y_fmt = move |v: &f64| tick_label(*v, yd);
+        chart
+            .configure_mesh()
+            .x_desc(x_label)
+            .y_desc(y_label)
+            .label_style(font(TICK_SIZE))
+            .axis_desc_style(font(LABEL_SIZE))
+            .x_label_formatter(&x_fmt)
+            .y_label_formatter(&y_fmt)
+            .bold_line_style(RGBColor(205, 205, 205))
+            .light_line_style(RGBColor(238, 238, 238))
+            .axis_style(BLACK)
+            .draw()
+            .map_err(|e| err(&e))?;
+
+        for (i, (series, runs)) in self.panel.series.iter().zip(&self.plan.runs).enumerate() {
+            let style = line_style(PALETTE[series.colour.unwrap_or(i) % PALETTE.len()]);
+            for run in runs {
+                if run.len() == 1 {
+                    chart.draw_series(std::iter::once(Circle::new(
+                        run[0],
+                        LINE_WIDTH + 2,
+                        style.filled(),
+                    )))
+                } else if series.dashed {
+                    chart.draw_series(DashedLineSeries::new(run.iter().copied(), DASH, GAP, style))
+                } else {
+                    chart.draw_series(LineSeries::new(run.iter().copied(), style))
+                }
+                .map_err(|e| err(&e))?;
+            }
+        }
+        for (j, y) in self.plan.hlines.iter().enumerate() {
+            if let Some(y) = *y {
+                let style = line_style(HLINE_PALETTE[j % HLINE_PALETTE.len()]);
+                let ends = [(self.x_axis.lo, y), (self.x_axis.hi, y)];
+                chart
+                    .draw_series(DashedLineSeries::new(ends, DASH, GAP, style))
+                    .map_err(|e| err(&e))?;
+            }
+        }
+        Ok(())
+    }
+}
+
+fn line_style(color: RGBColor) -> ShapeStyle {
+    ShapeStyle {
+        color: color.to_rgba(),
+        filled: false,
+        stroke_width: LINE_WIDTH,
+    }
+}
+
+/// The legend: one row per entry, a line glyph then the name, at the top of
+/// the area to the right of the axes.
+fn draw_legend<DB: DrawingBackend>(
+    area: &DrawingArea<DB, Shift>,
+    entries: &[Entry],
+    text: &TextStyle,
+) -> std::result::Result<(), String> {
+    let row = (LEGEND_SIZE * 1.25).round() as i32;
+    let x0 = 4;
+    let mut y = 14 + row / 2;
+    for entry in entries {
+        let style = line_style(entry.color);
+        let glyph = vec![(x0, y), (x0 + LEGEND_GLYPH, y)];
+        if entry.dashed {
+            area.draw(&DashedPathElement::new(glyph, 6, 4, style))
+                .map_err(|e| e.to_string())?;
+        } else {
+            area.draw(&PathElement::new(glyph, style))
+                .map_err(|e| e.to_string())?;
+        }
+        let label = Text::new(
+            entry.name.clone(),
+            (x0 + LEGEND_GLYPH + 8, y),
+            text.pos(plotters::style::text_anchor::Pos::new(
+                plotters::style::text_anchor::HPos::Left,
+                plotters::style::text_anchor::VPos::Center,
+            )),
+        );
+        area.draw(&label).map_err(|e| e.to_string())?;
+        y += row;
+    }
+    Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn tick_labels_are_short() {
+        use LabelStyle::*;
+        assert_eq!(tick_label(0.0, Plain(1)), "0");
+        assert_eq!(tick_label(0.30000000000000004, Plain(1)), "0.3");
+        assert_eq!(tick_label(2.5, Plain(1)), "2.5");
+        assert_eq!(tick_label(-0.0005, Plain(4)), "-0.0005");
+        assert_eq!(tick_label(1.5e-5, Sci(1)), "1.5e-5");
+        assert_eq!(tick_label(2e7, Sci(1)), "2e7");
+        assert_eq!(tick_label(1e-5, Auto), "1e-5");
+        assert_eq!(tick_label(decade(12), Auto), "1e12");
+        assert_eq!(tick_label(decade(4), Auto), "1e4");
+        assert_eq!(tick_label(100.0, Auto), "100");
+        assert_eq!(tick_label(0.001, Auto), "0.001");
+    }
+
+    #[test]
+    fn linear_ticks_share_one_style() {
+        let axis = linear_axis(-0.0011, 0.0011, 5);
+        assert_eq!(axis.style, LabelStyle::Plain(4));
+        let labels: Vec<String> = axis
+            .ticks
+            .iter()
+            .map(|t| tick_label(*t, axis.style))
+            .collect();
+        assert_eq!(labels, ["-0.001", "-0.0005", "0", "0.0005", "0.001"]);
+        let axis = linear_axis(1.0e-6, 1.9e-6, 4);
+        assert!(matches!(axis.style, LabelStyle::Sci(_)));
+        let labels: Vec<String> = axis
+            .ticks
+            .iter()
+            .map(|t| tick_label(*t, axis.style))
+            .collect();
+        assert_eq!(labels, ["1e-6", "1.2e-6", "1.4e-6", "1.6e-6", "1.8e-6"]);
+    }
+
+    #[test]
+    fn log_range_is_whole_decades() {
+        assert_eq!(padded((0.02, 30.0), true, "t", "x").unwrap(), (0.01, 100.0));
+        assert_eq!(padded((1.0, 1.0), true, "t", "x").unwrap(), (1.0, 10.0));
+        let (lo, hi) = padded((5e-324, 5e-324), true, "t", "x").unwrap();
+        assert!(lo > 0.0 && lo < hi);
+        let (lo, hi) = padded((1e308, f64::MAX), true, "t", "x").unwrap();
+        assert!(lo < hi && hi.is_finite());
+    }
+
+    #[test]
+    fn linear_range_has_margin_and_ticks() {
+        let (lo, hi) = padded((0.0, 1.0), false, "t", "y").unwrap();
+        assert!(lo < 0.0 && hi > 1.0);
+        let axis = linear_axis(lo, hi, 5);
+        assert!(axis.ticks.contains(&0.0) && axis.ticks.contains(&1.0));
+        let (lo, hi) = padded((f64::MAX, f64::MAX), false, "t", "y").unwrap();
+        assert!(lo < hi);
+        assert!(padded((-f64::MAX, f64::MAX), false, "t", "y").is_err());
+    }
+
+    #[test]
+    fn log_ticks_thin_out_over_many_decades() {
+        let axis = log_axis(1e-300, 1e300, 6);
+        assert!(axis.ticks.len() >= 2 && axis.ticks.len() <= 8);
+        assert!(axis.ticks.iter().all(|t| *t >= 1e-300 && *t <= 1e300));
+    }
+}
