@@ -35,12 +35,14 @@
 #![forbid(unsafe_code)]
 #![warn(missing_docs)]
 
+pub mod classical;
 pub mod counting;
 pub mod error;
 pub mod exact;
 pub mod export;
 pub mod level;
 pub mod models;
+pub mod plot;
 pub mod report;
 pub mod serde_exact;
 pub mod spectrum;

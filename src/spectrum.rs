@@ -129,6 +129,13 @@ pub trait Spectrum {
         crate::sum::Shape::Direct
     }
 
+    /// The structure of this spectrum's classical (high-temperature) limit,
+    /// from which [`crate::classical`] builds its approximations; default:
+    /// none.
+    fn classical_form(&self) -> Option<crate::classical::Form> {
+        None
+    }
+
     /// The highest level, for spectra with finitely many levels (they are
     /// summed completely, with no tail). Default: none (infinitely many).
     fn highest_energy(&self) -> Option<BigRational> {

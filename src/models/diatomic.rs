@@ -520,6 +520,34 @@ impl RovibDiatomic {
 }
 
 impl Spectrum for RovibDiatomic {
+    /// A rigid rotor with B_0 times harmonic vibration with the
+    /// fundamental G(1) − G(0), energies from the true ground level.
+    fn classical_form(&self) -> Option<crate::classical::Form> {
+        use crate::classical::Form;
+        let w = self.vib.term_value(1) - self.vib.term_value(0);
+        let b0 = self.b_v(0);
+        if !w.is_positive() || !b0.is_positive() {
+            return None;
+        }
+        let one = BigRational::from_integer(1.into());
+        Some(Form::Shifted(
+            Box::new(Form::Parts(vec![
+                (
+                    Form::Rotor(
+                        b0,
+                        [
+                            self.weights.weight(0).clone(),
+                            self.weights.weight(1).clone(),
+                        ],
+                    ),
+                    one.clone(),
+                ),
+                (Form::Harmonic(vec![(w, 1)], false), one),
+            ])),
+            self.ground.clone(),
+        ))
+    }
+
     fn describe(&self) -> String {
         let vib = &self.vib;
         let mut s = format!(

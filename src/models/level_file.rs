@@ -577,6 +577,12 @@ impl LevelFile {
 }
 
 impl Spectrum for LevelFile {
+    /// A finite list is its own classical limit: it is carried exactly
+    /// inside products.
+    fn classical_form(&self) -> Option<crate::classical::Form> {
+        crate::classical::Form::finite(self)
+    }
+
     fn describe(&self) -> String {
         let n = self.levels.len();
         let from = self

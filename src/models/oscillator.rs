@@ -635,6 +635,13 @@ impl Spectrum for HarmonicModes {
         crate::sum::Shape::Harmonic(self.modes().to_vec(), self.zero_point())
     }
 
+    fn classical_form(&self) -> Option<crate::classical::Form> {
+        Some(crate::classical::Form::Harmonic(
+            self.modes().to_vec(),
+            self.zero_point(),
+        ))
+    }
+
     fn growth_exponent(&self) -> Option<f64> {
         Some(self.components() as f64)
     }

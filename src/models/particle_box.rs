@@ -697,6 +697,12 @@ impl Spectrum for ParticleInBox {
         crate::sum::Shape::Squares(self.sides.iter().map(|s| (s * s).recip()).collect())
     }
 
+    fn classical_form(&self) -> Option<crate::classical::Form> {
+        Some(crate::classical::Form::Squares(
+            self.sides.iter().map(|s| (s * s).recip()).collect(),
+        ))
+    }
+
     fn growth_exponent(&self) -> Option<f64> {
         Some(self.dims() as f64 / 2.0)
     }

@@ -217,6 +217,16 @@ impl Product {
 }
 
 impl Spectrum for Product {
+    fn classical_form(&self) -> Option<crate::classical::Form> {
+        let parts = self
+            .parts
+            .iter()
+            .zip(&self.factor)
+            .map(|(p, f)| Some((p.spectrum.classical_form()?, f.clone())))
+            .collect::<Option<Vec<_>>>()?;
+        Some(crate::classical::Form::Parts(parts))
+    }
+
     fn describe(&self) -> String {
         self.parts
             .iter()

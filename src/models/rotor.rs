@@ -352,6 +352,16 @@ impl Spectrum for LinearRotor {
         turnover(|j| self.energy(j), !(self.d.is_zero() && self.h.is_zero()))
     }
 
+    fn classical_form(&self) -> Option<crate::classical::Form> {
+        Some(crate::classical::Form::Rotor(
+            self.b.clone(),
+            [
+                self.weights.weight(0).clone(),
+                self.weights.weight(1).clone(),
+            ],
+        ))
+    }
+
     fn shape(&self) -> crate::sum::Shape<'_> {
         if self.d.is_zero() && self.h.is_zero() {
             crate::sum::Shape::RigidLadder(
@@ -608,6 +618,13 @@ impl SymmetricTop {
 }
 
 impl Spectrum for SymmetricTop {
+    fn classical_form(&self) -> Option<crate::classical::Form> {
+        Some(crate::classical::Form::Top {
+            b: self.b.clone(),
+            unique: self.unique.clone(),
+        })
+    }
+
     fn describe(&self) -> String {
         let (shape, letter) = match self.shape {
             TopShape::Prolate => ("prolate", "A"),
@@ -726,6 +743,10 @@ impl SphericalTop {
 }
 
 impl Spectrum for SphericalTop {
+    fn classical_form(&self) -> Option<crate::classical::Form> {
+        Some(crate::classical::Form::Spherical(self.b.clone()))
+    }
+
     fn describe(&self) -> String {
         format!(
             "spherical top, B = {} {}",

@@ -290,6 +290,12 @@ impl ZeemanMultiplet {
 }
 
 impl Spectrum for ZeemanMultiplet {
+    /// A finite list is its own classical limit: it is carried exactly
+    /// inside products.
+    fn classical_form(&self) -> Option<crate::classical::Form> {
+        crate::classical::Form::finite(self)
+    }
+
     fn describe(&self) -> String {
         format!(
             "Zeeman multiplet J = {}, g_J = {}, B = {} T",

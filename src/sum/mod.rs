@@ -65,6 +65,7 @@
 
 mod closed;
 mod direct;
+pub(crate) use direct::to_rug;
 mod format;
 
 use crate::error::{Error, ErrorKind, Result};
@@ -429,6 +430,9 @@ impl Spectrum for Cached<'_> {
     }
     fn highest_energy(&self) -> Option<BigRational> {
         self.inner.highest_energy()
+    }
+    fn classical_form(&self) -> Option<crate::classical::Form> {
+        self.inner.classical_form()
     }
     fn growth_exponent(&self) -> Option<f64> {
         self.inner.growth_exponent()

@@ -1,0 +1,747 @@
+//! Classical (high-temperature) approximations, their systematic
+//! corrections, and how far each is from the exact sum.
+//!
+//! A model that has a classical limit describes it by a [`Form`]
+//! ([`Spectrum::classical_form`]); each form offers a list of
+//! [`Approximation`]s, the first always the classical (integral) one, then
+//! corrections of rising order. Every approximation is written once as
+//! ln q(kT); U/kT, Cv/k and S/k follow by exact differentiation in MPFR
+//! (a value with its first and second derivatives carried through every
+//! operation), so errors are available for q, U, Cv and S alike.
+//!
+//! The approximations, with t = kT and the exact sums they approximate:
+//!
+//! | model | exact | approximations |
+//! | --- | --- | --- |
+//! | box, `E = Σ w_i n_i²` | `Π_i Σ_n e^{−w_i n²/t}` | classical `Π c_i`, `c_i = sqrt(π t/(4 w_i))` (V/Λ³); then the boundary terms of `Π (c_i − 1/2)` by order: 1D *euler-maclaurin*; 2D *perimeter*, *euler-maclaurin*; 3D *surface*, *edges*, *euler-maclaurin*. The full product is Euler–Maclaurin per axis, exact up to terms of order e^{−π² t/w} |
+//! | linear rotor, `E = B J(J+1)`, parity weights g_e, g_o | `Σ g_J (2J+1) e^{−y J(J+1)}`, y = B/t | classical `ḡ/y` with ḡ = (g_e+g_o)/2 (T/σθ for a homonuclear molecule); Mulholland `ḡ(1/y + 1/3 + y/15 + 4y²/315 + y³/315)` truncated after 1, 2, 3, 4 corrections |
+//! | symmetric top, B and unique constant A (or C) | `Σ_J Σ_{|K|≤J} (2J+1) e^{−(B J(J+1) + (A−B)K²)/t}` | classical `sqrt(π t³/(A B²))`; *first*: `× [1 + (B/12t)(4 − B/A)]` |
+//! | spherical top | `Σ (2J+1)² e^{−B J(J+1)/t}` | classical `sqrt(π t³/B³)`; *first*: `× (1 + B/4t)`; *exponential*: `× e^{B/4t}`, exact up to exponentially small terms |
+//! | harmonic modes ω (no zero point) | `Π 1/(1 − e^{−x})`, x = ω/t | classical `1/x`; `1/x + 1/2 + x/12 − x³/720 + x⁵/30240` by order (*order1* … *order4*) |
+//! | harmonic modes with zero point | `Π 1/(2 sinh(x/2))` | classical `1/x`; `1/x − x/24 + 7x³/5760 − 31x⁵/967680` by order |
+//! | products, diatomics | independent parts | *classical* (every part classical), *first* (every part's first correction), *best* (every part's highest order) |
+//!
+//! The corrections are standard asymptotic series (the Bernoulli-number
+//! expansion of x/(1 − e^{−x}), Mulholland's expansion of the rotor sum,
+//! Euler–Maclaurin for the box; the symmetric-top correction as in standard
+//! texts, from memory); each is checked against the exact sums in the tests.
+//! The rotor and top forms are rigid: centrifugal distortion is what the
+//! exact sum adds. A vibrating rotor is approximated as a rigid rotor with
+//! B_0 = B_e − α_e/2 times harmonic vibration with the fundamental
+//! G(1) − G(0), energies from the true ground level.
+
+mod compare;
+pub mod figure;
+mod jet;
+mod search;
+
+use crate::error::{Error, ErrorKind, Result};
+use crate::spectrum::Spectrum;
+use crate::sum::{thermo, Temperature};
+use crate::units::EnergyUnit;
+use jet::{Jet, PREC};
+use num_bigint::BigUint;
+use num_rational::BigRational;
+use num_traits::Zero;
+use rug::Float;
+use serde::Serialize;
+
+pub use compare::{compare, ApproxRow, CompareReport, CompareRow};
+pub use search::{crossovers, Crossing, CrossoverReport, SearchRange};
+
+/// The structure of a model's classical limit: what its approximations
+/// are built from. Energies are in the spectrum's unit.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Form {
+    /// `E = Σ_i w_i n_i²`, n_i ≥ 1: a box, one weight per axis.
+    Squares(Vec<BigRational>),
+    /// `E = b J(J+1)` with `(2J+1)·w(J mod 2)` states, weights `[even, odd]`.
+    Rotor(BigRational, [BigUint; 2]),
+    /// `E = b J(J+1) + (u − b) K²`, |K| ≤ J: a symmetric top with unique
+    /// constant `u`.
+    Top {
+        /// The J(J+1) constant B.
+        b: BigRational,
+        /// The unique-axis constant (A prolate, C oblate).
+        unique: BigRational,
+    },
+    /// `E = b J(J+1)` with `(2J+1)²` states.
+    Spherical(BigRational),
+    /// Harmonic modes `(ω, degeneracy)`, with or without zero-point energy.
+    Harmonic(Vec<(BigRational, u32)>, bool),
+    /// Independent parts, each with the size of its unit in the whole's unit.
+    Parts(Vec<(Form, BigRational)>),
+    /// A form with every energy raised by a constant.
+    Shifted(Box<Form>, BigRational),
+    /// A finite list of levels `(energy, degeneracy)`, summed exactly in
+    /// every approximation (electronic levels inside a product).
+    Levels(Vec<(BigRational, BigUint)>),
+}
+
+/// One approximation a model offers.
+#[derive(Debug, Clone, PartialEq, Eq, Serialize)]
+pub struct Approximation {
+    /// Its name on the command line, e.g. `classical`, `mulholland2`.
+    pub name: String,
+    /// What it is, as a formula.
+    pub description: String,
+}
+
+/// Which of a form's approximations (products pass `First`/`Best` on).
+#[derive(Debug, Clone, Copy)]
+enum Sel {
+    Index(usize),
+    First,
+    Best,
+}
+
+fn fl(x: f64) -> Float {
+    Float::with_val(PREC, x)
+}
+
+pub(crate) fn to_float(r: &BigRational) -> Float {
+    Float::with_val(PREC, crate::sum::to_rug(r))
+}
+
+fn approx(name: &str, description: &str) -> Approximation {
+    Approximation {
+        name: name.to_string(),
+        description: description.to_string(),
+    }
+}
+
+/// The series of one harmonic mode in x = ω/kT: `(power, numerator,
+/// denominator)` per term, classical first (Bernoulli-number expansions).
+fn oscillator_terms(zero_point: bool) -> &'static [(i32, i64, i64)] {
+    if zero_point {
+        // 1/(2 sinh(x/2)) = 1/x − x/24 + 7x³/5760 − 31x⁵/967680 + ...
+        &[(-1, 1, 1), (1, -1, 24), (3, 7, 5760), (5, -31, 967_680)]
+    } else {
+        // 1/(1 − e^{−x}) = 1/x + 1/2 + x/12 − x³/720 + x⁵/30240 + ...
+        &[
+            (-1, 1, 1),
+            (0, 1, 2),
+            (1, 1, 12),
+            (3, -1, 720),
+            (5, 1, 30240),
+        ]
+    }
+}
+
+impl Form {
+    /// The exact form of a spectrum with finitely many levels.
+    pub fn finite(s: &dyn Spectrum) -> Option<Form> {
+        let top = s.highest_energy()?;
+        let list = s.levels_up_to(&top).ok()?;
+        Some(Form::Levels(
+            list.levels()
+                .iter()
+                .map(|l| (l.energy.clone(), l.degeneracy.clone()))
+                .collect(),
+        ))
+    }
+
+    /// The approximations this form offers, classical first.
+    pub fn approximations(&self) -> Vec<Approximation> {
+        match self {
+            Form::Squares(ws) => {
+                let names: &[(&str, &str)] = match ws.len() {
+                    1 => &[(
+                        "euler-maclaurin",
+                        "sqrt(π kT/(4w)) − 1/2 (Euler–Maclaurin; exact up to e^{−π² kT/w})",
+                    )],
+                    2 => &[
+                        (
+                            "perimeter",
+                            "classical plus the perimeter term −(c_x + c_y)/2",
+                        ),
+                        (
+                            "euler-maclaurin",
+                            "(c_x − 1/2)(c_y − 1/2): perimeter and corner terms",
+                        ),
+                    ],
+                    _ => &[
+                        (
+                            "surface",
+                            "classical plus the surface term −(c_x c_y + c_y c_z + c_z c_x)/2",
+                        ),
+                        ("edges", "surface plus the edge term +(c_x + c_y + c_z)/4"),
+                        (
+                            "euler-maclaurin",
+                            "(c_x − 1/2)(c_y − 1/2)(c_z − 1/2): surface, edges and corners",
+                        ),
+                    ],
+                };
+                let mut out = vec![approx(
+                    "classical",
+                    "Π c_i, c_i = sqrt(π kT/(4 w_i)): the integral (V/Λ³ for a 3D box)",
+                )];
+                out.extend(names.iter().map(|(n, d)| approx(n, d)));
+                out
+            }
+            Form::Rotor(..) => {
+                let mut out = vec![approx(
+                    "classical",
+                    "ḡ kT/B with ḡ = (g_even + g_odd)/2 (T/σθ for a homonuclear molecule)",
+                )];
+                let terms = ["1/3", "y/15", "4y²/315", "y³/315"];
+                for k in 1..=4 {
+                    out.push(approx(
+                        &format!("mulholland{k}"),
+                        &format!(
+                            "ḡ(1/y + {}), y = B/kT (Mulholland's expansion)",
+                            terms[..k].join(" + ")
+                        ),
+                    ));
+                }
+                out
+            }
+            Form::Top { .. } => vec![
+                approx("classical", "sqrt(π (kT)³/(A B²)), A the unique constant"),
+                approx(
+                    "first",
+                    "classical × [1 + (B/12kT)(4 − B/A)]: first quantum correction",
+                ),
+            ],
+            Form::Spherical(_) => vec![
+                approx("classical", "sqrt(π (kT/B)³)"),
+                approx("first", "classical × (1 + B/4kT)"),
+                approx(
+                    "exponential",
+                    "classical × e^{B/4kT}: exact up to exponentially small terms",
+                ),
+            ],
+            Form::Harmonic(_, zp) => {
+                let mut out = vec![approx("classical", "kT/ω per mode")];
+                let terms: &[&str] = if *zp {
+                    &["− x/24", "+ 7x³/5760", "− 31x⁵/967680"]
+                } else {
+                    &["+ 1/2", "+ x/12", "− x³/720", "+ x⁵/30240"]
+                };
+                for k in 1..=terms.len() {
+                    out.push(approx(
+                        &format!("order{k}"),
+                        &format!("1/x {} per mode, x = ω/kT", terms[..k].join(" ")),
+                    ));
+                }
+                out
+            }
+            Form::Parts(_) => vec![
+                approx("classical", "every part classical"),
+                approx("first", "every part with its first correction"),
+                approx("best", "every part with its highest-order correction"),
+            ],
+            Form::Shifted(inner, _) => inner.approximations(),
+            Form::Levels(_) => vec![approx(
+                "exact",
+                "summed exactly: a finite list of levels has no classical limit",
+            )],
+        }
+    }
+
+    /// The characteristic energy θ (in the spectrum's unit) that T/θ is
+    /// measured against: the box unit w, the rotor's B, the lowest mode ω;
+    /// for parts the smallest of theirs.
+    pub fn theta(&self) -> BigRational {
+        match self {
+            Form::Squares(ws) => ws.iter().min().cloned().unwrap_or_else(BigRational::zero),
+            Form::Rotor(b, _) | Form::Spherical(b) | Form::Top { b, .. } => b.clone(),
+            Form::Harmonic(modes, _) => modes
+                .iter()
+                .map(|(w, _)| w.clone())
+                .min()
+                .unwrap_or_else(BigRational::zero),
+            Form::Parts(parts) => parts
+                .iter()
+                .map(|(f, factor)| f.theta() * factor)
+                .min()
+                .unwrap_or_else(BigRational::zero),
+            Form::Shifted(inner, _) => inner.theta(),
+            // A finite list sets no temperature scale of its own.
+            Form::Levels(_) => BigRational::from_integer(i64::MAX.into()),
+        }
+    }
+
+    fn count(&self) -> usize {
+        self.approximations().len()
+    }
+
+    /// ln q as a jet in t = kT; `None` where the approximation is not
+    /// positive (a truncated series below its range).
+    fn ln_q(&self, sel: Sel, t: &Jet) -> Option<Jet> {
+        let index = match sel {
+            Sel::Index(i) => i,
+            Sel::First => 1.min(self.count() - 1),
+            Sel::Best => self.count() - 1,
+        };
+        match self {
+            Form::Squares(ws) => {
+                let pi = Float::with_val(PREC, rug::float::Constant::Pi);
+                let cs: Vec<Jet> = ws
+                    .iter()
+                    .map(|w| {
+                        let k = Float::with_val(PREC, &pi / to_float(w)) / 4u32;
+                        t.scale(&k).powf(0.5)
+                    })
+                    .collect();
+                // Π (c_i − 1/2) expanded, keeping terms with at most `index` factors −1/2.
+                let d = cs.len();
+                let mut q = Jet::constant(fl(0.0));
+                for mask in 0u32..(1 << d) {
+                    let halves = mask.count_ones() as usize;
+                    if halves > index {
+                        continue;
+                    }
+                    let mut term = Jet::constant(fl((-0.5f64).powi(halves as i32)));
+                    for (i, c) in cs.iter().enumerate() {
+                        if mask & (1 << i) == 0 {
+                            term = term.mul(c);
+                        }
+                    }
+                    q = q.add(&term);
+                }
+                q.ln()
+            }
+            Form::Rotor(b, w) => {
+                let sum = BigRational::from_integer((&w[0] + &w[1]).into());
+                let gbar = to_float(&sum) / 2u32;
+                let y = t.powf(-1.0).scale(&to_float(b));
+                let coeffs = [
+                    (1, 3),   // 1/3
+                    (1, 15),  // y/15
+                    (4, 315), // 4y²/315
+                    (1, 315), // y³/315
+                ];
+                let c: Vec<Float> = coeffs[..index]
+                    .iter()
+                    .map(|(n, d)| Float::with_val(PREC, *n) / *d)
+                    .collect();
+                let q = y.powf(-1.0).add(&y.poly(&c)).scale(&gbar);
+                q.ln()
+            }
+            Form::Top { b, unique } => {
+                let (bf, uf) = (to_float(b), to_float(unique));
+                let pi = Float::with_val(PREC, rug::float::Constant::Pi);
+                let k = pi / (Float::with_val(PREC, &uf * &bf) * &bf);
+                let mut q = t.powf(3.0).scale(&k).powf(0.5);
+                if index >= 1 {
+                    let ratio = Float::with_val(PREC, &bf / &uf);
+                    let coef = (fl(4.0) - ratio) * &bf / 12u32;
+                    let corr = t.powf(-1.0).scale(&coef).add_const(&fl(1.0));
+                    q = q.mul(&corr);
+                }
+                q.ln()
+            }
+            Form::Spherical(b) => {
+                let bf = to_float(b);
+                let pi = Float::with_val(PREC, rug::float::Constant::Pi);
+                let x = t.powf(-1.0).scale(&bf);
+                let mut q = x.powf(-3.0).scale(&pi).powf(0.5);
+                let quarter = x.scale(&fl(0.25));
+                match index {
+                    0 => {}
+                    1 => q = q.mul(&quarter.add_const(&fl(1.0))),
+                    _ => q = q.mul(&quarter.exp()),
+                }
+                q.ln()
+            }
+            Form::Harmonic(modes, zp) => {
+                let terms = oscillator_terms(*zp);
+                let mut lnq = Jet::constant(fl(0.0));
+                for (w, deg) in modes {
+                    let x = t.powf(-1.0).scale(&to_float(w));
+                    let mut q = Jet::constant(fl(0.0));
+                    for (p, n, d) in &terms[..=index.min(terms.len() - 1)] {
+                        let c = Float::with_val(PREC, *n) / *d;
+                        let term = if *p == 0 {
+                            Jet::constant(c)
+                        } else {
+                            x.powf(*p as f64).scale(&c)
+                        };
+                        q = q.add(&term);
+                    }
+                    lnq = lnq.add(&q.ln()?.scale(&fl(*deg as f64)));
+                }
+                Some(lnq)
+            }
+            Form::Parts(parts) => {
+                let child = match sel {
+                    Sel::Index(0) => Sel::Index(0),
+                    Sel::Index(1) | Sel::First => Sel::First,
+                    _ => Sel::Best,
+                };
+                let mut lnq = Jet::constant(fl(0.0));
+                for (f, factor) in parts {
+                    let tp = t.scale(&to_float(factor).recip());
+                    lnq = lnq.add(&f.ln_q(child, &tp)?);
+                }
+                Some(lnq)
+            }
+            Form::Shifted(inner, e0) => {
+                let l = inner.ln_q(sel, t)?;
+                Some(l.sub(&t.powf(-1.0).scale(&to_float(e0))))
+            }
+            Form::Levels(levels) => {
+                // Shifted by the lowest level so no term underflows first.
+                let e0 = levels.iter().map(|l| l.0.clone()).min()?;
+                let inv = t.powf(-1.0);
+                let mut q = Jet::constant(fl(0.0));
+                for (e, g) in levels {
+                    let g = to_float(&BigRational::from_integer(g.clone().into()));
+                    let x = inv.scale(&-to_float(&(e - &e0)));
+                    q = q.add(&x.exp().scale(&g));
+                }
+                Some(q.ln()?.sub(&inv.scale(&to_float(&e0))))
+            }
+        }
+    }
+}
+
+/// q, U/kT, Cv/k and S/k at one temperature.
+#[derive(Debug, Clone)]
+pub struct Values {
+    /// ln q.
+    pub ln_q: Float,
+    /// U/kT.
+    pub u: Float,
+    /// Cv/k.
+    pub cv: Float,
+    /// S/k.
+    pub s: Float,
+}
+
+impl Values {
+    /// The value of `quantity` (q itself for [`Quantity::Q`]).
+    pub fn get(&self, quantity: Quantity) -> Float {
+        match quantity {
+            Quantity::Q => Float::with_val(PREC, self.ln_q.exp_ref()),
+            Quantity::U => self.u.clone(),
+            Quantity::Cv => self.cv.clone(),
+            Quantity::S => self.s.clone(),
+        }
+    }
+
+    /// The relative error `self/exact − 1` of `quantity` (for q through
+    /// the difference of logarithms, so huge q lose nothing).
+    pub fn rel_error(&self, exact: &Values, quantity: Quantity) -> Float {
+        if quantity == Quantity::Q {
+            let d = Float::with_val(PREC, &self.ln_q - &exact.ln_q);
+            return d.exp_m1();
+        }
+        let (a, e) = (self.get(quantity), exact.get(quantity));
+        if e.is_zero() {
+            return if a.is_zero() {
+                fl(0.0)
+            } else {
+                fl(f64::INFINITY)
+            };
+        }
+        Float::with_val(PREC, &a / &e) - 1u32
+    }
+}
+
+/// A thermodynamic quantity an approximation is judged by.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+pub enum Quantity {
+    /// The partition function.
+    #[serde(rename = "q")]
+    Q,
+    /// The internal energy (U/kT).
+    U,
+    /// The heat capacity at constant volume (Cv/k).
+    Cv,
+    /// The entropy (S/k).
+    S,
+}
+
+impl Quantity {
+    /// Every quantity, in table order.
+    pub const ALL: [Quantity; 4] = [Quantity::Q, Quantity::U, Quantity::Cv, Quantity::S];
+
+    /// Reads `q`, `U`, `Cv` or `S` (any case).
+    pub fn parse(text: &str) -> Result<Self> {
+        match text.to_ascii_lowercase().as_str() {
+            "q" => Ok(Quantity::Q),
+            "u" => Ok(Quantity::U),
+            "cv" => Ok(Quantity::Cv),
+            "s" => Ok(Quantity::S),
+            _ => Err(Error::parse("quantity", text, "one of q, U, Cv, S")),
+        }
+    }
+
+    /// Its name: `q`, `U`, `Cv`, `S`.
+    pub fn name(&self) -> &'static str {
+        match self {
+            Quantity::Q => "q",
+            Quantity::U => "U",
+            Quantity::Cv => "Cv",
+            Quantity::S => "S",
+        }
+    }
+
+    /// The dimensionless column it is shown as: `q`, `U/kT`, `Cv/k`, `S/k`.
+    pub fn column(&self) -> &'static str {
+        match self {
+            Quantity::Q => "q",
+            Quantity::U => "U/kT",
+            Quantity::Cv => "Cv/k",
+            Quantity::S => "S/k",
+        }
+    }
+}
+
+/// Reads a tolerance: a fraction (`0.01`, `1e-3`) or a percentage (`1%`),
+/// strictly between 0 and 1.
+///
+/// ```
+/// use zsum::classical::parse_tolerance;
+/// assert_eq!(parse_tolerance("1%").unwrap().to_string(), "1/100");
+/// assert!(parse_tolerance("0").is_err());
+/// assert!(parse_tolerance("100%").is_err());
+/// ```
+pub fn parse_tolerance(text: &str) -> Result<BigRational> {
+    let t = text.trim();
+    let value = match t.strip_suffix('%') {
+        Some(p) => crate::exact::parse_rational(p)
+            .map(|v| v / BigRational::from_integer(100.into()))
+            .map_err(|_| {
+                Error::parse(
+                    "tolerance",
+                    text,
+                    "a fraction such as 0.01 or a percentage such as 1%",
+                )
+            })?,
+        None => crate::exact::parse_rational(t).map_err(|_| {
+            Error::parse(
+                "tolerance",
+                text,
+                "a fraction such as 0.01 or a percentage such as 1%",
+            )
+        })?,
+    };
+    if value <= BigRational::zero() || value >= BigRational::from_integer(1.into()) {
+        return Err(Error::invalid(
+            "tolerance",
+            text,
+            "it must lie strictly between 0 and 1 (0% and 100%)",
+        ));
+    }
+    Ok(value)
+}
+
+/// A spectrum paired with its classical form: the exact sums and every
+/// approximation at any temperature.
+pub struct Classical<'a> {
+    spectrum: &'a dyn Spectrum,
+    form: Form,
+}
+
+impl<'a> Classical<'a> {
+    /// Pairs `spectrum` with its form; a model without a classical limit is
+    /// refused, saying which models have one.
+    ///
+    /// ```
+    /// use zsum::classical::{Classical, Quantity};
+    /// use zsum::models::rotor::LinearRotor;
+    /// use zsum::sum::Temperature;
+    /// use zsum::exact::parse_rational;
+    /// use zsum::units::EnergyUnit;
+    /// let rot = LinearRotor::rigid(parse_rational("1")?, EnergyUnit::Kelvin)?;
+    /// let c = Classical::new(&rot)?;
+    /// let t = Temperature::Kelvin(parse_rational("10")?);
+    /// let exact = c.exact(&t)?;
+    /// let classical = c.approximate(c.find("classical")?, &t)?.unwrap();
+    /// // q = T/θ classically; the exact sum is about T/θ + 1/3.
+    /// let err = classical.rel_error(&exact, Quantity::Q).to_f64();
+    /// assert!((err + 0.0322).abs() < 1e-3);
+    /// # Ok::<(), zsum::Error>(())
+    /// ```
+    pub fn new(spectrum: &'a dyn Spectrum) -> Result<Self> {
+        let form = spectrum.classical_form().ok_or_else(|| {
+            Error::new(
+                ErrorKind::InvalidParameter,
+                format!(
+                    "{} has no classical approximations; boxes, rotors, tops, harmonic \
+                     oscillators, diatomics and products of them have",
+                    spectrum.describe()
+                ),
+            )
+        })?;
+        if let Form::Levels(_) = form {
+            return Err(Error::new(
+                ErrorKind::InvalidParameter,
+                format!(
+                    "{} is a finite list of levels, summed exactly at every temperature: it \
+                     has no classical limit to compare with (inside a product it is carried \
+                     exactly)",
+                    spectrum.describe()
+                ),
+            ));
+        }
+        Ok(Classical { spectrum, form })
+    }
+
+    /// The form.
+    pub fn form(&self) -> &Form {
+        &self.form
+    }
+
+    /// The spectrum.
+    pub fn spectrum(&self) -> &dyn Spectrum {
+        self.spectrum
+    }
+
+    /// The approximations offered, classical first.
+    pub fn approximations(&self) -> Vec<Approximation> {
+        self.form.approximations()
+    }
+
+    /// The index of the approximation called `name`; an unknown name is
+    /// refused, listing those the model has.
+    pub fn find(&self, name: &str) -> Result<usize> {
+        let list = self.approximations();
+        list.iter().position(|a| a.name == name).ok_or_else(|| {
+            Error::invalid(
+                "approximation",
+                name,
+                &format!(
+                    "{} has: {}",
+                    self.spectrum.describe(),
+                    list.iter()
+                        .map(|a| a.name.as_str())
+                        .collect::<Vec<_>>()
+                        .join(", ")
+                ),
+            )
+        })
+    }
+
+    /// θ in the spectrum's unit.
+    pub fn theta(&self) -> BigRational {
+        self.form.theta()
+    }
+
+    /// θ in kelvin, when the spectrum's unit has a known size.
+    pub fn theta_kelvin(&self) -> Option<BigRational> {
+        self.spectrum
+            .unit()
+            .factor_to(&EnergyUnit::Kelvin)
+            .ok()
+            .map(|f| self.theta() * f)
+    }
+
+    /// kT in the spectrum's unit for `temperature`.
+    fn kt(&self, temperature: &Temperature) -> Result<BigRational> {
+        Ok(temperature.beta(&self.spectrum.unit())?.recip())
+    }
+
+    /// The exact values (certified to 40 digits by the engine).
+    pub fn exact(&self, temperature: &Temperature) -> Result<Values> {
+        self.exact_digits(temperature, EXACT_DIGITS)
+    }
+
+    pub(crate) fn exact_digits(&self, temperature: &Temperature, digits: u32) -> Result<Values> {
+        let p = thermo(self.spectrum, temperature, digits)?;
+        let parse = |s: &str| -> Result<Float> {
+            Float::parse(s)
+                .map(|v| Float::with_val(PREC, v))
+                .map_err(|_| Error::invalid("engine output", s, "a decimal number"))
+        };
+        Ok(Values {
+            ln_q: parse(&p.ln_q)?,
+            u: parse(&p.u_over_kt)?,
+            cv: parse(&p.cv_over_k)?,
+            s: parse(&p.s_over_k)?,
+        })
+    }
+
+    /// Approximation `index` at `temperature`; `None` where it is not
+    /// defined (its q is not positive there).
+    pub fn approximate(&self, index: usize, temperature: &Temperature) -> Result<Option<Values>> {
+        let n = self.form.count();
+        if index >= n {
+            return Err(Error::invalid(
+                "approximation index",
+                index,
+                &format!("this model has {n} approximations"),
+            ));
+        }
+        let kt = self.kt(temperature)?;
+        let t = Jet::var(to_float(&kt));
+        let Some(l) = self.form.ln_q(Sel::Index(index), &t) else {
+            return Ok(None);
+        };
+        let tl = Float::with_val(PREC, &t.v * &l.d);
+        let t2 = Float::with_val(PREC, t.v.square_ref());
+        let cv = Float::with_val(PREC, &tl * 2u32) + Float::with_val(PREC, &t2 * &l.dd);
+        let s = Float::with_val(PREC, &l.v + &tl);
+        Ok(Some(Values {
+            ln_q: l.v,
+            u: tl,
+            cv,
+            s,
+        }))
+    }
+
+    /// A temperature at `x` = T/θ, exact (kT in the spectrum's unit).
+    pub fn at_reduced(&self, x: &BigRational) -> Temperature {
+        Temperature::Reduced(x * self.theta())
+    }
+
+    /// T/θ for a temperature.
+    pub fn reduced(&self, temperature: &Temperature) -> Result<BigRational> {
+        Ok(self.kt(temperature)? / self.theta())
+    }
+}
+
+/// Digits to which exact values are certified before errors are formed:
+/// relative errors are resolved down to about 1e-38.
+pub const EXACT_DIGITS: u32 = 40;
+
+/// The smallest relative error that [`EXACT_DIGITS`] resolves.
+pub const RESOLUTION: f64 = 1e-37;
+
+/// Writes a relative error to 4 significant digits, or `<1e-37` when it is
+/// below what the exact values resolve.
+pub fn error_text(e: &Float) -> String {
+    if e.is_infinite() {
+        return "inf".to_string();
+    }
+    if e.is_nan() {
+        return "n/a".to_string();
+    }
+    if e.to_f64().abs() < RESOLUTION {
+        return format!("<{RESOLUTION:e}");
+    }
+    crate::sum::float_to_decimal(e, 0.0, 0.0, 4).0
+}
+
+/// A value to `digits` significant digits.
+pub(crate) fn value_text(v: &Float, digits: u32) -> String {
+    crate::sum::float_to_decimal(v, 0.0, 0.0, digits).0
+}
+
+/// A rational as its exact decimal when that has at most `digits`
+/// significant digits, otherwise rounded to `digits`.
+pub(crate) fn rational_text(r: &BigRational, digits: u32) -> String {
+    let s = crate::exact::exact_decimal(r, digits);
+    if s.contains('/') {
+        crate::exact::format_sig(r, digits)
+    } else {
+        s
+    }
+}
+
+/// `θ = 2.88 K` or `θ = 2 cm-1 = 2.88 K`.
+pub(crate) fn theta_line(theta: &str, unit: &str, kelvin: &Option<String>) -> String {
+    match kelvin {
+        Some(k) if unit != "K" => format!("θ = {theta} {unit} = {k} K"),
+        _ => format!("θ = {theta} {unit}"),
+    }
+}
+
+impl std::fmt::Display for Quantity {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(self.name())
+    }
+}

@@ -1,0 +1,358 @@
+//! The breakdown finder: where an approximation's relative error crosses a
+//! tolerance.
+//!
+//! The range of T/θ is scanned on a logarithmic grid (50 points per decade,
+//! at least 60 in all), hottest first so that level listings are reused;
+//! wherever `|error| > tol` changes between neighbours, the crossing is
+//! bracketed and bisected (in ln T) until both ends of the bracket round to
+//! the same requested digits in T/θ and in T. Every crossing in the range
+//! is reported, each with which side of it the tolerance is broken.
+//! Crossings closer together than the grid spacing (a factor 10^(1/50)) can
+//! be missed; narrow the range to resolve them.
+
+use super::{error_text, rational_text, Classical, Quantity, PREC};
+use crate::error::{Error, Result};
+use crate::exact::{exact_decimal, format_sig, parse_rational};
+use crate::export::Tabular;
+use crate::sum::Cached;
+use num_rational::BigRational;
+use num_traits::{Signed, ToPrimitive};
+use rug::Float;
+use serde::Serialize;
+
+/// A range of T/θ to search.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct SearchRange {
+    /// Lowest T/θ.
+    pub from: BigRational,
+    /// Highest T/θ.
+    pub to: BigRational,
+}
+
+impl SearchRange {
+    /// Reads `A:B` (T/θ from A to B, both positive, A < B).
+    ///
+    /// ```
+    /// use zsum::classical::SearchRange;
+    /// assert!(SearchRange::parse("0.01:100").is_ok());
+    /// assert!(SearchRange::parse("5:1").is_err());
+    /// assert!(SearchRange::parse("0:1").is_err());
+    /// ```
+    pub fn parse(text: &str) -> Result<Self> {
+        let allowed = "A:B with 0 < A < B (values of T/θ), e.g. 0.01:100";
+        let (a, b) = text
+            .split_once(':')
+            .ok_or_else(|| Error::parse("--range", text, allowed))?;
+        let (from, to) = (
+            parse_rational(a).map_err(|_| Error::parse("--range", text, allowed))?,
+            parse_rational(b).map_err(|_| Error::parse("--range", text, allowed))?,
+        );
+        if !from.is_positive() || !to.is_positive() {
+            return Err(Error::invalid(
+                "--range",
+                text,
+                "both ends must be greater than zero (T/θ)",
+            ));
+        }
+        if from >= to {
+            return Err(Error::invalid(
+                "--range",
+                text,
+                "it is empty: the first value must be below the second",
+            ));
+        }
+        Ok(SearchRange { from, to })
+    }
+}
+
+/// One crossing of the tolerance.
+#[derive(Debug, Clone, Serialize)]
+pub struct Crossing {
+    /// T in kelvin (null when the model's unit has no known size).
+    #[serde(rename = "T")]
+    pub t: Option<String>,
+    /// T/θ.
+    #[serde(rename = "T_over_theta")]
+    pub t_over_theta: String,
+    /// kT in the model's unit.
+    #[serde(rename = "kT")]
+    pub kt: String,
+    /// Whether the tolerance is exceeded just below this temperature (the
+    /// usual breakdown) rather than just above it.
+    pub exceeds_below: bool,
+}
+
+/// The breakdown finder's answer.
+#[derive(Debug, Clone, Serialize)]
+pub struct CrossoverReport {
+    /// The model.
+    pub model: String,
+    /// The quantity judged.
+    pub quantity: Quantity,
+    /// The approximation's name.
+    pub approximation: String,
+    /// What it is.
+    pub approximation_formula: String,
+    /// The tolerance on |relative error|, as a decimal.
+    pub tolerance: String,
+    /// θ in the model's unit.
+    pub theta: String,
+    /// The model's unit.
+    pub unit: String,
+    /// θ in kelvin, when known.
+    pub theta_kelvin: Option<String>,
+    /// The range searched, as T/θ.
+    pub range: [String; 2],
+    /// Every crossing found, coldest first.
+    pub crossings: Vec<Crossing>,
+    /// The relative error at the coldest and hottest ends of the range.
+    pub error_at_ends: [String; 2],
+    /// A sentence saying what was found.
+    pub verdict: String,
+}
+
+/// State of `|error| > tol` at T/θ = x: true when the tolerance is exceeded
+/// (or the approximation is undefined there).
+fn exceeds(
+    c: &Classical,
+    index: usize,
+    quantity: Quantity,
+    tol: &Float,
+    x: &BigRational,
+) -> Result<(bool, Float)> {
+    let t = c.at_reduced(x);
+    // 20 digits settle the sign of |error| − tol for any tolerance offered.
+    let exact = c.exact_digits(&t, 20)?;
+    match c.approximate(index, &t)? {
+        None => Ok((true, Float::with_val(PREC, f64::NAN))),
+        Some(a) => {
+            let e = a.rel_error(&exact, quantity);
+            let over = e.is_nan() || Float::with_val(PREC, e.abs_ref()) > *tol;
+            Ok((over, e))
+        }
+    }
+}
+
+fn rational_of(x: f64) -> BigRational {
+    BigRational::from_float(x).unwrap_or_else(|| BigRational::from_integer(1.into()))
+}
+
+/// Finds every temperature in `range` (T/θ) where the relative error of
+/// approximation `index` in `quantity` crosses `tol`, each to `digits`
+/// significant digits (1 to 12).
+///
+/// ```
+/// use zsum::classical::{crossovers, Classical, Quantity, SearchRange, parse_tolerance};
+/// use zsum::models::oscillator::HarmonicModes;
+/// use zsum::exact::parse_rational;
+/// use zsum::units::EnergyUnit;
+/// // One mode of 1 K, no zero point: the classical q = T/θ errs by more
+/// // than 1% below T/θ ≈ 49.7.
+/// let ho = HarmonicModes::one_d(parse_rational("1")?, false, EnergyUnit::Kelvin)?;
+/// let c = Classical::new(&ho)?;
+/// let r = crossovers(&c, c.find("classical")?, Quantity::Q, &parse_tolerance("1%")?,
+///                    &SearchRange::parse("1:1000")?, 4)?;
+/// assert_eq!(r.crossings.len(), 1);
+/// assert_eq!(r.crossings[0].t_over_theta, "49.67");
+/// # Ok::<(), zsum::Error>(())
+/// ```
+pub fn crossovers(
+    c: &Classical,
+    index: usize,
+    quantity: Quantity,
+    tol: &BigRational,
+    range: &SearchRange,
+    digits: u32,
+) -> Result<CrossoverReport> {
+    if !(1..=12).contains(&digits) {
+        return Err(Error::invalid(
+            "digits",
+            digits,
+            "choose between 1 and 12 significant digits for a crossing",
+        ));
+    }
+    let approximation =
+        c.approximations().get(index).cloned().ok_or_else(|| {
+            Error::invalid("approximation index", index, "an index the model offers")
+        })?;
+    let cached = Cached::new(c.spectrum());
+    let c = Classical {
+        spectrum: &cached,
+        form: c.form().clone(),
+    };
+    let tol_f = super::to_float(tol);
+    let lo = range.from.to_f64().unwrap_or(f64::MIN_POSITIVE).ln();
+    let hi = range.to.to_f64().unwrap_or(f64::MAX).ln();
+    let decades = (hi - lo) / std::f64::consts::LN_10;
+    let n = ((decades * 50.0).ceil() as usize).max(60);
+    // Grid from hottest to coldest; the ends are the range's exact ends.
+    let mut grid: Vec<BigRational> = (0..=n)
+        .map(|i| {
+            if i == 0 {
+                range.to.clone()
+            } else if i == n {
+                range.from.clone()
+            } else {
+                rational_of((hi - (hi - lo) * i as f64 / n as f64).exp())
+            }
+        })
+        .collect();
+    grid.dedup();
+    let mut states = Vec::with_capacity(grid.len());
+    for x in &grid {
+        states.push(exceeds(&c, index, quantity, &tol_f, x)?);
+    }
+    let theta_k = c.theta_kelvin();
+    let mut crossings = Vec::new();
+    for i in 0..grid.len() - 1 {
+        // grid[i] is hotter than grid[i + 1].
+        if states[i].0 == states[i + 1].0 {
+            continue;
+        }
+        let (mut cold, mut hot) = (grid[i + 1].clone(), grid[i].clone());
+        let cold_state = states[i + 1].0;
+        let mut settled = None;
+        for _ in 0..200 {
+            let key = |x: &BigRational| {
+                (
+                    format_sig(x, digits),
+                    theta_k.as_ref().map(|k| format_sig(&(x * k), digits)),
+                )
+            };
+            if key(&cold) == key(&hot) {
+                settled = Some(cold.clone());
+                break;
+            }
+            let (a, b) = (cold.to_f64().unwrap_or(0.0), hot.to_f64().unwrap_or(0.0));
+            let mid_f = (a * b).sqrt();
+            let mut mid = rational_of(mid_f);
+            if mid <= cold || mid >= hot {
+                // f64 exhausted: halve exactly.
+                mid = (&cold + &hot) / BigRational::from_integer(2.into());
+            }
+            let (s, _) = exceeds(&c, index, quantity, &tol_f, &mid)?;
+            if s == cold_state {
+                cold = mid;
+            } else {
+                hot = mid;
+            }
+        }
+        let x = settled.unwrap_or(cold);
+        let kt = &x * c.theta();
+        crossings.push(Crossing {
+            t: theta_k.as_ref().map(|k| format_sig(&(&x * k), digits)),
+            t_over_theta: format_sig(&x, digits),
+            kt: format_sig(&kt, digits),
+            exceeds_below: cold_state,
+        });
+    }
+    crossings.reverse();
+    let last = states.len() - 1;
+    let percent = |t: &BigRational| {
+        let p = t * BigRational::from_integer(100.into());
+        format!("{}%", exact_decimal(&p, 12))
+    };
+    let range_text = format!(
+        "T/θ {} to {}",
+        rational_text(&range.from, 12),
+        rational_text(&range.to, 12)
+    );
+    let name = &approximation.name;
+    let verdict = if crossings.is_empty() {
+        if states[0].0 {
+            format!(
+                "the {name} {} errs by more than {} throughout {range_text}: no crossing",
+                quantity.name(),
+                percent(tol)
+            )
+        } else {
+            format!(
+                "the {name} {} stays within {} throughout {range_text}: no crossing",
+                quantity.name(),
+                percent(tol)
+            )
+        }
+    } else {
+        let list: Vec<String> = crossings
+            .iter()
+            .map(|x| {
+                let at = match &x.t {
+                    Some(t) => format!("T = {t} K (T/θ = {})", x.t_over_theta),
+                    None => format!("T/θ = {}", x.t_over_theta),
+                };
+                format!(
+                    "{at}, exceeded {} it",
+                    if x.exceeds_below { "below" } else { "above" }
+                )
+            })
+            .collect();
+        format!(
+            "the {name} {} crosses {} {} time{} in {range_text}: {}",
+            quantity.name(),
+            percent(tol),
+            crossings.len(),
+            if crossings.len() == 1 { "" } else { "s" },
+            list.join("; ")
+        )
+    };
+    Ok(CrossoverReport {
+        model: c.spectrum().describe(),
+        quantity,
+        approximation: approximation.name.clone(),
+        approximation_formula: approximation.description.clone(),
+        tolerance: exact_decimal(tol, 30),
+        theta: rational_text(&c.theta(), 15),
+        unit: c.spectrum().unit().to_string(),
+        theta_kelvin: theta_k.as_ref().map(|k| rational_text(k, 15)),
+        range: [rational_text(&range.from, 15), rational_text(&range.to, 15)],
+        crossings,
+        error_at_ends: [error_text(&states[last].1), error_text(&states[0].1)],
+        verdict,
+    })
+}
+
+impl Tabular for CrossoverReport {
+    fn preamble(&self) -> Vec<String> {
+        let mut p = vec![
+            format!("model: {}", self.model),
+            format!(
+                "approximation: {} = {}",
+                self.approximation, self.approximation_formula
+            ),
+            format!(
+                "quantity: {}; tolerance on |relative error|: {}",
+                self.quantity, self.tolerance
+            ),
+            super::theta_line(&self.theta, &self.unit, &self.theta_kelvin),
+            format!(
+                "searched T/θ from {} to {}; relative error there {} and {}",
+                self.range[0], self.range[1], self.error_at_ends[0], self.error_at_ends[1]
+            ),
+        ];
+        p.push(self.verdict.clone());
+        p
+    }
+
+    fn columns(&self) -> Vec<String> {
+        vec![
+            "T/θ".into(),
+            "T (K)".into(),
+            format!("kT ({})", self.unit),
+            "tolerance exceeded".into(),
+        ]
+    }
+
+    fn rows(&self) -> Vec<Vec<String>> {
+        self.crossings
+            .iter()
+            .map(|c| {
+                vec![
+                    c.t_over_theta.clone(),
+                    c.t.clone().unwrap_or_else(|| "-".into()),
+                    c.kt.clone(),
+                    if c.exceeds_below { "below" } else { "above" }.into(),
+                ]
+            })
+            .collect()
+    }
+}
