@@ -51,6 +51,29 @@ pub enum Command {
         #[command(flatten)]
         system: SystemThermo,
     },
+    /// Where a classical approximation breaks down: every temperature in a
+    /// range of T/θ at which its relative error in q, U, Cv or S crosses a
+    /// tolerance. Give a model, or --system FILE; options may come before or
+    /// after the model.
+    Crossover {
+        /// The model.
+        #[command(subcommand)]
+        model: Option<ClassicalModel>,
+        /// Search options.
+        #[command(flatten)]
+        opts: CrossoverArgs,
+    },
+    /// Error map: exact values and classical approximations side by side
+    /// over a temperature grid, with relative errors, optionally plotted to
+    /// SVG. Give a model, or --system FILE.
+    Compare {
+        /// The model.
+        #[command(subcommand)]
+        model: Option<ClassicalModel>,
+        /// Grid, approximations and output.
+        #[command(flatten)]
+        opts: CompareArgs,
+    },
     /// Count a model's states up to an energy exactly, without listing them.
     Count {
         /// The model.
@@ -570,6 +593,125 @@ pub struct SystemThermo {
     pub format: FormatArg,
     /// Write to this file instead of standard output (atomically).
     #[arg(long, short = 'o', value_name = "FILE")]
+    pub output: Option<PathBuf>,
+}
+
+/// Models with classical limits, for `crossover` and `compare`.
+#[derive(Debug, Subcommand)]
+pub enum ClassicalModel {
+    /// Particle in a box (T/θ with θ = h^2/(8 m L^2 k); T in kelvin with
+    /// --mass and --side).
+    Box(BoxPhysical),
+    /// Linear rotor (the approximations are rigid; D and H are what the
+    /// exact sum adds).
+    Rotor(RotorModel),
+    /// Symmetric or spherical top.
+    Top(TopModel),
+    /// Harmonic modes.
+    Oscillator(OscillatorModel),
+    /// Vibrating rotor, against rigid rotor times harmonic vibration.
+    Diatomic(DiatomicModel),
+}
+
+/// A box with optional physical size.
+#[derive(Debug, Args)]
+pub struct BoxPhysical {
+    /// Box shape.
+    #[command(flatten)]
+    pub shape: BoxShape,
+    /// Particle mass with unit (for temperatures in kelvin).
+    #[arg(long, value_name = "MASS", requires = "side")]
+    pub mass: Option<String>,
+    /// Reference side with unit (for temperatures in kelvin).
+    #[arg(long, value_name = "LENGTH", requires = "mass")]
+    pub side: Option<String>,
+}
+
+/// Options of `zsum crossover`.
+#[derive(Debug, Args)]
+pub struct CrossoverArgs {
+    /// A system file (TOML) instead of a model.
+    #[arg(long, value_name = "FILE", global = true)]
+    pub system: Option<PathBuf>,
+    /// The quantity judged: q, U, Cv or S.
+    #[arg(long, value_name = "Q", default_value = "Cv", global = true)]
+    pub quantity: String,
+    /// The approximation (the model lists its own; `classical` always).
+    #[arg(long, value_name = "NAME", default_value = "classical", global = true)]
+    pub approx: String,
+    /// Tolerance on the |relative error|: a fraction (0.01) or percentage (1%).
+    #[arg(long, value_name = "TOL", default_value = "1%", global = true)]
+    pub tol: String,
+    /// Range of T/θ to search, A:B.
+    #[arg(
+        long,
+        value_name = "A:B",
+        default_value = "0.01:100",
+        global = true,
+        allow_hyphen_values = true
+    )]
+    pub range: String,
+    /// Significant digits of each crossing (1 to 12).
+    #[arg(long, value_name = "N", default_value_t = 6, global = true)]
+    pub digits: u32,
+    /// Output format.
+    #[arg(long, value_enum, default_value_t = FormatArg::Table, global = true)]
+    pub format: FormatArg,
+    /// Write to this file instead of standard output (atomically).
+    #[arg(long, short = 'o', value_name = "FILE", global = true)]
+    pub output: Option<PathBuf>,
+}
+
+/// Options of `zsum compare`.
+#[derive(Debug, Args)]
+pub struct CompareArgs {
+    /// A system file (TOML) instead of a model.
+    #[arg(long, value_name = "FILE", global = true)]
+    pub system: Option<PathBuf>,
+    /// Temperatures in kelvin: T, START:STOP:STEP or log:START:STOP:COUNT.
+    #[arg(
+        long = "T",
+        value_name = "T",
+        allow_hyphen_values = true,
+        global = true
+    )]
+    pub t: Option<String>,
+    /// Instead of --T: kT in the model's unit, same grid forms.
+    #[arg(
+        long = "kT",
+        value_name = "KT",
+        allow_hyphen_values = true,
+        global = true
+    )]
+    pub kt: Option<String>,
+    /// Instead of --T: T/θ, same grid forms.
+    #[arg(
+        long = "reduced",
+        value_name = "X",
+        allow_hyphen_values = true,
+        global = true
+    )]
+    pub reduced: Option<String>,
+    /// Approximations to compare, comma-separated. Default: all the model has.
+    #[arg(long, value_name = "NAMES", global = true)]
+    pub approx: Option<String>,
+    /// Significant digits of the values (1 to 30).
+    #[arg(long, value_name = "N", default_value_t = 8, global = true)]
+    pub digits: u32,
+    /// Also plot this quantity against T and its relative errors (SVG).
+    #[arg(long, value_name = "FILE.svg", global = true)]
+    pub plot: Option<PathBuf>,
+    /// The quantity plotted: q, U, Cv or S.
+    #[arg(long, value_name = "Q", default_value = "Cv", global = true)]
+    pub quantity: String,
+    /// Tolerance line on the error plot: a fraction or percentage.
+    #[arg(long, value_name = "TOL", default_value = "1%", global = true)]
+    pub tol: String,
+    /// Output format.
+    #[arg(long, value_enum, default_value_t = FormatArg::Table, global = true)]
+    pub format: FormatArg,
+    /// Write to this file instead of standard output (atomically).
+    #[arg(long, short = 'o', value_name = "FILE", global = true)]
     pub output: Option<PathBuf>,
 }
 

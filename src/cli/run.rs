@@ -1,13 +1,15 @@
 //! Validates raw arguments into library objects, runs the library, renders.
 
 use super::args::{
-    BoxCount, BoxLevels, BoxShape, Cli, Command, CountModel, DiatomicLevels, DiatomicModel,
-    FileLevels, FileModel, FormatArg, LevelsModel, ListArgs, OnlyArg, OscillatorLevels,
-    OscillatorModel, Output, PerArg, RotorLevels, RotorModel, SpinArgs, SystemLevels, SystemThermo,
-    TempArgs, ThermoModel, TopLevels, TopModel, ZeemanLevels, ZeemanModel,
+    BoxCount, BoxLevels, BoxPhysical, BoxShape, ClassicalModel, Cli, Command, CompareArgs,
+    CountModel, CrossoverArgs, DiatomicLevels, DiatomicModel, FileLevels, FileModel, FormatArg,
+    LevelsModel, ListArgs, OnlyArg, OscillatorLevels, OscillatorModel, Output, PerArg, RotorLevels,
+    RotorModel, SpinArgs, SystemLevels, SystemThermo, TempArgs, ThermoModel, TopLevels, TopModel,
+    ZeemanLevels, ZeemanModel,
 };
 use num_rational::BigRational;
 use num_traits::Zero;
+use zsum::classical::{crossovers, parse_tolerance, Classical, Quantity, SearchRange};
 use zsum::error::{Error, Result};
 use zsum::exact::parse_rational;
 use zsum::export::{render, write_atomic, Format};
@@ -44,6 +46,8 @@ pub fn run(cli: Cli) -> Result<Option<String>> {
         Command::Count {
             model: CountModel::Box(a),
         } => count_box(a),
+        Command::Crossover { model, opts } => crossover(model, opts),
+        Command::Compare { model, opts } => compare(model, opts),
     }
 }
 
@@ -525,4 +529,128 @@ fn levels_system(a: SystemLevels) -> Result<Option<String>> {
         },
     };
     list_generic("system", &sys.product, &list)
+}
+
+fn classical_model(
+    model: Option<ClassicalModel>,
+    system: &Option<std::path::PathBuf>,
+    what: &str,
+) -> Result<Model> {
+    Ok(match model {
+        Some(ClassicalModel::Box(BoxPhysical { shape, mass, side })) => {
+            let mut b = box_model(&shape)?;
+            if let (Some(m), Some(s)) = (&mass, &side) {
+                b = b.with_scale(&parse_mass_kg(m)?, &parse_length_m(s)?);
+            }
+            Box::new(b)
+        }
+        Some(ClassicalModel::Rotor(a)) => rotor(&a)?,
+        Some(ClassicalModel::Top(a)) => top(&a)?,
+        Some(ClassicalModel::Oscillator(a)) => oscillator(&a)?,
+        Some(ClassicalModel::Diatomic(a)) => diatomic(&a)?,
+        None => {
+            let path = system.as_ref().ok_or_else(|| {
+                Error::invalid(
+                    what,
+                    "without a model",
+                    "name a model (box, rotor, top, oscillator, diatomic) or give --system FILE",
+                )
+            })?;
+            Box::new(System::read(path)?.product)
+        }
+    })
+}
+
+fn crossover(model: Option<ClassicalModel>, a: CrossoverArgs) -> Result<Option<String>> {
+    let quantity = Quantity::parse(&a.quantity)?;
+    let tol = parse_tolerance(&a.tol)?;
+    let range = SearchRange::parse(&a.range)?;
+    let spectrum = classical_model(model, &a.system, "crossover")?;
+    let c = Classical::new(spectrum.as_ref())?;
+    let index = c.find(&a.approx)?;
+    let report = crossovers(&c, index, quantity, &tol, &range, a.digits)?;
+    emit(
+        render(&report, format(a.format))?,
+        &Output {
+            format: a.format,
+            output: a.output,
+        },
+    )
+}
+
+fn compare(model: Option<ClassicalModel>, a: CompareArgs) -> Result<Option<String>> {
+    let quantity = Quantity::parse(&a.quantity)?;
+    let tol = parse_tolerance(&a.tol)?;
+    if let Some(p) = &a.plot {
+        check_plot_path(p)?;
+    }
+    let spectrum = classical_model(model, &a.system, "compare")?;
+    let c = Classical::new(spectrum.as_ref())?;
+    let indices: Vec<usize> = match &a.approx {
+        None => (0..c.approximations().len()).collect(),
+        Some(list) => list
+            .split(',')
+            .map(|n| c.find(n.trim()))
+            .collect::<Result<_>>()?,
+    };
+    let (grid, kelvin) = match (&a.t, &a.kt, &a.reduced) {
+        (Some(t), None, None) => (parse_grid("--T", t)?, true),
+        (None, Some(k), None) => (parse_grid("--kT", k)?, false),
+        (None, None, Some(x)) => {
+            let theta = c.theta();
+            let g = parse_grid("--reduced", x)?;
+            (g.into_iter().map(|x| x * &theta).collect(), false)
+        }
+        _ => {
+            return Err(Error::invalid(
+                "temperature",
+                "missing or given twice",
+                "give one of --T (kelvin), --kT (in the model's unit) or --reduced (T/θ)",
+            ))
+        }
+    };
+    let report = zsum::classical::compare(
+        &c,
+        &indices,
+        &grid,
+        kelvin,
+        a.digits,
+        &mut progress_observer(grid.len()),
+    )?;
+    let text = render(&report, format(a.format))?;
+    if let Some(p) = &a.plot {
+        let tol_f = num_traits::ToPrimitive::to_f64(&tol).unwrap_or(0.01);
+        zsum::classical::figure::write(&report, quantity, tol_f, p)?;
+    }
+    emit(
+        text,
+        &Output {
+            format: a.format,
+            output: a.output,
+        },
+    )
+}
+
+/// Refuses a plot path that cannot be written, before any work is done.
+fn check_plot_path(p: &std::path::Path) -> Result<()> {
+    zsum::classical::figure::plot_kind(p)?;
+    let dir = match p.parent() {
+        Some(d) if !d.as_os_str().is_empty() => d.to_path_buf(),
+        _ => std::path::PathBuf::from("."),
+    };
+    if !dir.is_dir() {
+        return Err(Error::invalid(
+            "--plot",
+            p.display(),
+            "its folder does not exist; create it or choose another path",
+        ));
+    }
+    if p.is_dir() {
+        return Err(Error::invalid(
+            "--plot",
+            p.display(),
+            "it is a folder; give a file name ending in .svg or .png",
+        ));
+    }
+    Ok(())
 }
