@@ -45,6 +45,7 @@ pub mod models;
 pub mod plot;
 pub mod report;
 pub mod serde_exact;
+pub mod species;
 pub mod spectrum;
 pub mod sum;
 pub mod system;

@@ -1,0 +1,219 @@
+//! Spin isomers of hydrogen (and any homonuclear molecule with nuclear
+//! spin): ortho fraction, heat capacities of each state, and the heat of
+//! ortho–para conversion.
+//!
+//! With the common energy zero at the lowest level (para J = 0 for H2) and
+//! the molar enthalpies H_o, H_p of the pure isomers:
+//! - equilibrium ortho fraction `x_eq = q_o/(q_o + q_p)`, the isomers' sums
+//!   with their nuclear-spin weights;
+//! - heat of ortho → para conversion `H_o − H_p` per mole converted;
+//! - heat released when normal hydrogen (frozen at the high-temperature
+//!   fraction x_n, 3/4 for H2) converts to equilibrium at T:
+//!   `x_n H_o + (1 − x_n) H_p − H_eq`, per mole and per kilogram.
+
+use super::molar::{isomer_parts, molar, prec, Isomer, MolarOptions, Units};
+use super::Species;
+use crate::error::Result;
+use crate::export::Tabular;
+use crate::sum::float_to_decimal;
+use crate::units::constants;
+use num_rational::BigRational;
+use rug::Float;
+use serde::Serialize;
+
+/// One temperature of `zsum hydrogen`.
+#[derive(Debug, Clone, Serialize)]
+pub struct HydrogenRow {
+    /// T in kelvin.
+    #[serde(rename = "T")]
+    pub t: String,
+    /// The isomer state whose Cp, S, H are given.
+    pub isomer: String,
+    /// Its ortho fraction.
+    pub ortho_fraction: String,
+    /// The equilibrium ortho fraction at T.
+    pub equilibrium_ortho_fraction: String,
+    /// Cp of the chosen state, J/(mol K).
+    #[serde(rename = "Cp")]
+    pub cp: String,
+    /// Conventional S of the chosen state, J/(mol K).
+    #[serde(rename = "S")]
+    pub s: String,
+    /// H − H0 of the chosen state, J/mol.
+    #[serde(rename = "H_minus_H0")]
+    pub h: String,
+    /// Heat released per mole converting normal to equilibrium at T, J/mol.
+    pub conversion_heat: String,
+    /// The same per kilogram, kJ/kg.
+    pub conversion_heat_per_kg: String,
+    /// Heat of converting one mole of ortho to para at T, J/mol.
+    pub ortho_to_para_heat: String,
+    /// Cp of normal, equilibrium and para, J/(mol K) (the curves of the report).
+    #[serde(rename = "Cp_normal")]
+    pub cp_normal: String,
+    /// Cp of the equilibrium mixture.
+    #[serde(rename = "Cp_equilibrium")]
+    pub cp_equilibrium: String,
+    /// Cp of pure para.
+    #[serde(rename = "Cp_para")]
+    pub cp_para: String,
+    /// Units.
+    pub units: Units,
+    #[serde(skip)]
+    pub(crate) raw: [f64; 7],
+}
+
+/// `zsum hydrogen` over a grid.
+#[derive(Debug, Clone, Serialize)]
+#[serde(transparent)]
+pub struct HydrogenTable {
+    /// One row per temperature.
+    pub rows: Vec<HydrogenRow>,
+    #[serde(skip)]
+    species: String,
+}
+
+impl HydrogenTable {
+    /// Builds the table for `sp` (H2, D2, ...) over `grid` (K) for the
+    /// chosen `isomer` state.
+    ///
+    /// ```
+    /// use zsum::species::{Database, MolarOptions, Isomer};
+    /// use zsum::species::hydrogen::HydrogenTable;
+    /// use zsum::exact::parse_rational;
+    /// let db = Database::builtin()?;
+    /// let t = HydrogenTable::build(db.find("H2")?, &[parse_rational("20.28")?],
+    ///                              &Isomer::Normal, &MolarOptions::default())?;
+    /// // About 1.06 kJ/mol is released converting normal to equilibrium H2 at
+    /// // its boiling point (Woolley, Scott and Brickwedde 1948, from memory).
+    /// let q: f64 = t.rows[0].conversion_heat.parse().unwrap();
+    /// assert!((q - 1060.0).abs() < 15.0);
+    /// # Ok::<(), zsum::Error>(())
+    /// ```
+    pub fn build(
+        sp: &Species,
+        grid: &[BigRational],
+        isomer: &Isomer,
+        o: &MolarOptions,
+    ) -> Result<Self> {
+        let mut rows = Vec::with_capacity(grid.len());
+        let digits = o.digits;
+        let p = prec(digits);
+        let r = super::molar::fl(p, &(constants::boltzmann() * constants::avogadro()));
+        let kg = super::molar::fl(p, &sp.molar_mass());
+        for t in grid {
+            let at = |iso: Isomer| {
+                let mut oo = o.clone();
+                oo.isomer = Some(iso);
+                molar(sp, t, &oo)
+            };
+            let chosen = at(isomer.clone())?;
+            let normal = at(Isomer::Normal)?;
+            let eq = at(Isomer::Equilibrium)?;
+            let para = at(Isomer::Para)?;
+            let ip = isomer_parts(sp, o.model, t, digits)?;
+            let rt = Float::with_val(p, &r * super::molar::fl(p, t));
+            let (wo, wp) = (ip.w_ortho, ip.w_para);
+            let xn = Float::with_val(p, wo) / Float::with_val(p, wo + wp);
+            let h_n = Float::with_val(p, &xn * &ip.ortho.h)
+                + Float::with_val(p, Float::with_val(p, 1u32 - &xn) * &ip.para.h);
+            let conv = Float::with_val(p, &h_n - &ip.eq.h) * &rt;
+            let per_kg = Float::with_val(p, &conv / &kg) / 1000u32;
+            let o2p = Float::with_val(p, &ip.ortho.h - &ip.para.h) * &rt;
+            let show = |v: &Float| float_to_decimal(v, 0.0, 0.0, digits).0;
+            let f = |s: &str| s.parse::<f64>().unwrap_or(f64::NAN);
+            rows.push(HydrogenRow {
+                t: chosen.t.clone(),
+                isomer: isomer.name(),
+                ortho_fraction: chosen.ortho_fraction.clone().unwrap_or_default(),
+                equilibrium_ortho_fraction: eq.ortho_fraction.clone().unwrap_or_default(),
+                cp: chosen.cp.clone(),
+                s: chosen.s.clone(),
+                h: chosen.h.clone(),
+                conversion_heat: show(&conv),
+                conversion_heat_per_kg: show(&per_kg),
+                ortho_to_para_heat: show(&o2p),
+                raw: [
+                    f(&chosen.t),
+                    f(&normal.cp),
+                    f(&eq.cp),
+                    f(&para.cp),
+                    f(eq.ortho_fraction.as_deref().unwrap_or("")),
+                    conv.to_f64(),
+                    o2p.to_f64(),
+                ],
+                cp_normal: normal.cp,
+                cp_equilibrium: eq.cp,
+                cp_para: para.cp,
+                units: chosen.units,
+            });
+        }
+        Ok(HydrogenTable {
+            rows,
+            species: sp.name.clone(),
+        })
+    }
+
+    /// `(T, value)` series: 0 Cp normal, 1 Cp equilibrium, 2 Cp para,
+    /// 3 equilibrium ortho fraction, 4 conversion heat (J/mol), 5 ortho →
+    /// para heat (J/mol).
+    pub fn series(&self, which: usize) -> Vec<(f64, f64)> {
+        self.rows
+            .iter()
+            .map(|r| (r.raw[0], r.raw[(which + 1).min(6)]))
+            .collect()
+    }
+}
+
+impl Tabular for HydrogenTable {
+    fn preamble(&self) -> Vec<String> {
+        vec![
+            format!(
+                "{}: spin isomers from exact rovibrational sums; conversion heat = heat \
+                 released per mole when normal converts to equilibrium at T",
+                self.species
+            ),
+            "Cp, S in J/(mol K); H-H0, heats in J/mol; per kg in kJ/kg; p = 1 bar ideal gas".into(),
+            "ideal-gas model values: design decisions follow certified property data, local \
+             codes and licensed engineering practice"
+                .into(),
+        ]
+    }
+
+    fn columns(&self) -> Vec<String> {
+        [
+            "T (K)",
+            "isomer",
+            "ortho fraction",
+            "eq. ortho fraction",
+            "Cp",
+            "S",
+            "H-H0",
+            "conversion heat (J/mol)",
+            "(kJ/kg)",
+            "ortho->para heat (J/mol)",
+        ]
+        .map(String::from)
+        .to_vec()
+    }
+
+    fn rows(&self) -> Vec<Vec<String>> {
+        self.rows
+            .iter()
+            .map(|r| {
+                vec![
+                    r.t.clone(),
+                    r.isomer.clone(),
+                    r.ortho_fraction.clone(),
+                    r.equilibrium_ortho_fraction.clone(),
+                    r.cp.clone(),
+                    r.s.clone(),
+                    r.h.clone(),
+                    r.conversion_heat.clone(),
+                    r.conversion_heat_per_kg.clone(),
+                    r.ortho_to_para_heat.clone(),
+                ]
+            })
+            .collect()
+    }
+}
