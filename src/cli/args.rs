@@ -74,6 +74,15 @@ pub enum Command {
         #[command(flatten)]
         opts: CompareArgs,
     },
+    /// Built-in species: list them, or show one's constants with sources.
+    Species {
+        /// What to do.
+        #[command(subcommand)]
+        command: SpeciesCommand,
+    },
+    /// Hydrogen's spin isomers over a temperature grid: ortho fraction, Cp
+    /// of normal, equilibrium and para, and the ortho–para conversion heat.
+    Hydrogen(HydrogenArgs),
     /// Count a model's states up to an energy exactly, without listing them.
     Count {
         /// The model.
@@ -508,6 +517,100 @@ pub enum ThermoModel {
     File(FileThermo),
     /// Zeeman multiplet.
     Zeeman(ZeemanThermo),
+    /// A built-in species by name (e.g. `zsum thermo N2 --T 298.15`):
+    /// standard molar functions; see `zsum thermo N2 --help`.
+    #[command(external_subcommand)]
+    Species(Vec<String>),
+}
+
+/// `zsum thermo SPECIES ...`: standard molar functions of a species.
+#[derive(Debug, Parser)]
+#[command(name = "zsum thermo SPECIES", no_binary_name = true)]
+pub struct SpeciesThermo {
+    /// The species (zsum species list).
+    pub species: String,
+    /// Temperature(s) in kelvin: T, START:STOP:STEP or log:START:STOP:COUNT.
+    #[arg(long = "T", value_name = "T", allow_hyphen_values = true)]
+    pub t: String,
+    /// Pressure: a number in Pa, or with a unit (Pa, kPa, MPa, bar, atm).
+    #[arg(
+        long,
+        value_name = "P",
+        default_value = "1bar",
+        allow_hyphen_values = true
+    )]
+    pub p: String,
+    /// Values per mole (the only choice for a species table).
+    #[arg(long, value_enum, default_value_t = PerArg::Mole)]
+    pub per: PerArg,
+    /// Spin isomers of H2, D2, N2: equilibrium, normal, ortho, para or fraction=X.
+    #[arg(long, value_name = "STATE")]
+    pub isomer: Option<String>,
+    /// rovib (vibrating rotor, default) or rrho (rigid rotor, harmonic oscillator).
+    #[arg(long, value_name = "MODEL", default_value = "rovib")]
+    pub model: String,
+    /// Translation by the exact sum in a cubic box of this side (e.g. 10nm)
+    /// instead of Sackur–Tetrode.
+    #[arg(long, value_name = "LENGTH")]
+    pub box_side: Option<String>,
+    /// More species from a file in zsum's species format.
+    #[arg(long, value_name = "FILE")]
+    pub species_file: Option<PathBuf>,
+    /// Significant digits.
+    #[arg(long, value_name = "N", default_value_t = 10)]
+    pub digits: u32,
+    /// Output options.
+    #[command(flatten)]
+    pub out: Output,
+}
+
+/// `zsum species`.
+#[derive(Debug, Subcommand)]
+pub enum SpeciesCommand {
+    /// Every species with its kind and mass.
+    List {
+        /// More species from a file.
+        #[arg(long, value_name = "FILE")]
+        species_file: Option<PathBuf>,
+        /// Output options.
+        #[command(flatten)]
+        out: Output,
+    },
+    /// One species: every constant with its unit and source.
+    Show {
+        /// The species.
+        name: String,
+        /// More species from a file.
+        #[arg(long, value_name = "FILE")]
+        species_file: Option<PathBuf>,
+        /// Output options.
+        #[command(flatten)]
+        out: Output,
+    },
+}
+
+/// `zsum hydrogen`.
+#[derive(Debug, Args)]
+pub struct HydrogenArgs {
+    /// Temperature(s) in kelvin: T, START:STOP:STEP or log:START:STOP:COUNT.
+    #[arg(long = "T", value_name = "T", allow_hyphen_values = true)]
+    pub t: String,
+    /// The state whose Cp, S and H are shown: equilibrium, normal, ortho,
+    /// para or fraction=X (ortho fraction).
+    #[arg(long, value_name = "STATE", default_value = "normal")]
+    pub isomer: String,
+    /// The species: H2 (default) or D2 (or N2).
+    #[arg(long, value_name = "NAME", default_value = "H2")]
+    pub species: String,
+    /// rovib (default) or rrho.
+    #[arg(long, value_name = "MODEL", default_value = "rovib")]
+    pub model: String,
+    /// Significant digits.
+    #[arg(long, value_name = "N", default_value_t = 10)]
+    pub digits: u32,
+    /// Output options.
+    #[command(flatten)]
+    pub out: Output,
 }
 
 /// Temperatures, precision and output for `sum` and `thermo`.
@@ -759,6 +862,8 @@ pub enum FormatArg {
     Json,
     /// CSV with a header row.
     Csv,
+    /// Markdown table (for reports and notes).
+    Markdown,
 }
 
 /// `zsum levels box`.

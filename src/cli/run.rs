@@ -3,9 +3,9 @@
 use super::args::{
     BoxCount, BoxLevels, BoxPhysical, BoxShape, ClassicalModel, Cli, Command, CompareArgs,
     CountModel, CrossoverArgs, DiatomicLevels, DiatomicModel, FileLevels, FileModel, FormatArg,
-    LevelsModel, ListArgs, OnlyArg, OscillatorLevels, OscillatorModel, Output, PerArg, RotorLevels,
-    RotorModel, SpinArgs, SystemLevels, SystemThermo, TempArgs, ThermoModel, TopLevels, TopModel,
-    ZeemanLevels, ZeemanModel,
+    HydrogenArgs, LevelsModel, ListArgs, OnlyArg, OscillatorLevels, OscillatorModel, Output,
+    PerArg, RotorLevels, RotorModel, SpeciesCommand, SpeciesThermo, SpinArgs, SystemLevels,
+    SystemThermo, TempArgs, ThermoModel, TopLevels, TopModel, ZeemanLevels, ZeemanModel,
 };
 use num_rational::BigRational;
 use num_traits::Zero;
@@ -21,6 +21,8 @@ use zsum::models::zeeman::ZeemanMultiplet;
 use zsum::models::ParticleInBox;
 use zsum::report::{check_digits, BoxScale, CountReport, LevelsReport};
 use zsum::report::{ListOptions, SpectrumLevelsReport};
+use zsum::species::hydrogen::HydrogenTable;
+use zsum::species::{Database, Isomer, MolarOptions, MolarTable, Translation, VibModel};
 use zsum::spectrum::Budget;
 use zsum::spectrum::Spectrum;
 use zsum::system::{parse_energy, parse_twice_spin, parse_weights, restrict_weights, System};
@@ -47,6 +49,8 @@ pub fn run(cli: Cli) -> Result<Option<String>> {
             model: CountModel::Box(a),
         } => count_box(a),
         Command::Crossover { model, opts } => crossover(model, opts),
+        Command::Species { command } => species(command),
+        Command::Hydrogen(a) => hydrogen(a),
         Command::Compare { model, opts } => compare(model, opts),
     }
 }
@@ -135,6 +139,7 @@ fn format(f: FormatArg) -> Format {
         FormatArg::Table => Format::Table,
         FormatArg::Json => Format::Json,
         FormatArg::Csv => Format::Csv,
+        FormatArg::Markdown => Format::Markdown,
     }
 }
 
@@ -421,6 +426,13 @@ fn thermo_model(m: ThermoModel) -> Result<(&'static str, Model, TempArgs)> {
         ThermoModel::Diatomic(a) => ("diatomic", diatomic(&a.model)?, a.temp),
         ThermoModel::File(a) => ("file", file(&a.model)?, a.temp),
         ThermoModel::Zeeman(a) => ("zeeman", zeeman(&a.model)?, a.temp),
+        ThermoModel::Species(_) => {
+            return Err(Error::invalid(
+                "sum",
+                "with a species name",
+                "species give standard molar functions: use zsum thermo NAME --T ...",
+            ))
+        }
     })
 }
 
@@ -429,6 +441,9 @@ fn run_thermo(
     system: SystemThermo,
     with_functions: bool,
 ) -> Result<Option<String>> {
+    if let (Some(ThermoModel::Species(args)), true) = (&model, with_functions) {
+        return species_thermo(args);
+    }
     let (id, spectrum, temp) = match model {
         Some(m) => thermo_model(m)?,
         None => {
@@ -653,4 +668,118 @@ fn check_plot_path(p: &std::path::Path) -> Result<()> {
         ));
     }
     Ok(())
+}
+
+fn database(extra: &Option<std::path::PathBuf>) -> Result<Database> {
+    let mut db = Database::builtin()?;
+    if let Some(f) = extra {
+        db.add_file(f)?;
+    }
+    Ok(db)
+}
+
+fn vib_model(text: &str) -> Result<VibModel> {
+    match text {
+        "rovib" => Ok(VibModel::Rovib),
+        "rrho" => Ok(VibModel::Rrho),
+        other => Err(Error::parse("--model", other, "rovib or rrho")),
+    }
+}
+
+/// Reads a pressure in Pa: a number, or with Pa, kPa, MPa, bar or atm.
+fn parse_pressure(text: &str) -> Result<BigRational> {
+    let t = text.trim();
+    let allowed = "a pressure: a number in Pa or with a unit, e.g. 100000, 1bar, 101.325kPa, 1atm";
+    let (num, factor) = [
+        ("MPa", "1000000"),
+        ("kPa", "1000"),
+        ("Pa", "1"),
+        ("bar", "100000"),
+        ("atm", "101325"),
+    ]
+    .iter()
+    .find_map(|(u, f)| t.strip_suffix(u).map(|n| (n.trim(), *f)))
+    .unwrap_or((t, "1"));
+    let v = parse_rational(num).map_err(|_| Error::parse("--p", text, allowed))?
+        * parse_rational(factor)?;
+    if v <= BigRational::zero() {
+        return Err(Error::invalid(
+            "--p",
+            text,
+            "the pressure must be greater than zero",
+        ));
+    }
+    Ok(v)
+}
+
+fn species_thermo(args: &[String]) -> Result<Option<String>> {
+    use clap::Parser;
+    let a = match SpeciesThermo::try_parse_from(args) {
+        Ok(a) => a,
+        Err(e) if !e.use_stderr() => return Ok(Some(e.to_string())),
+        Err(e) => {
+            return Err(Error::invalid(
+                "thermo",
+                args.join(" "),
+                e.render().to_string().trim_start_matches("error: ").trim(),
+            ))
+        }
+    };
+    if let PerArg::Particle = a.per {
+        return Err(Error::invalid(
+            "--per",
+            "particle",
+            "species tables are per mole; use a model (zsum thermo rotor ...) per particle",
+        ));
+    }
+    let db = database(&a.species_file)?;
+    let sp = db.find(&a.species)?;
+    let options = MolarOptions {
+        pressure: parse_pressure(&a.p)?,
+        model: vib_model(&a.model)?,
+        translation: match &a.box_side {
+            None => Translation::SackurTetrode,
+            Some(s) => Translation::Box(parse_length_m(s)?),
+        },
+        isomer: a.isomer.as_deref().map(Isomer::parse).transpose()?,
+        digits: a.digits,
+    };
+    let grid = parse_grid("--T", &a.t)?;
+    let table = MolarTable::build(sp, &grid, &options)?;
+    let text = match (format(a.out.format), table.rows.as_slice()) {
+        (Format::Json, [one]) => zsum::export::to_json(one)?,
+        (f, _) => render(&table, f)?,
+    };
+    emit(text, &a.out)
+}
+
+fn species(c: SpeciesCommand) -> Result<Option<String>> {
+    match c {
+        SpeciesCommand::List { species_file, out } => {
+            let db = database(&species_file)?;
+            emit(render(&db.list(), format(out.format))?, &out)
+        }
+        SpeciesCommand::Show {
+            name,
+            species_file,
+            out,
+        } => {
+            let db = database(&species_file)?;
+            emit(render(&db.find(&name)?.show(), format(out.format))?, &out)
+        }
+    }
+}
+
+fn hydrogen(a: HydrogenArgs) -> Result<Option<String>> {
+    let db = Database::builtin()?;
+    let sp = db.find(&a.species)?;
+    let isomer = Isomer::parse(&a.isomer)?;
+    let grid = parse_grid("--T", &a.t)?;
+    let options = MolarOptions {
+        model: vib_model(&a.model)?,
+        digits: a.digits,
+        ..MolarOptions::default()
+    };
+    let table = HydrogenTable::build(sp, &grid, &isomer, &options)?;
+    emit(render(&table, format(a.out.format))?, &a.out)
 }

@@ -4,6 +4,7 @@
 
 mod csv_format;
 mod json;
+mod markdown;
 mod table;
 
 use crate::error::{Error, ErrorKind, Result};
@@ -12,6 +13,7 @@ use std::path::Path;
 
 pub use csv_format::to_csv;
 pub use json::to_json;
+pub use markdown::to_markdown;
 pub use table::to_table;
 
 /// A result that can be laid out as rows and columns.
@@ -39,6 +41,8 @@ pub enum Format {
     Json,
     /// CSV with one header row.
     Csv,
+    /// A Markdown table under its preamble.
+    Markdown,
 }
 
 impl Format {
@@ -48,7 +52,12 @@ impl Format {
             "table" => Ok(Format::Table),
             "json" => Ok(Format::Json),
             "csv" => Ok(Format::Csv),
-            other => Err(Error::parse("format", other, "one of table, json, csv")),
+            "markdown" | "md" => Ok(Format::Markdown),
+            other => Err(Error::parse(
+                "format",
+                other,
+                "one of table, json, csv, markdown",
+            )),
         }
     }
 }
@@ -59,6 +68,7 @@ pub fn render<T: Serialize + Tabular>(result: &T, format: Format) -> Result<Stri
         Format::Table => Ok(to_table(result)),
         Format::Json => to_json(result),
         Format::Csv => to_csv(result),
+        Format::Markdown => Ok(to_markdown(result)),
     }
 }
 

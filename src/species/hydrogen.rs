@@ -11,7 +11,7 @@
 //!   fraction x_n, 3/4 for H2) converts to equilibrium at T:
 //!   `x_n H_o + (1 − x_n) H_p − H_eq`, per mole and per kilogram.
 
-use super::molar::{isomer_parts, molar, prec, Isomer, MolarOptions, Units};
+use super::molar::{isomer_parts, molar_with, prec, Isomer, MolarOptions, Spectra, Units};
 use super::Species;
 use crate::error::Result;
 use crate::export::Tabular;
@@ -101,17 +101,24 @@ impl HydrogenTable {
         let p = prec(digits);
         let r = super::molar::fl(p, &(constants::boltzmann() * constants::avogadro()));
         let kg = super::molar::fl(p, &sp.molar_mass());
-        for t in grid {
+        let spectra = Spectra::new(sp, o.model)?;
+        let cached = spectra.cached();
+        // Hottest first, so one listing per spectrum serves the grid.
+        let mut order: Vec<usize> = (0..grid.len()).collect();
+        order.sort_by(|a, b| grid[*b].cmp(&grid[*a]));
+        let mut slots: Vec<Option<HydrogenRow>> = vec![None; grid.len()];
+        for gi in order {
+            let t = &grid[gi];
             let at = |iso: Isomer| {
                 let mut oo = o.clone();
                 oo.isomer = Some(iso);
-                molar(sp, t, &oo)
+                molar_with(sp, &cached, t, &oo)
             };
             let chosen = at(isomer.clone())?;
             let normal = at(Isomer::Normal)?;
             let eq = at(Isomer::Equilibrium)?;
             let para = at(Isomer::Para)?;
-            let ip = isomer_parts(sp, o.model, t, digits)?;
+            let ip = isomer_parts(sp, &cached, t, digits)?;
             let rt = Float::with_val(p, &r * super::molar::fl(p, t));
             let (wo, wp) = (ip.w_ortho, ip.w_para);
             let xn = Float::with_val(p, wo) / Float::with_val(p, wo + wp);
@@ -122,7 +129,7 @@ impl HydrogenTable {
             let o2p = Float::with_val(p, &ip.ortho.h - &ip.para.h) * &rt;
             let show = |v: &Float| float_to_decimal(v, 0.0, 0.0, digits).0;
             let f = |s: &str| s.parse::<f64>().unwrap_or(f64::NAN);
-            rows.push(HydrogenRow {
+            slots[gi] = Some(HydrogenRow {
                 t: chosen.t.clone(),
                 isomer: isomer.name(),
                 ortho_fraction: chosen.ortho_fraction.clone().unwrap_or_default(),
@@ -148,6 +155,7 @@ impl HydrogenTable {
                 units: chosen.units,
             });
         }
+        rows.extend(slots.into_iter().flatten());
         Ok(HydrogenTable {
             rows,
             species: sp.name.clone(),

@@ -42,7 +42,9 @@ use num_traits::{Signed, Zero};
 use serde::{Deserialize, Serialize};
 use std::path::Path;
 
-pub use molar::{molar, Isomer, MolarOptions, MolarPoint, MolarTable, Translation, VibModel};
+pub use molar::{
+    molar, tables, Isomer, MolarOptions, MolarPoint, MolarTable, Translation, VibModel,
+};
 
 /// The built-in database text.
 pub const BUILTIN: &str = include_str!("../../data/species.toml");

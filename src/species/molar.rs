@@ -195,6 +195,12 @@ pub(crate) struct Part {
     pub ln_q: Float,
 }
 
+/// Guard digits: the engine's values are certified to this many digits
+/// beyond those printed; the molar functions add a few of them without
+/// cancellation (every term of S, H and Cp is positive but the spin and
+/// mixing corrections, which are small), so the printed digits stand.
+const GUARD: u32 = 5;
+
 pub(crate) fn prec(digits: u32) -> u32 {
     ((digits + 12) as f64 * std::f64::consts::LOG2_10).ceil() as u32 + 32
 }
@@ -217,7 +223,7 @@ pub(crate) fn internal_part(
     digits: u32,
 ) -> Result<Part> {
     let p = prec(digits);
-    let point = thermo(s, &Temperature::Kelvin(t.clone()), digits + 8)?;
+    let point = thermo(s, &Temperature::Kelvin(t.clone()), digits + GUARD)?;
     let ln_q = parse(p, &point.ln_q)?;
     let u = parse(p, &point.u_over_kt)?;
     let cv = parse(p, &point.cv_over_k)?;
@@ -254,7 +260,7 @@ fn translation(m: &BigRational, t: &BigRational, o: &MolarOptions) -> Result<Par
         Translation::Box(side) => {
             let b = ParticleInBox::cube(3)?.with_scale(m, side);
             let zero = BigRational::zero();
-            let point = thermo(&b, &Temperature::Kelvin(t.clone()), o.digits + 8)?;
+            let point = thermo(&b, &Temperature::Kelvin(t.clone()), o.digits + GUARD)?;
             let ln_qb = parse(p, &point.ln_q)?;
             let u = parse(p, &point.u_over_kt)?;
             let cv = parse(p, &point.cv_over_k)?;
@@ -313,27 +319,102 @@ pub(crate) struct IsomerParts {
     pub w_para: u64,
 }
 
+/// A species' internal spectra: the whole and, for species with spin
+/// isomers, each isomer with its spin weight.
+type Owned = Box<dyn Spectrum + Send + Sync>;
+
+pub(crate) struct Spectra {
+    full: Owned,
+    /// Ortho and para spectra with their spin weights.
+    iso: Option<(Owned, Owned, u64, u64)>,
+}
+
+impl Spectra {
+    pub fn new(sp: &Species, model: VibModel) -> Result<Self> {
+        let full = sp.internal(model, None)?;
+        let iso = if sp.has_spin_isomers() {
+            let (o, pw) = isomer_weights(sp)?;
+            let w = |x: &ParityWeights| -> u64 {
+                let v = x.weight(0).max(x.weight(1)).clone();
+                u64::try_from(v).unwrap_or(u64::MAX)
+            };
+            let (wo, wp) = (w(&o), w(&pw));
+            Some((
+                sp.internal(model, Some(o))?,
+                sp.internal(model, Some(pw))?,
+                wo,
+                wp,
+            ))
+        } else {
+            None
+        };
+        Ok(Spectra { full, iso })
+    }
+
+    /// Views that keep level listings across a temperature grid.
+    pub fn cached(&self) -> CachedSpectra<'_> {
+        CachedSpectra {
+            full: Cached::new(self.full.as_ref()),
+            iso: self
+                .iso
+                .as_ref()
+                .map(|(o, p, wo, wp)| (Cached::new(o.as_ref()), Cached::new(p.as_ref()), *wo, *wp)),
+        }
+    }
+}
+
+/// [`Spectra`] with level caches.
+pub(crate) struct CachedSpectra<'a> {
+    full: Cached<'a>,
+    iso: Option<(Cached<'a>, Cached<'a>, u64, u64)>,
+}
+
 pub(crate) fn isomer_parts(
     sp: &Species,
-    model: VibModel,
+    c: &CachedSpectra,
     t: &BigRational,
     digits: u32,
 ) -> Result<IsomerParts> {
-    let (o, pw) = isomer_weights(sp)?;
-    let full = sp.internal(model, None)?;
-    let zero = full.ground_energy();
-    let so = sp.internal(model, Some(o.clone()))?;
-    let spp = sp.internal(model, Some(pw.clone()))?;
-    let w = |x: &ParityWeights| -> u64 {
-        let v = x.weight(0).max(x.weight(1)).clone();
-        u64::try_from(v).unwrap_or(u64::MAX)
+    let (o, p, wo, wp) = c.iso.as_ref().ok_or_else(|| {
+        Error::invalid(
+            "isomer",
+            &sp.name,
+            "only homonuclear molecules with nuclear spin (H2, D2, N2) have ortho and para forms",
+        )
+    })?;
+    let zero = c.full.ground_energy();
+    let ortho = internal_part(o, t, &zero, digits)?;
+    let para = internal_part(p, t, &zero, digits)?;
+    // The equilibrium mixture from its two isomers (q = q_o + q_p): with
+    // x = q_o/q, U and Cv are the mixture's mean and variance of E/kT,
+    // Cv = x Cv_o + (1 − x) Cv_p + x(1 − x)(U_o − U_p)², from absolute U/kT.
+    let prec = ortho.ln_q.prec();
+    let d = Float::with_val(prec, &para.ln_q - &ortho.ln_q);
+    let x = (Float::with_val(prec, d.exp_ref()) + 1u32).recip();
+    let one_x = Float::with_val(prec, 1u32 - &x);
+    let ln_q = Float::with_val(prec, &ortho.ln_q - Float::with_val(prec, x.ln_ref()));
+    let (uo, up) = (
+        Float::with_val(prec, &ortho.s - &ortho.ln_q),
+        Float::with_val(prec, &para.s - &para.ln_q),
+    );
+    let u = Float::with_val(prec, &x * &uo) + Float::with_val(prec, &one_x * &up);
+    let gap = Float::with_val(prec, &uo - &up);
+    let cv = Float::with_val(prec, &x * &ortho.cv)
+        + Float::with_val(prec, &one_x * &para.cv)
+        + Float::with_val(prec, &x * &one_x) * Float::with_val(prec, gap.square_ref());
+    let h = Float::with_val(prec, &x * &ortho.h) + Float::with_val(prec, &one_x * &para.h);
+    let eq = Part {
+        s: Float::with_val(prec, &ln_q + &u),
+        h,
+        cv,
+        ln_q,
     };
     Ok(IsomerParts {
-        eq: internal_part(full.as_ref(), t, &zero, digits)?,
-        ortho: internal_part(so.as_ref(), t, &zero, digits)?,
-        para: internal_part(spp.as_ref(), t, &zero, digits)?,
-        w_ortho: w(&o),
-        w_para: w(&pw),
+        eq,
+        ortho,
+        para,
+        w_ortho: *wo,
+        w_para: *wp,
     })
 }
 
@@ -349,12 +430,13 @@ pub(crate) fn isomer_parts(
 /// # Ok::<(), zsum::Error>(())
 /// ```
 pub fn molar(sp: &Species, t: &BigRational, o: &MolarOptions) -> Result<MolarPoint> {
-    molar_with(sp, None, t, o)
+    let spectra = Spectra::new(sp, o.model)?;
+    molar_with(sp, &spectra.cached(), t, o)
 }
 
-fn molar_with(
+pub(crate) fn molar_with(
     sp: &Species,
-    cached: Option<&dyn Spectrum>,
+    cached: &CachedSpectra,
     t: &BigRational,
     o: &MolarOptions,
 ) -> Result<MolarPoint> {
@@ -390,21 +472,14 @@ fn molar_with(
                  forms",
             )),
             (None, false) => {
-                let owned;
-                let s: &dyn Spectrum = match cached {
-                    Some(c) => c,
-                    None => {
-                        owned = sp.internal(o.model, None)?;
-                        owned.as_ref()
-                    }
-                };
+                let s = &cached.full;
                 let part = internal_part(s, t, &s.ground_energy(), o.digits)?;
                 let g = Float::with_val(p, sp.spin_states()).ln();
                 let conv = Float::with_val(p, &part.s - &g);
                 (conv, part.s, part.h, part.cv, None)
             }
             (iso, true) => {
-                let ip = isomer_parts(sp, o.model, t, o.digits)?;
+                let ip = isomer_parts(sp, cached, t, o.digits)?;
                 // Equilibrium ortho fraction q_o/q.
                 let d = Float::with_val(p, &ip.para.ln_q - &ip.ortho.ln_q);
                 let x_eq = Float::with_val(p, d.exp() + 1u32).recip();
@@ -482,19 +557,62 @@ impl MolarTable {
     /// Builds the table of `sp` over `grid` (kelvin), listing internal
     /// levels once for the whole grid.
     pub fn build(sp: &Species, grid: &[BigRational], o: &MolarOptions) -> Result<Self> {
-        let internal = sp.internal(o.model, None)?;
-        let cached = Cached::new(internal.as_ref());
+        let spectra = Spectra::new(sp, o.model)?;
+        let cached = spectra.cached();
         // Hottest first so one listing serves every temperature.
         let mut order: Vec<usize> = (0..grid.len()).collect();
         order.sort_by(|a, b| grid[*b].cmp(&grid[*a]));
         let mut rows: Vec<Option<MolarPoint>> = vec![None; grid.len()];
         for i in order {
-            rows[i] = Some(molar_with(sp, Some(&cached), &grid[i], o)?);
+            rows[i] = Some(molar_with(sp, &cached, &grid[i], o)?);
         }
         Ok(MolarTable {
             rows: rows.into_iter().flatten().collect(),
         })
     }
+}
+
+/// Property tables of every species in `species` over one grid, built on
+/// all available cores (one species per task).
+pub fn tables(
+    species: &[&Species],
+    grid: &[BigRational],
+    o: &MolarOptions,
+) -> Result<Vec<MolarTable>> {
+    let threads = std::thread::available_parallelism()
+        .map_or(1, |n| n.get())
+        .max(1);
+    let next = std::sync::atomic::AtomicUsize::new(0);
+    let slots: Vec<std::sync::Mutex<Option<Result<MolarTable>>>> = species
+        .iter()
+        .map(|_| std::sync::Mutex::new(None))
+        .collect();
+    std::thread::scope(|scope| {
+        for _ in 0..threads.min(species.len()) {
+            scope.spawn(|| loop {
+                let i = next.fetch_add(1, std::sync::atomic::Ordering::Relaxed);
+                if i >= species.len() {
+                    break;
+                }
+                let r = MolarTable::build(species[i], grid, o);
+                if let Ok(mut slot) = slots[i].lock() {
+                    *slot = Some(r);
+                }
+            });
+        }
+    });
+    slots
+        .into_iter()
+        .map(|m| {
+            m.into_inner().ok().flatten().unwrap_or_else(|| {
+                Err(Error::invalid(
+                    "species table",
+                    "missing",
+                    "a finished task",
+                ))
+            })
+        })
+        .collect()
 }
 
 impl Tabular for MolarTable {

@@ -371,17 +371,26 @@ fn point(st: &Stats, t: &str, digits: u32, prec: u32) -> ThermoPoint {
 /// A spectrum whose level listings are kept and reused: a temperature sweep
 /// lists levels once, at the highest cutoff any temperature needs, and
 /// later temperatures take the part of the list they need.
+///
+/// A product's parts are summed separately by the engine, so each part is
+/// wrapped (and cached) in turn.
 pub struct Cached<'a> {
     inner: &'a dyn Spectrum,
     store: std::cell::RefCell<Option<(BigRational, crate::level::LevelList)>>,
+    parts: Option<Vec<(Cached<'a>, BigRational)>>,
 }
 
 impl<'a> Cached<'a> {
     /// Wraps `inner`.
     pub fn new(inner: &'a dyn Spectrum) -> Self {
+        let parts = match inner.shape() {
+            Shape::Parts(ps) => Some(ps.into_iter().map(|(p, f)| (Cached::new(p), f)).collect()),
+            _ => None,
+        };
         Cached {
             inner,
             store: std::cell::RefCell::new(None),
+            parts,
         }
     }
 }
@@ -426,7 +435,14 @@ impl Spectrum for Cached<'_> {
         self.inner.labels_at(energy)
     }
     fn shape(&self) -> Shape<'_> {
-        self.inner.shape()
+        match &self.parts {
+            Some(ps) => Shape::Parts(
+                ps.iter()
+                    .map(|(c, f)| (c as &dyn Spectrum, f.clone()))
+                    .collect(),
+            ),
+            None => self.inner.shape(),
+        }
     }
     fn highest_energy(&self) -> Option<BigRational> {
         self.inner.highest_energy()
