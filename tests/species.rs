@@ -186,6 +186,7 @@ fn bad_species_data_is_refused_with_the_field_named() {
 name = "X2"
 description = "test"
 kind = "linear"
+homonuclear = false
 mass = { value = "2", unit = "u", source = "test" }
 rotation = { B_e = "1", unit = "cm-1", source = "test" }
 vibration = { we = "1000", unit = "cm-1", source = "test" }

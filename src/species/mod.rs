@@ -107,6 +107,7 @@ struct FileSpecies {
     description: String,
     kind: String,
     mass: Sourced,
+    homonuclear: Option<bool>,
     nuclear_spin: Option<String>,
     swap_parity: Option<bool>,
     rotation: Option<FileRotation>,
@@ -209,6 +210,7 @@ impl Species {
                     ("vibration", f.vibration.is_some()),
                     ("nuclear_spin", f.nuclear_spin.is_some()),
                     ("swap_parity", f.swap_parity.is_some()),
+                    ("homonuclear", f.homonuclear.is_some()),
                 ] {
                     if present {
                         return Err(field_err(
@@ -246,6 +248,34 @@ impl Species {
                         .transpose()
                         .map(|x| x.unwrap_or_else(BigRational::zero))
                 };
+                let homonuclear = f.homonuclear.ok_or_else(|| {
+                    field_err(
+                        &n,
+                        "homonuclear",
+                        "missing",
+                        "say true or false for a linear molecule",
+                    )
+                })?;
+                match (homonuclear, &f.nuclear_spin) {
+                    (false, Some(s)) => {
+                        return Err(field_err(
+                            &n,
+                            "nuclear_spin",
+                            s,
+                            "nuclear spin statistics need identical nuclei, but the molecule is \
+                             heteronuclear (homonuclear = false)",
+                        ))
+                    }
+                    (true, None) => {
+                        return Err(field_err(
+                            &n,
+                            "nuclear_spin",
+                            "missing",
+                            "a homonuclear molecule needs the spin of its nuclei (0, 1/2, 1, ...)",
+                        ))
+                    }
+                    _ => {}
+                }
                 let (twice_spin, weights) = match &f.nuclear_spin {
                     None => {
                         if f.swap_parity.is_some() {
