@@ -171,3 +171,20 @@ fn bad_input_is_refused() {
     );
     assert!(!out.exists());
 }
+
+#[test]
+fn report_writes_a_folder_or_refuses() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("r");
+    let o = run(&["report", "--out", out.to_str().unwrap()]);
+    assert!(o.status.success());
+    let text = String::from_utf8_lossy(&o.stdout);
+    assert!(
+        text.contains("normal -> equilibrium heat") && text.contains("caution"),
+        "{text}"
+    );
+    assert!(out.join("index.html").exists());
+    let file = dir.path().join("f");
+    std::fs::write(&file, "").unwrap();
+    refused(&["report", "--out", file.to_str().unwrap()], "not a folder");
+}

@@ -80,6 +80,13 @@ pub enum Command {
         #[command(subcommand)]
         command: SpeciesCommand,
     },
+    /// The worked scenario: a self-contained HTML report with inline plots
+    /// and tables, CSV files and a short summary.
+    Report {
+        /// The folder to write (created if missing).
+        #[arg(long, value_name = "DIR", default_value = "zsum-report")]
+        out: PathBuf,
+    },
     /// Hydrogen's spin isomers over a temperature grid: ortho fraction, Cp
     /// of normal, equilibrium and para, and the ortho–para conversion heat.
     Hydrogen(HydrogenArgs),

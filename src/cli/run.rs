@@ -51,6 +51,10 @@ pub fn run(cli: Cli) -> Result<Option<String>> {
         Command::Crossover { model, opts } => crossover(model, opts),
         Command::Species { command } => species(command),
         Command::Hydrogen(a) => hydrogen(a),
+        Command::Report { out } => {
+            let s = zsum::species::liquefier::write_report(&out)?;
+            Ok(Some(s.lines.join("\n") + "\n"))
+        }
         Command::Compare { model, opts } => compare(model, opts),
     }
 }

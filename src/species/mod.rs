@@ -25,6 +25,7 @@
 //! high temperature). `S_total` includes them.
 
 pub mod hydrogen;
+pub mod liquefier;
 mod molar;
 
 use crate::error::{Error, ErrorKind, Result};
