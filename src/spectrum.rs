@@ -110,6 +110,14 @@ pub trait Spectrum {
     /// `energy` (never below the true count).
     fn count_bound(&self, energy: &BigRational) -> BigUint;
 
+    /// A rigorous upper bound on the number of states with energy at most
+    /// `energy`, for the engine's tail bounds, evaluated many times per
+    /// temperature: it may be looser than [`Spectrum::count_bound`] when
+    /// that is costly. Default: `count_bound`.
+    fn tail_bound(&self, energy: &BigRational) -> BigUint {
+        self.count_bound(energy)
+    }
+
     /// Which quantum numbers a [`State`] stores doubled, because they can be
     /// half-integers (spin projections such as m_J = -1/2 are stored as -1).
     /// Default: none.

@@ -664,6 +664,61 @@ impl Spectrum for RovibDiatomic {
         Some(2.0)
     }
 
+    fn tail_bound(&self, energy: &BigRational) -> BigUint {
+        if energy < &self.ground {
+            return BigUint::zero();
+        }
+        let nv = self.vib.count_levels_up_to(energy);
+        if nv > BigInt::from(EXACT_COUNT_LEVELS) {
+            return self.count_bound(energy);
+        }
+        // For each bound v an upper bound on J_top(v) in floating point:
+        // the rotational room is inflated by a relative 1e-9 (far above
+        // f64 rounding of these few operations), the smaller root of
+        // B_v x − D x² = room is an upper bound on J(J+1) along the
+        // rising ladder, and two rungs are added; J never exceeds
+        // J_max(v). The result is never below the exact count, and the
+        // tail bound is evaluated many times per temperature, so this
+        // avoids exact searches there.
+        let nv = nv.to_u64().unwrap_or(0);
+        let f = |r: &BigRational| r.to_f64().unwrap_or(f64::INFINITY);
+        let (we, wexe, weye) = (f(self.vib.we()), f(self.vib.wexe()), f(self.vib.weye()));
+        let (be, alpha, d) = (f(&self.be), f(&self.alpha), f(&self.d));
+        let e = f(energy);
+        let mut n = BigUint::zero();
+        for v in 0..nv {
+            let u = v as f64 + 0.5;
+            let g = we * u - wexe * u * u + weye * u * u * u;
+            let room = (e - g).max(0.0) * (1.0 + 1e-9) + 1e-9 * (e.abs() + g.abs() + 1.0);
+            let b = (be - alpha * u) * (1.0 - 1e-9);
+            let x = if b <= 0.0 {
+                f64::INFINITY
+            } else if d > 0.0 {
+                let disc = b * b - 4.0 * d * room;
+                if disc > 0.0 {
+                    2.0 * room / (b + disc.sqrt())
+                } else {
+                    f64::INFINITY
+                }
+            } else {
+                room / b
+            };
+            let j_est = ((1.0 + 4.0 * x).sqrt() - 1.0) / 2.0 + 2.0;
+            let cap = self.jmax_big(&BigInt::from(v));
+            let j = match (BigInt::from_f64(j_est.floor()), cap) {
+                (Some(j), Some(c)) => j.min(c),
+                (Some(j), None) => j,
+                (None, Some(c)) => c,
+                (None, None) => match self.j_top(&BigInt::from(v), energy) {
+                    Some(j) => j,
+                    None => continue,
+                },
+            };
+            n += self.weighted_rungs(&j.to_biguint().unwrap_or_default());
+        }
+        n
+    }
+
     fn count_bound(&self, energy: &BigRational) -> BigUint {
         if energy < &self.ground {
             return BigUint::zero();
@@ -673,49 +728,12 @@ impl Spectrum for RovibDiatomic {
             // For each bound v the rungs J = 0..=J_top(v) are those with
             // E(v, J) ≤ E (E rises strictly along the listed ladder), holding
             // Σ (2J+1) g(J) states in closed form.
-            // For each bound v an upper bound on J_top(v) in floating point:
-            // the rotational room is inflated by a relative 1e-9 (far above
-            // f64 rounding of these few operations), the smaller root of
-            // B_v x − D x² = room is an upper bound on J(J+1) along the
-            // rising ladder, and two rungs are added; J never exceeds
-            // J_max(v). The result is never below the exact count, and the
-            // tail bound is evaluated many times per temperature, so this
-            // avoids exact searches there.
             let nv = nv.to_u64().unwrap_or(0);
-            let f = |r: &BigRational| r.to_f64().unwrap_or(f64::INFINITY);
-            let (we, wexe, weye) = (f(self.vib.we()), f(self.vib.wexe()), f(self.vib.weye()));
-            let (be, alpha, d) = (f(&self.be), f(&self.alpha), f(&self.d));
-            let e = f(energy);
             let mut n = BigUint::zero();
             for v in 0..nv {
-                let u = v as f64 + 0.5;
-                let g = we * u - wexe * u * u + weye * u * u * u;
-                let room = (e - g).max(0.0) * (1.0 + 1e-9) + 1e-9 * (e.abs() + g.abs() + 1.0);
-                let b = (be - alpha * u) * (1.0 - 1e-9);
-                let x = if b <= 0.0 {
-                    f64::INFINITY
-                } else if d > 0.0 {
-                    let disc = b * b - 4.0 * d * room;
-                    if disc > 0.0 {
-                        2.0 * room / (b + disc.sqrt())
-                    } else {
-                        f64::INFINITY
-                    }
-                } else {
-                    room / b
-                };
-                let j_est = ((1.0 + 4.0 * x).sqrt() - 1.0) / 2.0 + 2.0;
-                let cap = self.jmax_big(&BigInt::from(v));
-                let j = match (BigInt::from_f64(j_est.floor()), cap) {
-                    (Some(j), Some(c)) => j.min(c),
-                    (Some(j), None) => j,
-                    (None, Some(c)) => c,
-                    (None, None) => match self.j_top(&BigInt::from(v), energy) {
-                        Some(j) => j,
-                        None => continue,
-                    },
-                };
-                n += self.weighted_rungs(&j.to_biguint().unwrap_or_default());
+                if let Some(j) = self.j_top(&BigInt::from(v), energy) {
+                    n += self.weighted_rungs(&j.to_biguint().unwrap_or_default());
+                }
             }
             return n;
         }

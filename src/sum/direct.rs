@@ -142,7 +142,7 @@ fn stats_from(
                 let cutoff = &e0 + width;
                 let count = |x: f64| -> f64 {
                     match BigRational::from_float(x / beta_f) {
-                        Some(w) => s.count_bound(&(&e0 + w)).to_f64().unwrap_or(f64::INFINITY),
+                        Some(w) => s.tail_bound(&(&e0 + w)).to_f64().unwrap_or(f64::INFINITY),
                         None => f64::INFINITY,
                     }
                 };

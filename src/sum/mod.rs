@@ -17,7 +17,8 @@
 //! # The tail bound
 //! Levels are summed up to a cutoff `x_c`. Write `N(x)` for the number of
 //! states with `x_i ≤ x` and `B(x)` for the spectrum's rigorous upper bound
-//! [`Spectrum::count_bound`]. With `X_j = 2^j x_c`, the states in
+//! [`Spectrum::tail_bound`] (by default the counting bound
+//! [`Spectrum::count_bound`]). With `X_j = 2^j x_c`, the states in
 //! `(X_j, X_{j+1}]` number at most `B(X_{j+1})`, and on that interval
 //! `x^k e^{−x} ≤ X_{j+1}^k e^{−X_j}`, so for k = 0, 1, 2
 //!
@@ -424,6 +425,9 @@ impl Spectrum for Cached<'_> {
     }
     fn states_at(&self, energy: &BigRational) -> Result<Vec<crate::spectrum::State>> {
         self.inner.states_at(energy)
+    }
+    fn tail_bound(&self, energy: &BigRational) -> num_bigint::BigUint {
+        self.inner.tail_bound(energy)
     }
     fn count_bound(&self, energy: &BigRational) -> num_bigint::BigUint {
         self.inner.count_bound(energy)
