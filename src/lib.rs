@@ -41,6 +41,7 @@ pub mod error;
 pub mod exact;
 pub mod export;
 pub mod level;
+pub mod microstates;
 pub mod models;
 pub mod plot;
 pub mod report;

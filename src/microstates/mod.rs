@@ -1,0 +1,249 @@
+//! Exact counts for collections: vibrational state counts of polyatomic
+//! molecules (Beyer–Swinehart) and the Einstein solid.
+//!
+//! The Beyer–Swinehart algorithm counts the states of independent harmonic
+//! modes on an energy grid of width `grain`: starting from one state at zero
+//! energy, each mode of frequency `w` (in grains) adds `c[E] += c[E − w]`
+//! for E rising, which is the product of the modes' generating functions
+//! `1/(1 − x^w)` truncated at the cutoff. Frequencies are put on the grid by
+//! rounding to the nearest grain (common practice); the rounded values are
+//! reported. Counts are exact: machine integers with checked overflow,
+//! continued in big integers when a count outgrows them.
+
+use crate::error::{Error, Result};
+use crate::exact::{parse_rational, rational_string};
+use crate::spectrum::{human_bytes, Budget};
+use num_bigint::BigUint;
+use num_rational::BigRational;
+use num_traits::{Signed, ToPrimitive, Zero};
+
+/// One vibrational mode: a frequency (any energy unit, the same as the
+/// grain's) and how many modes share it.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct Mode {
+    /// The frequency.
+    pub frequency: BigRational,
+    /// Its degeneracy (number of modes with this frequency).
+    pub degeneracy: u32,
+}
+
+/// Reads `1000,1500x2,3000`: frequencies, each optionally `xN` for N
+/// degenerate modes.
+///
+/// ```
+/// let m = zsum::microstates::parse_modes("1000,1500x2").unwrap();
+/// assert_eq!(m.len(), 2);
+/// assert_eq!(m[1].degeneracy, 2);
+/// ```
+pub fn parse_modes(text: &str) -> Result<Vec<Mode>> {
+    let allowed = "frequencies separated by commas, each optionally xN for N degenerate modes, e.g. 1000,1500x2,3000";
+    let mut out = Vec::new();
+    for part in text.split(',') {
+        let part = part.trim();
+        let (f, d) = match part.split_once('x') {
+            Some((f, d)) => (
+                f,
+                d.trim()
+                    .parse::<u32>()
+                    .ok()
+                    .filter(|d| *d >= 1)
+                    .ok_or_else(|| Error::parse("--modes", text, allowed))?,
+            ),
+            None => (part, 1),
+        };
+        let frequency = parse_rational(f).map_err(|_| Error::parse("--modes", text, allowed))?;
+        if !frequency.is_positive() {
+            return Err(Error::invalid(
+                "mode frequency",
+                f,
+                "frequencies must be greater than zero",
+            ));
+        }
+        out.push(Mode {
+            frequency,
+            degeneracy: d,
+        });
+    }
+    Ok(out)
+}
+
+/// Exact numbers of states on a grid: `counts[k]` states with energy in the
+/// grain bin k (energy k·grain after rounding the frequencies).
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct StateCounts {
+    /// The grain.
+    pub grain: BigRational,
+    /// Each mode's frequency in grains after rounding, with its degeneracy.
+    pub rounded: Vec<(u64, u32)>,
+    /// States per bin, bins 0..=cutoff.
+    pub counts: Vec<BigUint>,
+}
+
+impl StateCounts {
+    /// The sum of states: states with energy at most bin k, for every k.
+    pub fn sums(&self) -> Vec<BigUint> {
+        let mut acc = BigUint::zero();
+        self.counts
+            .iter()
+            .map(|c| {
+                acc += c;
+                acc.clone()
+            })
+            .collect()
+    }
+}
+
+/// Counts on machine integers until one overflows.
+enum Cells {
+    Small(Vec<u128>),
+    Big(Vec<BigUint>),
+}
+
+/// The Beyer–Swinehart count of `modes` on a grid of `grain` up to
+/// `up_to` (same unit), refusing grids beyond `budget`.
+///
+/// ```
+/// use zsum::microstates::{beyer_swinehart, parse_modes};
+/// use zsum::exact::parse_rational;
+/// use zsum::spectrum::Budget;
+/// // Three identical modes of one grain: C(n + 2, 2) states at n grains.
+/// let c = beyer_swinehart(&parse_modes("1x3")?, &parse_rational("1")?,
+///                         &parse_rational("4")?, &Budget::default())?;
+/// let got: Vec<u32> = c.counts.iter().map(|x| x.try_into().unwrap()).collect();
+/// assert_eq!(got, [1, 3, 6, 10, 15]);
+/// # Ok::<(), zsum::Error>(())
+/// ```
+pub fn beyer_swinehart(
+    modes: &[Mode],
+    grain: &BigRational,
+    up_to: &BigRational,
+    budget: &Budget,
+) -> Result<StateCounts> {
+    if !grain.is_positive() {
+        return Err(Error::invalid(
+            "grain",
+            rational_string(grain),
+            "the energy grain must be greater than zero",
+        ));
+    }
+    if up_to.is_negative() {
+        return Err(Error::invalid(
+            "cutoff",
+            rational_string(up_to),
+            "the cutoff must be zero or above",
+        ));
+    }
+    if modes.is_empty() {
+        return Err(Error::invalid("modes", "none", "give at least one mode"));
+    }
+    let bins = (up_to / grain).floor().to_integer();
+    let n = bins
+        .to_u64()
+        .and_then(|b| usize::try_from(b).ok())
+        .and_then(|b| b.checked_add(1))
+        .ok_or_else(|| {
+            Error::budget(format!(
+                "a grid of {bins} grains is beyond any memory; use a coarser grain"
+            ))
+        })?;
+    let need = n as f64 * 16.0;
+    if need > budget.limit() as f64 {
+        return Err(Error::budget(format!(
+            "the count needs a grid of {n} bins, about {} (and more if counts outgrow 128 \
+             bits), over the memory budget of {}; use a coarser grain or a lower cutoff",
+            human_bytes(need),
+            human_bytes(budget.limit() as f64)
+        )));
+    }
+    let mut rounded = Vec::with_capacity(modes.len());
+    for m in modes {
+        let in_grains = (&m.frequency / grain).round().to_integer();
+        let w = in_grains.to_u64().filter(|w| *w > 0).ok_or_else(|| {
+            Error::invalid(
+                "mode frequency",
+                rational_string(&m.frequency),
+                &format!(
+                    "it rounds to {in_grains} grains of {}; frequencies must span at least \
+                     half a grain (use a finer grain)",
+                    rational_string(grain)
+                ),
+            )
+        })?;
+        rounded.push((w, m.degeneracy));
+    }
+    let mut cells = Cells::Small({
+        let mut v = vec![0u128; n];
+        v[0] = 1;
+        v
+    });
+    for &(w, d) in &rounded {
+        let w = w as usize;
+        for _ in 0..d {
+            if w >= n {
+                continue;
+            }
+            cells = match cells {
+                Cells::Small(mut v) => {
+                    let mut overflow = None;
+                    for e in w..n {
+                        match v[e].checked_add(v[e - w]) {
+                            Some(x) => v[e] = x,
+                            None => {
+                                overflow = Some(e);
+                                break;
+                            }
+                        }
+                    }
+                    match overflow {
+                        None => Cells::Small(v),
+                        Some(e0) => {
+                            // Continue this pass exactly from bin e0 in big integers.
+                            let mut b: Vec<BigUint> = v.iter().map(|x| BigUint::from(*x)).collect();
+                            for e in e0..n {
+                                let add = b[e - w].clone();
+                                b[e] += add;
+                            }
+                            Cells::Big(b)
+                        }
+                    }
+                }
+                Cells::Big(mut b) => {
+                    for e in w..n {
+                        let add = b[e - w].clone();
+                        b[e] += add;
+                    }
+                    Cells::Big(b)
+                }
+            };
+        }
+    }
+    let counts = match cells {
+        Cells::Small(v) => v.into_iter().map(BigUint::from).collect(),
+        Cells::Big(b) => b,
+    };
+    Ok(StateCounts {
+        grain: grain.clone(),
+        rounded,
+        counts,
+    })
+}
+
+/// The number of microstates of an Einstein solid: `n` oscillators sharing
+/// `q` quanta, C(q + n − 1, q) (standard result), exactly.
+///
+/// ```
+/// assert_eq!(zsum::microstates::einstein_solid(3, 4), 15u32.into());
+/// ```
+pub fn einstein_solid(n: u64, q: u64) -> BigUint {
+    if n == 0 {
+        return BigUint::from(u32::from(q == 0));
+    }
+    // C(q + n − 1, q) by the multiplicative formula, exact at every step.
+    let mut c = BigUint::from(1u32);
+    let k = q.min(n - 1);
+    let top = q + n - 1;
+    for i in 0..k {
+        c = c * BigUint::from(top - i) / BigUint::from(i + 1);
+    }
+    c
+}

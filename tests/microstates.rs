@@ -1,0 +1,122 @@
+//! Exact vibrational state counts and Einstein-solid microstates against
+//! binomial coefficients (Pascal's triangle, computed here) and brute force.
+
+use num_bigint::BigUint;
+use zsum::exact::parse_rational;
+use zsum::microstates::{beyer_swinehart, einstein_solid, parse_modes};
+use zsum::spectrum::Budget;
+
+fn r(s: &str) -> num_rational::BigRational {
+    parse_rational(s).unwrap()
+}
+
+/// Pascal's triangle up to row `n`: C(m, k) by additions only.
+fn pascal(n: usize) -> Vec<Vec<BigUint>> {
+    let mut rows: Vec<Vec<BigUint>> = vec![vec![BigUint::from(1u32)]];
+    for m in 1..=n {
+        let prev = &rows[m - 1];
+        let mut row = vec![BigUint::from(1u32); m + 1];
+        for k in 1..m {
+            row[k] = &prev[k - 1] + &prev[k];
+        }
+        rows.push(row);
+    }
+    rows
+}
+
+/// Omega(N, q) = C(q + N − 1, q) for an Einstein solid (standard result).
+#[test]
+fn einstein_solid_is_the_binomial_coefficient() {
+    let c = pascal(600);
+    for n in [1u64, 2, 3, 10, 50, 150, 300] {
+        for q in [0u64, 1, 2, 7, 100, 299] {
+            assert_eq!(
+                einstein_solid(n, q),
+                c[(q + n - 1) as usize][q as usize],
+                "N {n} q {q}"
+            );
+        }
+    }
+}
+
+/// s identical modes: C(n + s − 1, s − 1) states at n grains, through the
+/// overflow from 128-bit counters into big integers (s = 60, n to 400).
+#[test]
+fn identical_modes_give_binomials_past_machine_integers() {
+    let c = pascal(460);
+    for s in [1u32, 2, 5, 60] {
+        let counts = beyer_swinehart(
+            &parse_modes(&format!("1x{s}")).unwrap(),
+            &r("1"),
+            &r("400"),
+            &Budget::default(),
+        )
+        .unwrap();
+        for n in [0usize, 1, 17, 399, 400] {
+            let want = &c[n + s as usize - 1][s as usize - 1];
+            assert_eq!(&counts.counts[n], want, "s {s} n {n}");
+        }
+    }
+    assert!(einstein_solid(60, 400) > BigUint::from(u128::MAX));
+}
+
+/// Brute force: every tuple of quanta for a small mode set, binned by its
+/// energy on the grid.
+#[test]
+fn mixed_modes_match_brute_force() {
+    let freqs = [3u64, 5, 5, 7, 11];
+    let cutoff = 60usize;
+    let mut brute = vec![0u64; cutoff + 1];
+    fn go(i: usize, e: u64, freqs: &[u64], cutoff: usize, brute: &mut [u64]) {
+        if i == freqs.len() {
+            brute[e as usize] += 1;
+            return;
+        }
+        let mut e2 = e;
+        while e2 as usize <= cutoff {
+            go(i + 1, e2, freqs, cutoff, brute);
+            e2 += freqs[i];
+        }
+    }
+    go(0, 0, &freqs, cutoff, &mut brute);
+    // Frequencies in cm-1 on a 0.5 cm-1 grain: 1.5, 2.5 x2, 3.5, 5.5.
+    let counts = beyer_swinehart(
+        &parse_modes("1.5,2.5x2,3.5,5.5").unwrap(),
+        &r("0.5"),
+        &r("30"),
+        &Budget::default(),
+    )
+    .unwrap();
+    let got: Vec<u64> = counts
+        .counts
+        .iter()
+        .map(|c| c.try_into().unwrap())
+        .collect();
+    assert_eq!(got, brute);
+    assert_eq!(counts.rounded, [(3, 1), (5, 2), (7, 1), (11, 1)]);
+    let sums = counts.sums();
+    assert_eq!(
+        sums.last().unwrap(),
+        &BigUint::from(brute.iter().sum::<u64>())
+    );
+}
+
+#[test]
+fn bad_input_is_refused() {
+    let m = parse_modes("1000").unwrap();
+    let e = beyer_swinehart(&m, &r("0"), &r("10"), &Budget::default()).unwrap_err();
+    assert!(e.to_string().contains("grain"), "{e}");
+    let e = beyer_swinehart(
+        &parse_modes("0.2").unwrap(),
+        &r("1"),
+        &r("10"),
+        &Budget::default(),
+    )
+    .unwrap_err();
+    assert!(e.to_string().contains("rounds to 0 grains"), "{e}");
+    let e = beyer_swinehart(&m, &r("1"), &r("1e9"), &Budget::bytes(1 << 20)).unwrap_err();
+    assert!(e.to_string().contains("memory budget"), "{e}");
+    assert!(parse_modes("1000,x2").is_err());
+    assert!(parse_modes("1000x0").is_err());
+    assert!(parse_modes("-5").is_err());
+}
