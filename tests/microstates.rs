@@ -120,3 +120,38 @@ fn bad_input_is_refused() {
     assert!(parse_modes("1000x0").is_err());
     assert!(parse_modes("-5").is_err());
 }
+
+/// `zsum vibsum`: with modes 1000, 1500 (x2), 3000 cm-1 the bin at 3000 holds
+/// 5 states (3 quanta of 1000; 2 quanta shared by the 1500 pair in 3 ways;
+/// one of 3000), counted by hand.
+#[test]
+fn vibsum_cli_counts_and_refuses() {
+    let run = |args: &[&str]| {
+        std::process::Command::new(env!("CARGO_BIN_EXE_zsum"))
+            .args(args)
+            .output()
+            .unwrap()
+    };
+    let out = run(&[
+        "vibsum",
+        "--modes",
+        "1000,1500x2,3000",
+        "--unit",
+        "cm-1",
+        "--grain",
+        "1",
+        "--up-to",
+        "3000",
+        "--format",
+        "json",
+    ]);
+    assert!(out.status.success());
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let last = v["rows"].as_array().unwrap().last().unwrap().clone();
+    assert_eq!(last["energy"], "3000");
+    assert_eq!(last["count"], "5");
+    assert_eq!(last["sum"], "12");
+    let bad = run(&["vibsum", "--modes", "1000", "--grain", "0", "--up-to", "10"]);
+    assert_eq!(bad.status.code(), Some(2));
+    assert!(String::from_utf8_lossy(&bad.stderr).contains("grain 0"));
+}

@@ -74,6 +74,34 @@ pub enum Command {
         #[command(flatten)]
         opts: CompareArgs,
     },
+    /// Exact sums and densities of vibrational states of harmonic modes
+    /// (Beyer–Swinehart) on an energy grain.
+    Vibsum {
+        /// Frequencies, comma-separated, each optionally xN for N degenerate
+        /// modes, e.g. 1000,1500x2,3000.
+        #[arg(long, value_name = "LIST")]
+        modes: String,
+        /// Unit of the frequencies, grain and cutoff (a name for the output).
+        #[arg(long, value_name = "UNIT", default_value = "cm-1")]
+        unit: String,
+        /// The energy grain.
+        #[arg(
+            long,
+            value_name = "G",
+            default_value = "1",
+            allow_hyphen_values = true
+        )]
+        grain: String,
+        /// Highest energy counted.
+        #[arg(long, value_name = "E", allow_hyphen_values = true)]
+        up_to: String,
+        /// Refuse grids estimated to need more memory than this.
+        #[arg(long, value_name = "SIZE", default_value = "2GiB")]
+        memory_budget: String,
+        /// Output options.
+        #[command(flatten)]
+        out: Output,
+    },
     /// Built-in species: list them, or show one's constants with sources.
     Species {
         /// What to do.

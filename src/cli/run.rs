@@ -51,6 +51,24 @@ pub fn run(cli: Cli) -> Result<Option<String>> {
         Command::Crossover { model, opts } => crossover(model, opts),
         Command::Species { command } => species(command),
         Command::Hydrogen(a) => hydrogen(a),
+        Command::Vibsum {
+            modes,
+            unit,
+            grain,
+            up_to,
+            memory_budget,
+            out,
+        } => {
+            zsum::units::EnergyUnit::parse(&unit)?;
+            let c = zsum::microstates::beyer_swinehart(
+                &zsum::microstates::parse_modes(&modes)?,
+                &number("--grain", &grain)?,
+                &number("--up-to", &up_to)?,
+                &parse_budget(&memory_budget)?,
+            )?;
+            let report = zsum::microstates::VibsumReport::new(&c, &unit);
+            emit(render(&report, format(out.format))?, &out)
+        }
         Command::Report { out } => {
             let s = zsum::species::liquefier::write_report(&out)?;
             Ok(Some(s.lines.join("\n") + "\n"))

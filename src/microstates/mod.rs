@@ -247,3 +247,102 @@ pub fn einstein_solid(n: u64, q: u64) -> BigUint {
     }
     c
 }
+
+/// `zsum vibsum`: counts per grain, sums and densities of states.
+#[derive(Debug, Clone, serde::Serialize)]
+pub struct VibsumReport {
+    /// The energy unit.
+    pub unit: String,
+    /// The grain, exact.
+    pub grain: String,
+    /// Each mode in grains after rounding, with its degeneracy.
+    pub rounded_modes: Vec<(u64, u32)>,
+    /// One row per bin with at least one state.
+    pub rows: Vec<VibsumRow>,
+}
+
+/// One bin.
+#[derive(Debug, Clone, serde::Serialize)]
+pub struct VibsumRow {
+    /// Energy of the bin, exact (k · grain).
+    pub energy: String,
+    /// States in the bin.
+    pub count: String,
+    /// States with energy up to and including the bin.
+    pub sum: String,
+    /// Density of states: count / grain, per unit energy, exact rational.
+    pub density: String,
+}
+
+impl VibsumReport {
+    /// The report of `c` in `unit`; only bins with states are listed.
+    pub fn new(c: &StateCounts, unit: &str) -> Self {
+        let sums = c.sums();
+        let rows = c
+            .counts
+            .iter()
+            .enumerate()
+            .filter(|(_, n)| !n.is_zero())
+            .map(|(k, n)| VibsumRow {
+                energy: crate::exact::exact_decimal(
+                    &(&c.grain * BigRational::from_integer(k.into())),
+                    40,
+                ),
+                count: n.to_string(),
+                sum: sums[k].to_string(),
+                density: crate::exact::exact_decimal(
+                    &(BigRational::from_integer(n.clone().into()) / &c.grain),
+                    60,
+                ),
+            })
+            .collect();
+        VibsumReport {
+            unit: unit.to_string(),
+            grain: rational_string(&c.grain),
+            rounded_modes: c.rounded.clone(),
+            rows,
+        }
+    }
+}
+
+impl crate::export::Tabular for VibsumReport {
+    fn preamble(&self) -> Vec<String> {
+        vec![
+            format!(
+                "Beyer–Swinehart exact state counts, grain {} {}; modes in grains (degeneracy): {}",
+                self.grain,
+                self.unit,
+                self.rounded_modes
+                    .iter()
+                    .map(|(w, d)| format!("{w}({d})"))
+                    .collect::<Vec<_>>()
+                    .join(", ")
+            ),
+            format!(
+                "count = states in the bin; sum = states up to it; density = count/grain per {}",
+                self.unit
+            ),
+        ]
+    }
+    fn columns(&self) -> Vec<String> {
+        vec![
+            format!("E ({})", self.unit),
+            "count".into(),
+            "sum".into(),
+            format!("density (per {})", self.unit),
+        ]
+    }
+    fn rows(&self) -> Vec<Vec<String>> {
+        self.rows
+            .iter()
+            .map(|r| {
+                vec![
+                    r.energy.clone(),
+                    r.count.clone(),
+                    r.sum.clone(),
+                    r.density.clone(),
+                ]
+            })
+            .collect()
+    }
+}
