@@ -114,10 +114,16 @@ impl HydrogenTable {
                 oo.isomer = Some(iso);
                 molar_with(sp, &cached, t, &oo)
             };
-            let chosen = at(isomer.clone())?;
             let normal = at(Isomer::Normal)?;
             let eq = at(Isomer::Equilibrium)?;
             let para = at(Isomer::Para)?;
+            // The chosen state is usually one of the three curves: reuse it.
+            let chosen = match isomer {
+                Isomer::Normal => normal.clone(),
+                Isomer::Equilibrium => eq.clone(),
+                Isomer::Para => para.clone(),
+                other => at(other.clone())?,
+            };
             let ip = isomer_parts(sp, &cached, t, digits)?;
             let rt = Float::with_val(p, &r * super::molar::fl(p, t));
             let (wo, wp) = (ip.w_ortho, ip.w_para);

@@ -10,7 +10,7 @@ use crate::spectrum::Spectrum;
 use crate::sum::{float_to_decimal, thermo, Cached, Temperature};
 use crate::units::constants;
 use num_rational::BigRational;
-use num_traits::{One, Signed, Zero};
+use num_traits::{One, Signed};
 use rug::Float;
 use serde::Serialize;
 
@@ -259,7 +259,6 @@ fn translation(m: &BigRational, t: &BigRational, o: &MolarOptions) -> Result<Par
         }
         Translation::Box(side) => {
             let b = ParticleInBox::cube(3)?.with_scale(m, side);
-            let zero = BigRational::zero();
             let point = thermo(&b, &Temperature::Kelvin(t.clone()), o.digits + GUARD)?;
             let ln_qb = parse(p, &point.ln_q)?;
             let u = parse(p, &point.u_over_kt)?;
@@ -271,7 +270,6 @@ fn translation(m: &BigRational, t: &BigRational, o: &MolarOptions) -> Result<Par
             let v = side * side * side;
             let ln_n = fl(p, &(&o.pressure * v / &kt)).ln();
             let ln_q = Float::with_val(p, &ln_qb - &ln_n);
-            let _ = zero;
             Ok(Part {
                 s: Float::with_val(p, &ln_q + &u) + 1u32,
                 h: Float::with_val(p, &u - &e0) + 1u32,
