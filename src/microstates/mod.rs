@@ -10,6 +10,14 @@
 //! reported. Counts are exact: machine integers with checked overflow,
 //! continued in big integers when a count outgrows them.
 
+mod collection;
+mod ensemble;
+pub use collection::{
+    check_particles, count_on_grid, microstates, table_bytes, Grid, Omega, Statistics,
+    MAX_PARTICLES,
+};
+pub use ensemble::{ensemble_point, EnsemblePoint};
+
 use crate::error::{Error, Result};
 use crate::exact::{parse_rational, rational_string};
 use crate::spectrum::{human_bytes, Budget};

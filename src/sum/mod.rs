@@ -148,15 +148,15 @@ impl Temperature {
 #[derive(Debug, Clone)]
 pub(crate) struct Stats {
     /// ln q (true, not shifted).
-    ln_q: Float,
+    pub(crate) ln_q: Float,
     /// U/kT.
-    u: Float,
+    pub(crate) u: Float,
     /// Cv/k.
-    cv: Float,
+    pub(crate) cv: Float,
     /// Absolute error bounds of ln q, U/kT and Cv/k.
-    err_ln_q: f64,
-    err_u: f64,
-    err_cv: f64,
+    pub(crate) err_ln_q: f64,
+    pub(crate) err_u: f64,
+    pub(crate) err_cv: f64,
 }
 
 impl Stats {
@@ -172,7 +172,7 @@ impl Stats {
 }
 
 /// Working precision in bits for a target relative error `eps`.
-fn precision_for(digits: u32, attempt: u32) -> u32 {
+pub(crate) fn precision_for(digits: u32, attempt: u32) -> u32 {
     (digits as f64 * std::f64::consts::LOG2_10).ceil() as u32 + 64 + 32 * attempt
 }
 
@@ -186,7 +186,7 @@ pub enum Path {
     Direct,
 }
 
-fn stats_of(s: &dyn Spectrum, beta: &BigRational, eps: f64, prec: u32) -> Result<Stats> {
+pub(crate) fn stats_of(s: &dyn Spectrum, beta: &BigRational, eps: f64, prec: u32) -> Result<Stats> {
     stats_path(s, beta, eps, prec, Path::Auto)
 }
 

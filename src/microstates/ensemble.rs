@@ -1,0 +1,480 @@
+//! Canonical partition functions Q_N of N ideal particles in one
+//! single-particle spectrum, exactly, and their comparison with the
+//! Boltzmann-counted q^N/N! and the labelled q^N.
+//!
+//! For bosons (+) and fermions (−) the recursion over the cycle structure of
+//! permutations (standard result)
+//!
+//! ```text
+//! Q_0 = 1,   Q_N = (1/N) Σ_{k=1}^{N} (±1)^{k+1} q(kβ) Q_{N−k}
+//! ```
+//!
+//! gives Q_N from the one-particle sums q(kβ), which the engine computes
+//! with rigorous bounds. The recursion is carried in ball arithmetic (each
+//! value with a bound on its error, rounded outward) on second-order jets
+//! in β (value, β·d/dβ, β²·d²/dβ²), so U/kT = −β Q'/Q and
+//! Cv/k = β² (Q''/Q − (Q'/Q)²) come with bounds too. Energies are measured
+//! from N·ε₀ inside the recursion, so nothing overflows.
+//!
+//! The fermion sum alternates and cancels: when the bound on a result is
+//! too wide for the requested digits, the whole computation is repeated
+//! with the working precision raised by the bits the cancellation cost
+//! (Ziv's strategy); the precision used and the bits lost are reported.
+
+use super::collection::{check_particles, Statistics};
+use crate::error::{Error, Result};
+use crate::spectrum::Spectrum;
+use crate::sum::{float_to_decimal, precision_for, stats_of, to_rug, Stats, Temperature};
+use num_rational::BigRational;
+use rug::float::Round;
+use rug::Float;
+use serde::Serialize;
+
+/// Precision of error radii, in bits.
+const RP: u32 = 64;
+
+/// A value with a bound on its error.
+#[derive(Debug, Clone)]
+struct Ball {
+    c: Float,
+    r: Float,
+}
+
+fn up_add(a: &Float, b: &Float) -> Float {
+    Float::with_val_round(RP, a + b, Round::Up).0
+}
+
+fn up_mul(a: &Float, b: &Float) -> Float {
+    Float::with_val_round(RP, a * b, Round::Up).0
+}
+
+fn mag(x: &Float) -> Float {
+    Float::with_val_round(RP, &*x.as_abs(), Round::Up).0
+}
+
+impl Ball {
+    fn exact(c: Float) -> Ball {
+        Ball {
+            c,
+            r: Float::new(RP),
+        }
+    }
+
+    /// Adds the rounding error of a result at its own precision.
+    fn rounded(c: Float, r: Float) -> Ball {
+        let p = c.prec();
+        let ulp = mag(&c) >> p;
+        Ball {
+            r: up_add(&r, &ulp),
+            c,
+        }
+    }
+
+    fn add(&self, o: &Ball) -> Ball {
+        let p = self.c.prec().max(o.c.prec());
+        Ball::rounded(Float::with_val(p, &self.c + &o.c), up_add(&self.r, &o.r))
+    }
+
+    fn neg(&self) -> Ball {
+        Ball {
+            c: Float::with_val(self.c.prec(), -&self.c),
+            r: self.r.clone(),
+        }
+    }
+
+    fn mul(&self, o: &Ball) -> Ball {
+        let p = self.c.prec().max(o.c.prec());
+        let r = up_add(
+            &up_add(&up_mul(&mag(&self.c), &o.r), &up_mul(&self.r, &mag(&o.c))),
+            &up_mul(&self.r, &o.r),
+        );
+        Ball::rounded(Float::with_val(p, &self.c * &o.c), r)
+    }
+
+    fn div_int(&self, n: u64) -> Ball {
+        let d = Float::with_val(RP, n);
+        let r = Float::with_val_round(RP, &self.r / &d, Round::Up).0;
+        Ball::rounded(Float::with_val(self.c.prec(), &self.c / n), r)
+    }
+
+    /// `self / o`; `None` if the divisor's ball holds zero.
+    fn div(&self, o: &Ball) -> Option<Ball> {
+        let bc = mag(&o.c);
+        let low = Float::with_val_round(RP, &bc - &o.r, Round::Down).0;
+        if low <= 0 {
+            return None;
+        }
+        // |a/b − ac/bc| ≤ (|ac| rb + ra |bc|) / (|bc| (|bc| − rb)).
+        let num = up_add(&up_mul(&mag(&self.c), &o.r), &up_mul(&self.r, &bc));
+        let den = Float::with_val_round(RP, &bc * &low, Round::Down).0;
+        let r = Float::with_val_round(RP, &num / &den, Round::Up).0;
+        let p = self.c.prec().max(o.c.prec());
+        Some(Ball::rounded(Float::with_val(p, &self.c / &o.c), r))
+    }
+
+    /// ln of a positive ball; `None` if the ball reaches zero.
+    fn ln(&self) -> Option<Ball> {
+        if self.c <= 0 {
+            return None;
+        }
+        let rel = Float::with_val_round(RP, &self.r / &self.c, Round::Up).0;
+        if rel >= 0.5 {
+            return None;
+        }
+        // |ln(c + δ) − ln c| ≤ −ln(1 − rel) ≤ rel / (1 − rel) ≤ 2 rel.
+        let r = up_mul(&rel, &Float::with_val(RP, 2));
+        Some(Ball::rounded(
+            Float::with_val(self.c.prec(), self.c.ln_ref()),
+            r,
+        ))
+    }
+
+    fn err(&self) -> f64 {
+        self.r.to_f64_round(Round::Up)
+    }
+}
+
+/// f, β f' and β² f'' of a function of β.
+#[derive(Debug, Clone)]
+struct Jet([Ball; 3]);
+
+impl Jet {
+    fn mul(&self, o: &Jet) -> Jet {
+        let [a0, a1, a2] = &self.0;
+        let [b0, b1, b2] = &o.0;
+        let two = Ball::exact(Float::with_val(RP, 2));
+        Jet([
+            a0.mul(b0),
+            a1.mul(b0).add(&a0.mul(b1)),
+            a2.mul(b0).add(&two.mul(&a1.mul(b1))).add(&a0.mul(b2)),
+        ])
+    }
+
+    fn add(&self, o: &Jet) -> Jet {
+        Jet([
+            self.0[0].add(&o.0[0]),
+            self.0[1].add(&o.0[1]),
+            self.0[2].add(&o.0[2]),
+        ])
+    }
+
+    fn neg(&self) -> Jet {
+        Jet([self.0[0].neg(), self.0[1].neg(), self.0[2].neg()])
+    }
+
+    fn div_int(&self, n: u64) -> Jet {
+        Jet([
+            self.0[0].div_int(n),
+            self.0[1].div_int(n),
+            self.0[2].div_int(n),
+        ])
+    }
+}
+
+/// The canonical N-particle results at one temperature, in floating point
+/// with error bounds, before printing.
+#[derive(Debug, Clone)]
+pub(crate) struct Canonical {
+    /// ln Q_N, U/kT, Cv/k of the N-particle system.
+    pub ln_q: Ball2,
+    pub u: Ball2,
+    pub cv: Ball2,
+    /// One-particle ln q, U/kT, Cv/k at β.
+    pub one: Stats,
+    /// Working precision (bits) and bits lost to cancellation.
+    pub prec: u32,
+    pub lost_bits: u32,
+}
+
+/// A ball exposed to the rest of the crate: centre and error bound.
+#[derive(Debug, Clone)]
+pub(crate) struct Ball2 {
+    pub c: Float,
+    pub err: f64,
+}
+
+impl From<Ball> for Ball2 {
+    fn from(b: Ball) -> Self {
+        Ball2 {
+            err: b.err(),
+            c: b.c,
+        }
+    }
+}
+
+/// The one-particle jet q̃(kβ) (energies from ε₀) with its bounds.
+fn one_particle_jet(st: &Stats, shift: &BigRational, prec: u32) -> Jet {
+    // shift = kβ ε₀: ln q̃ = ln q + kβε₀, Ũ/kT = U/kT − kβε₀.
+    let sh = Float::with_val(prec, to_rug(shift));
+    let sh_err = mag(&sh) >> prec;
+    let ln_qt = Float::with_val(prec, &st.ln_q + &sh);
+    let d_ln = st.err_ln_q + sh_err.to_f64_round(Round::Up);
+    let qc = Float::with_val(prec, ln_qt.exp_ref());
+    // e^δ − 1 ≤ 2δ for δ ≤ 1; beyond that the ball is hopeless anyway.
+    let rel = if d_ln <= 1.0 {
+        2.0 * d_ln * (1.0 + 1e-12)
+    } else {
+        d_ln.exp() * 2.0
+    };
+    let q = Ball::rounded(qc.clone(), up_mul(&mag(&qc), &Float::with_val(RP, rel)));
+    let u = Ball::rounded(
+        Float::with_val(prec, &st.u - &sh),
+        up_add(&Float::with_val(RP, st.err_u), &sh_err),
+    );
+    let cv = Ball::rounded(st.cv.clone(), Float::with_val(RP, st.err_cv));
+    let d = q.mul(&u).neg();
+    let dd = q.mul(&u.mul(&u).add(&cv));
+    Jet([q, d, dd])
+}
+
+/// Q_N and its derivatives at 1/kT = `beta` (in the spectrum's unit).
+pub(crate) fn canonical_at(
+    spectrum: &dyn Spectrum,
+    n: u64,
+    stats: Statistics,
+    beta: &BigRational,
+    digits: u32,
+) -> Result<Canonical> {
+    check_particles(n)?;
+    let e0 = spectrum.ground_energy();
+    if stats == Statistics::Distinct {
+        // Q = q^N exactly: ln Q = N ln q, and so on.
+        let prec = precision_for(digits, 0);
+        let eps = 10f64.powi(-(digits as i32) - 6);
+        let one = stats_of(spectrum, beta, eps, prec)?;
+        let times_n = |x: &Float, e: f64| Ball2 {
+            c: Float::with_val(prec, x * n),
+            err: e * n as f64 * (1.0 + 1e-12)
+                + x.to_f64().abs() * n as f64 * 2f64.powi(-(prec as i32) + 1),
+        };
+        return Ok(Canonical {
+            ln_q: times_n(&one.ln_q, one.err_ln_q),
+            u: times_n(&one.u, one.err_u),
+            cv: times_n(&one.cv, one.err_cv),
+            one,
+            prec,
+            lost_bits: 0,
+        });
+    }
+    let mut lost = 0u32;
+    let mut last = None;
+    for attempt in 0..5u32 {
+        let prec = precision_for(digits, attempt) + lost;
+        // Each q(kβ) must carry the cancellation's loss too.
+        let eps = (10f64.powi(-(digits as i32) - 6 - 8 * attempt as i32)
+            * 2f64.powi(-(lost as i32)))
+        .max(1e-300);
+        let one = stats_of(spectrum, beta, eps, prec)?;
+        let base_shift = beta * &e0 * BigRational::from_integer(n.into()); // Nβε₀
+        let mut qs: Vec<Jet> = Vec::with_capacity(n as usize);
+        qs.push(one_particle_jet(&one, &(beta * &e0), prec));
+        for k in 2..=n {
+            let kb = beta * BigRational::from_integer(k.into());
+            let st = stats_of(spectrum, &kb, eps, prec)?;
+            qs.push(one_particle_jet(&st, &(&kb * &e0), prec));
+        }
+        let (q_n, lost_now) = recursion(&qs, stats, prec);
+        let [v, d1, d2] = q_n.0;
+        let shift = Float::with_val(prec, to_rug(&base_shift));
+        let shift_b = Ball::rounded(shift, Float::new(RP));
+        let ok = (|| {
+            let ln_qt = v.ln()?;
+            let m1 = d1.div(&v)?;
+            let m2 = d2.div(&v)?;
+            let ln_q = ln_qt.add(&shift_b.neg());
+            let u = m1.neg().add(&shift_b);
+            let cv = m2.add(&m1.mul(&m1).neg());
+            Some((ln_q, u, cv))
+        })();
+        let target = 10f64.powi(-(digits as i32) - 2);
+        if let Some((ln_q, u, cv)) = ok {
+            let good = b_ok(&ln_q, target) && b_ok(&u, target) && b_ok(&cv, target);
+            let out = Canonical {
+                ln_q: ln_q.into(),
+                u: u.into(),
+                cv: cv.into(),
+                one,
+                prec,
+                lost_bits: lost_now,
+            };
+            if good {
+                return Ok(out);
+            }
+            last = Some(out);
+        }
+        lost = lost.max(lost_now) + 16;
+    }
+    last.ok_or_else(|| {
+        Error::invalid(
+            "temperature",
+            crate::exact::rational_string(&beta.recip()),
+            "the fermion sum cancels beyond 5 rounds of raised precision here; give fewer \
+             particles or a higher temperature",
+        )
+    })
+}
+
+fn b_ok(b: &Ball, target: f64) -> bool {
+    b.err() < target * b.c.to_f64().abs().max(1.0)
+}
+
+/// Runs the recursion on the one-particle jets q̃(kβ), k = 1..=N; returns
+/// Q̃_N and the bits lost to cancellation (largest over n of
+/// log₂(Σ|terms| / |Q̃_n|)).
+fn recursion(qs: &[Jet], stats: Statistics, prec: u32) -> (Jet, u32) {
+    let one = Jet([
+        Ball::exact(Float::with_val(prec, 1)),
+        Ball::exact(Float::new(prec)),
+        Ball::exact(Float::new(prec)),
+    ]);
+    let mut q: Vec<Jet> = vec![one];
+    let mut lost = 0f64;
+    for m in 1..=qs.len() {
+        let mut acc: Option<Jet> = None;
+        let mut abs_sum = Float::new(RP);
+        for k in 1..=m {
+            let t = qs[k - 1].mul(&q[m - k]);
+            abs_sum = up_add(&abs_sum, &mag(&t.0[0].c));
+            let t = if stats == Statistics::Fermi && k % 2 == 0 {
+                t.neg()
+            } else {
+                t
+            };
+            acc = Some(match acc {
+                None => t,
+                Some(a) => a.add(&t),
+            });
+        }
+        let next = acc.expect("m ≥ 1 terms").div_int(m as u64);
+        let v = next.0[0].c.to_f64().abs() * m as f64;
+        if v > 0.0 {
+            let l = (abs_sum.to_f64() / v).log2();
+            if l.is_finite() {
+                lost = lost.max(l);
+            }
+        } else if !abs_sum.is_zero() {
+            lost = lost.max(prec as f64);
+        }
+        q.push(next);
+    }
+    (q.pop().expect("Q_N"), lost.ceil().max(0.0) as u32)
+}
+
+/// One temperature of `zsum ensemble`: the N-particle functions and the
+/// Boltzmann and labelled approximations' errors.
+#[derive(Debug, Clone, Serialize)]
+pub struct EnsemblePoint {
+    /// The temperature as given.
+    #[serde(rename = "T")]
+    pub t: String,
+    /// ln Q_N, exact statistics.
+    pub ln_q: String,
+    /// U/kT of the N particles.
+    #[serde(rename = "U_over_kT")]
+    pub u_over_kt: String,
+    /// Cv/k of the N particles.
+    #[serde(rename = "Cv_over_k")]
+    pub cv_over_k: String,
+    /// S/k of the N particles.
+    #[serde(rename = "S_over_k")]
+    pub s_over_k: String,
+    /// ln(q^N/N!).
+    pub ln_q_boltzmann: String,
+    /// ln(q^N).
+    pub ln_q_labelled: String,
+    /// (q^N/N!)/Q_N − 1.
+    pub boltzmann_error_q: String,
+    /// Relative error of U from q^N/N! (or q^N: the same).
+    pub boltzmann_error_u: String,
+    /// Relative error of Cv from q^N/N! (or q^N: the same).
+    pub boltzmann_error_cv: String,
+    /// S/k from q^N/N! minus the exact S/k.
+    pub boltzmann_error_s: String,
+    /// q^N/Q_N − 1.
+    pub labelled_error_q: String,
+    /// Working precision, bits.
+    pub precision_bits: u32,
+    /// Bits the alternating fermion sum cancelled.
+    pub cancelled_bits: u32,
+    /// Whether every exact value's digits are proved.
+    pub certified: bool,
+}
+
+/// Q_N, U, Cv and S of `n` particles of `stats` in `spectrum` at
+/// `temperature`, to `digits` certified digits, with the errors of q^N/N!
+/// and q^N.
+///
+/// ```
+/// use zsum::microstates::{ensemble_point, Statistics};
+/// use zsum::models::oscillator::HarmonicModes;
+/// use zsum::exact::parse_rational;
+/// use zsum::sum::Temperature;
+/// use zsum::units::EnergyUnit;
+/// // Two bosons in a harmonic trap: Q_2 = 1/((1 − x)(1 − x²)), x = e^{−1}.
+/// let trap = HarmonicModes::one_d(parse_rational("1")?, false, EnergyUnit::Kelvin)?;
+/// let p = ensemble_point(&trap, 2, Statistics::Bose, &Temperature::Kelvin(parse_rational("1")?), 12)?;
+/// let x = (-1f64).exp();
+/// let want = -((1.0 - x) * (1.0 - x * x)).ln();
+/// assert!((p.ln_q.parse::<f64>().unwrap() - want).abs() < 1e-11);
+/// # Ok::<(), zsum::Error>(())
+/// ```
+pub fn ensemble_point(
+    spectrum: &dyn Spectrum,
+    n: u64,
+    stats: Statistics,
+    temperature: &Temperature,
+    digits: u32,
+) -> Result<EnsemblePoint> {
+    if !(1..=60).contains(&digits) {
+        return Err(Error::invalid(
+            "digits",
+            digits,
+            "choose between 1 and 60 significant digits",
+        ));
+    }
+    let beta = temperature.beta(&spectrum.unit())?;
+    let c = canonical_at(spectrum, n, stats, &beta, digits)?;
+    let p = c.prec;
+    let s = Float::with_val(p, &c.ln_q.c + &c.u.c);
+    let (ln_q, ok1) = float_to_decimal(&c.ln_q.c, c.ln_q.err, 0.0, digits);
+    let (u, ok2) = float_to_decimal(&c.u.c, c.u.err, 0.0, digits);
+    let (cv, ok3) = float_to_decimal(&c.cv.c, c.cv.err, 0.0, digits);
+    let (s_t, ok4) = float_to_decimal(&s, c.ln_q.err + c.u.err, 0.0, digits);
+    let nf = Float::with_val(p, n);
+    let ln_fact = Float::with_val(p, Float::with_val(p, n + 1).ln_gamma_ref());
+    let ln_lab = Float::with_val(p, &c.one.ln_q * &nf);
+    let ln_b = Float::with_val(p, &ln_lab - &ln_fact);
+    let u_b = Float::with_val(p, &c.one.u * &nf);
+    let cv_b = Float::with_val(p, &c.one.cv * &nf);
+    let rel = |a: &Float, b: &Float| -> Float {
+        if b.is_zero() {
+            Float::with_val(p, f64::NAN)
+        } else {
+            Float::with_val(p, Float::with_val(p, a - b) / b)
+        }
+    };
+    let ratm1 =
+        |ln_a: &Float| Float::with_val(p, Float::with_val(p, ln_a - &c.ln_q.c).exp_m1_ref());
+    let s_b = Float::with_val(p, &ln_b + &u_b);
+    let et = crate::classical::error_text;
+    let t_text = match temperature {
+        Temperature::Kelvin(t) | Temperature::Reduced(t) => crate::exact::exact_decimal(t, 40),
+    };
+    Ok(EnsemblePoint {
+        t: t_text,
+        ln_q,
+        u_over_kt: u,
+        cv_over_k: cv,
+        s_over_k: s_t,
+        ln_q_boltzmann: crate::classical::value_text(&ln_b, digits),
+        ln_q_labelled: crate::classical::value_text(&ln_lab, digits),
+        boltzmann_error_q: et(&ratm1(&ln_b)),
+        boltzmann_error_u: et(&rel(&u_b, &c.u.c)),
+        boltzmann_error_cv: et(&rel(&cv_b, &c.cv.c)),
+        boltzmann_error_s: et(&Float::with_val(p, &s_b - &s)),
+        labelled_error_q: et(&ratm1(&ln_lab)),
+        precision_bits: p,
+        cancelled_bits: c.lost_bits,
+        certified: ok1 && ok2 && ok3 && ok4,
+    })
+}
