@@ -58,3 +58,28 @@ fn zsum_agrees_with_the_mpmath_oracle_to_30_digits() {
     );
     println!("{stdout}");
 }
+
+#[test]
+fn ensemble_agrees_with_an_mpmath_recursion_to_20_digits() {
+    // tests/crosscheck/ensemble_oracle.py: bosons and fermions (N = 10, 50)
+    // in an isotropic 3D harmonic trap, Q_N by the cycle recursion in mpmath
+    // at 80 digits; zsum's 20 printed digits must be correctly rounded.
+    let dir = Path::new(env!("CARGO_MANIFEST_DIR"));
+    let out = Command::new("python3")
+        .arg(dir.join("tests/crosscheck/ensemble_oracle.py"))
+        .arg(env!("CARGO_BIN_EXE_zsum"))
+        .arg(dir.join("examples/systems/atom_trap.toml"))
+        .output()
+        .expect("failed to start python3 on tests/crosscheck/ensemble_oracle.py");
+    let stdout = String::from_utf8_lossy(&out.stdout);
+    assert!(
+        out.status.success(),
+        "{stdout}\n{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    assert_eq!(
+        stdout.lines().filter(|l| l.starts_with("PASS")).count(),
+        12,
+        "{stdout}"
+    );
+}

@@ -47,6 +47,7 @@ use rug::Float;
 use serde::Serialize;
 
 pub use compare::{compare, ApproxRow, CompareReport, CompareRow};
+pub(crate) use search::bisect;
 pub use search::{crossovers, Crossing, CrossoverReport, SearchRange};
 
 /// The structure of a model's classical limit: what its approximations

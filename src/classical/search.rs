@@ -133,6 +133,36 @@ fn exceeds(
     }
 }
 
+/// Narrows a bracket `[cold, hot]` of temperatures whose ends lie on
+/// different sides of a tolerance (`cold_state` is the cold end's) by
+/// bisection in ln T until both ends give the same `key` (their printed
+/// digits); returns the cold end.
+pub(crate) fn bisect<K: PartialEq>(
+    mut cold: BigRational,
+    mut hot: BigRational,
+    cold_state: bool,
+    key: impl Fn(&BigRational) -> K,
+    mut state: impl FnMut(&BigRational) -> Result<bool>,
+) -> Result<BigRational> {
+    for _ in 0..200 {
+        if key(&cold) == key(&hot) {
+            break;
+        }
+        let (a, b) = (cold.to_f64().unwrap_or(0.0), hot.to_f64().unwrap_or(0.0));
+        let mut mid = rational_of((a * b).sqrt());
+        if mid <= cold || mid >= hot {
+            // f64 exhausted: halve exactly.
+            mid = (&cold + &hot) / BigRational::from_integer(2.into());
+        }
+        if state(&mid)? == cold_state {
+            cold = mid;
+        } else {
+            hot = mid;
+        }
+    }
+    Ok(cold)
+}
+
 fn rational_of(x: f64) -> BigRational {
     BigRational::from_float(x).unwrap_or_else(|| BigRational::from_integer(1.into()))
 }
@@ -209,35 +239,20 @@ pub fn crossovers(
         if states[i].0 == states[i + 1].0 {
             continue;
         }
-        let (mut cold, mut hot) = (grid[i + 1].clone(), grid[i].clone());
         let cold_state = states[i + 1].0;
-        let mut settled = None;
-        for _ in 0..200 {
-            let key = |x: &BigRational| {
-                (
-                    format_sig(x, digits),
-                    theta_k.as_ref().map(|k| format_sig(&(x * k), digits)),
-                )
-            };
-            if key(&cold) == key(&hot) {
-                settled = Some(cold.clone());
-                break;
-            }
-            let (a, b) = (cold.to_f64().unwrap_or(0.0), hot.to_f64().unwrap_or(0.0));
-            let mid_f = (a * b).sqrt();
-            let mut mid = rational_of(mid_f);
-            if mid <= cold || mid >= hot {
-                // f64 exhausted: halve exactly.
-                mid = (&cold + &hot) / BigRational::from_integer(2.into());
-            }
-            let (s, _) = exceeds(&c, index, quantity, &tol_f, &mid)?;
-            if s == cold_state {
-                cold = mid;
-            } else {
-                hot = mid;
-            }
-        }
-        let x = settled.unwrap_or(cold);
+        let key = |x: &BigRational| {
+            (
+                format_sig(x, digits),
+                theta_k.as_ref().map(|k| format_sig(&(x * k), digits)),
+            )
+        };
+        let x = bisect(
+            grid[i + 1].clone(),
+            grid[i].clone(),
+            cold_state,
+            key,
+            |mid| Ok(exceeds(&c, index, quantity, &tol_f, mid)?.0),
+        )?;
         let kt = &x * c.theta();
         crossings.push(Crossing {
             t: theta_k.as_ref().map(|k| format_sig(&(&x * k), digits)),

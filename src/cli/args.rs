@@ -102,6 +102,15 @@ pub enum Command {
         #[command(flatten)]
         out: Output,
     },
+    /// Exact microstate counts Ω(E, N) of N particles (labelled, bosons or
+    /// fermions) in one spectrum for every total energy up to a cutoff, with
+    /// S = k ln Ω, the microcanonical temperature and the canonical
+    /// comparison. Give --system FILE, or --einstein for an Einstein solid.
+    Microstates(MicrostatesArgs),
+    /// Canonical N-particle partition functions Q_N of ideal bosons or
+    /// fermions over a temperature grid, exactly, against q^N/N! and q^N,
+    /// with where q^N/N! fails.
+    Ensemble(EnsembleArgs),
     /// Built-in species: list them, or show one's constants with sources.
     Species {
         /// What to do.
@@ -984,4 +993,77 @@ mod tests {
     fn parser_definition_is_consistent() {
         Cli::command().debug_assert();
     }
+}
+
+/// `zsum microstates`.
+#[derive(Debug, Args)]
+pub struct MicrostatesArgs {
+    /// A system file (TOML) giving the single-particle spectrum.
+    #[arg(long, value_name = "FILE", required_unless_present = "einstein")]
+    pub system: Option<PathBuf>,
+    /// An Einstein solid instead: N labelled oscillators, energies in
+    /// quanta ħω (--up-to is the number of quanta).
+    #[arg(long, conflicts_with_all = ["system", "stats", "grid"])]
+    pub einstein: bool,
+    /// Number of particles (1 to 1000).
+    #[arg(long, value_name = "N")]
+    pub particles: u64,
+    /// Statistics: bose, fermi or distinct (labelled).
+    #[arg(long, value_name = "STATS", required_unless_present = "einstein")]
+    pub stats: Option<String>,
+    /// Highest total energy counted, in the system's unit or with a unit.
+    #[arg(long, value_name = "E", allow_hyphen_values = true)]
+    pub up_to: String,
+    /// The energy grid step (every level above the ground must be a whole
+    /// number of steps); default: the levels' common divisor.
+    #[arg(long, value_name = "STEP", allow_hyphen_values = true)]
+    pub grid: Option<String>,
+    /// Number of energies at which to compare with the canonical ensemble.
+    #[arg(long, value_name = "K", default_value_t = 8)]
+    pub compare: usize,
+    /// Significant digits of S/k, kT and the canonical values.
+    #[arg(long, value_name = "N", default_value_t = 12)]
+    pub digits: u32,
+    /// Refuse tables estimated to need more memory than this.
+    #[arg(long, value_name = "SIZE", default_value = "2GiB")]
+    pub memory_budget: String,
+    /// Output options.
+    #[command(flatten)]
+    pub out: Output,
+}
+
+/// `zsum ensemble`.
+#[derive(Debug, Args)]
+pub struct EnsembleArgs {
+    /// A system file (TOML) giving the single-particle spectrum.
+    #[arg(long, value_name = "FILE")]
+    pub system: PathBuf,
+    /// Number of particles (1 to 1000).
+    #[arg(long, value_name = "N")]
+    pub particles: u64,
+    /// Statistics: bose, fermi or distinct (labelled).
+    #[arg(long, value_name = "STATS")]
+    pub stats: String,
+    /// Temperature(s) in kelvin: one value, START:STOP:STEP or
+    /// log:START:STOP:COUNT.
+    #[arg(
+        long = "T",
+        value_name = "T",
+        conflicts_with = "kt",
+        required_unless_present = "kt"
+    )]
+    pub t: Option<String>,
+    /// Instead of --T: kT in the system's energy unit (same grid forms).
+    #[arg(long = "kT", value_name = "KT")]
+    pub kt: Option<String>,
+    /// Significant digits of every exact value, each certified.
+    #[arg(long, value_name = "N", default_value_t = 10)]
+    pub digits: u32,
+    /// Tolerance on the relative error of q^N/N! in Q for the breakdown
+    /// search, e.g. 1% or 0.01.
+    #[arg(long, value_name = "TOL", default_value = "1%")]
+    pub tolerance: String,
+    /// Output options.
+    #[command(flatten)]
+    pub out: Output,
 }

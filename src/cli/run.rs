@@ -2,10 +2,11 @@
 
 use super::args::{
     BoxCount, BoxLevels, BoxPhysical, BoxShape, ClassicalModel, Cli, Command, CompareArgs,
-    CountModel, CrossoverArgs, DiatomicLevels, DiatomicModel, FileLevels, FileModel, FormatArg,
-    HydrogenArgs, LevelsModel, ListArgs, OnlyArg, OscillatorLevels, OscillatorModel, Output,
-    PerArg, RotorLevels, RotorModel, SpeciesCommand, SpeciesThermo, SpinArgs, SystemLevels,
-    SystemThermo, TempArgs, ThermoModel, TopLevels, TopModel, ZeemanLevels, ZeemanModel,
+    CountModel, CrossoverArgs, DiatomicLevels, DiatomicModel, EnsembleArgs, FileLevels, FileModel,
+    FormatArg, HydrogenArgs, LevelsModel, ListArgs, MicrostatesArgs, OnlyArg, OscillatorLevels,
+    OscillatorModel, Output, PerArg, RotorLevels, RotorModel, SpeciesCommand, SpeciesThermo,
+    SpinArgs, SystemLevels, SystemThermo, TempArgs, ThermoModel, TopLevels, TopModel, ZeemanLevels,
+    ZeemanModel,
 };
 use num_rational::BigRational;
 use num_traits::Zero;
@@ -69,6 +70,8 @@ pub fn run(cli: Cli) -> Result<Option<String>> {
             let report = zsum::microstates::VibsumReport::new(&c, &unit);
             emit(render(&report, format(out.format))?, &out)
         }
+        Command::Microstates(a) => microstates_cmd(a),
+        Command::Ensemble(a) => ensemble_cmd(a),
         Command::Report { out } => {
             let s = zsum::species::liquefier::write_report(&out)?;
             Ok(Some(s.lines.join("\n") + "\n"))
@@ -804,4 +807,75 @@ fn hydrogen(a: HydrogenArgs) -> Result<Option<String>> {
     };
     let table = HydrogenTable::build(sp, &grid, &isomer, &options)?;
     emit(render(&table, format(a.out.format))?, &a.out)
+}
+
+fn microstates_cmd(a: MicrostatesArgs) -> Result<Option<String>> {
+    use zsum::microstates::{microstates, MicroReport, Statistics};
+    let spectrum: Box<dyn Spectrum> = match &a.system {
+        Some(path) if !a.einstein => Box::new(System::read(path)?.product),
+        _ => Box::new(HarmonicModes::one_d(
+            BigRational::from_integer(1.into()),
+            false,
+            EnergyUnit::Natural {
+                symbol: "ħω".into(),
+                joules: None,
+            },
+        )?),
+    };
+    let stats = match &a.stats {
+        Some(s) if !a.einstein => Statistics::parse(s)?,
+        _ => Statistics::Distinct,
+    };
+    let unit = spectrum.unit();
+    let up_to = cutoff_in(&a.up_to, &unit)?;
+    let step = a
+        .grid
+        .as_deref()
+        .map(|g| cutoff_in(g, &unit).map_err(|_| Error::parse("--grid", g, "an energy step")))
+        .transpose()?;
+    let digits = check_digits(a.digits)?;
+    let omega = microstates(
+        &*spectrum,
+        a.particles,
+        stats,
+        &up_to,
+        step.as_ref(),
+        &parse_budget(&a.memory_budget)?,
+    )?;
+    let cached = zsum::sum::Cached::new(&*spectrum);
+    let mut report = MicroReport::build(&cached, &omega, &up_to, a.compare, digits)?;
+    if a.einstein {
+        report.system = "an Einstein solid (labelled oscillators, energies in quanta ħω)".into();
+    }
+    emit(render(&report, format(a.out.format))?, &a.out)
+}
+
+fn ensemble_cmd(a: EnsembleArgs) -> Result<Option<String>> {
+    use zsum::microstates::{check_particles, EnsembleReport, Statistics};
+    let stats = Statistics::parse(&a.stats)?;
+    check_particles(a.particles)?;
+    let (grid, kelvin) = match (&a.t, &a.kt) {
+        (Some(t), _) => (parse_grid("--T", t)?, true),
+        (None, Some(k)) => (parse_grid("--kT", k)?, false),
+        (None, None) => return Err(Error::invalid("--T", "missing", "give --T or --kT")),
+    };
+    if !(1..=60).contains(&a.digits) {
+        return Err(Error::invalid(
+            "--digits",
+            a.digits,
+            "choose between 1 and 60 significant digits",
+        ));
+    }
+    let tol = parse_tolerance(&a.tolerance)?;
+    let sys = System::read(&a.system)?;
+    let report = EnsembleReport::build(
+        &sys.product,
+        a.particles,
+        stats,
+        &grid,
+        kelvin,
+        a.digits,
+        &tol,
+    )?;
+    emit(render(&report, format(a.out.format))?, &a.out)
 }

@@ -258,12 +258,17 @@ pub(crate) fn canonical_at(
     }
     let mut lost = 0u32;
     let mut last = None;
-    for attempt in 0..5u32 {
-        let prec = precision_for(digits, attempt) + lost;
-        // Each q(kβ) must carry the cancellation's loss too.
-        let eps = (10f64.powi(-(digits as i32) - 6 - 8 * attempt as i32)
-            * 2f64.powi(-(lost as i32)))
-        .max(1e-300);
+    let mut tried = 0u32;
+    for attempt in 0..12u32 {
+        // Each q(kβ) must carry the cancellation's loss too; the engine's
+        // tail bounds reach down to 1e-300 (about 2^-996).
+        let log2_eps = -(digits as f64) * std::f64::consts::LOG2_10 - 20.0 - lost as f64;
+        if log2_eps < -990.0 {
+            break;
+        }
+        let eps = 2f64.powf(log2_eps);
+        let prec = precision_for(digits, attempt.min(3)) + lost;
+        tried = prec;
         let one = stats_of(spectrum, beta, eps, prec)?;
         let base_shift = beta * &e0 * BigRational::from_integer(n.into()); // Nβε₀
         let mut qs: Vec<Jet> = Vec::with_capacity(n as usize);
@@ -287,6 +292,7 @@ pub(crate) fn canonical_at(
             Some((ln_q, u, cv))
         })();
         let target = 10f64.powi(-(digits as i32) - 2);
+        let settled = ok.is_some();
         if let Some((ln_q, u, cv)) = ok {
             let good = b_ok(&ln_q, target) && b_ok(&u, target) && b_ok(&cv, target);
             let out = Canonical {
@@ -302,14 +308,28 @@ pub(crate) fn canonical_at(
             }
             last = Some(out);
         }
-        lost = lost.max(lost_now) + 16;
+        // A result lost in the cancellation says little about how much was
+        // lost: double the allowance; otherwise add what it measured.
+        lost = if settled {
+            lost.max(lost_now) + 32
+        } else {
+            lost.max(lost_now) * 2 + 32
+        };
     }
     last.ok_or_else(|| {
         Error::invalid(
             "temperature",
-            crate::exact::rational_string(&beta.recip()),
-            "the fermion sum cancels beyond 5 rounds of raised precision here; give fewer \
-             particles or a higher temperature",
+            format!(
+                "kT = {} {}",
+                crate::exact::format_sig(&beta.recip(), 6),
+                spectrum.unit()
+            ),
+            &format!(
+                "the fermion recursion for {n} particles loses every digit to cancellation \
+                 even at {tried} bits of working precision, and going further needs \
+                 one-particle sums beyond the about 990 bits to which they can be certified; \
+                 give fewer particles or a higher temperature"
+            ),
         )
     })
 }
@@ -434,6 +454,22 @@ pub fn ensemble_point(
     }
     let beta = temperature.beta(&spectrum.unit())?;
     let c = canonical_at(spectrum, n, stats, &beta, digits)?;
+    let t_text = match temperature {
+        Temperature::Kelvin(t) | Temperature::Reduced(t) => crate::exact::exact_decimal(t, 40),
+    };
+    Ok(point_from(&c, n, t_text, digits))
+}
+
+/// ln(q^N/N!) − ln Q_N: the log of the Boltzmann count's ratio to the exact.
+pub(crate) fn boltzmann_log_ratio(c: &Canonical, n: u64) -> Float {
+    let p = c.prec;
+    let ln_fact = Float::with_val(p, Float::with_val(p, n + 1).ln_gamma_ref());
+    let ln_b = Float::with_val(p, &c.one.ln_q * n) - ln_fact;
+    Float::with_val(p, ln_b - &c.ln_q.c)
+}
+
+/// The printed point of a canonical result.
+pub(crate) fn point_from(c: &Canonical, n: u64, t_text: String, digits: u32) -> EnsemblePoint {
     let p = c.prec;
     let s = Float::with_val(p, &c.ln_q.c + &c.u.c);
     let (ln_q, ok1) = float_to_decimal(&c.ln_q.c, c.ln_q.err, 0.0, digits);
@@ -457,10 +493,7 @@ pub fn ensemble_point(
         |ln_a: &Float| Float::with_val(p, Float::with_val(p, ln_a - &c.ln_q.c).exp_m1_ref());
     let s_b = Float::with_val(p, &ln_b + &u_b);
     let et = crate::classical::error_text;
-    let t_text = match temperature {
-        Temperature::Kelvin(t) | Temperature::Reduced(t) => crate::exact::exact_decimal(t, 40),
-    };
-    Ok(EnsemblePoint {
+    EnsemblePoint {
         t: t_text,
         ln_q,
         u_over_kt: u,
@@ -476,5 +509,5 @@ pub fn ensemble_point(
         precision_bits: p,
         cancelled_bits: c.lost_bits,
         certified: ok1 && ok2 && ok3 && ok4,
-    })
+    }
 }

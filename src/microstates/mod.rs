@@ -12,11 +12,13 @@
 
 mod collection;
 mod ensemble;
+mod reports;
 pub use collection::{
     check_particles, count_on_grid, microstates, table_bytes, Grid, Omega, Statistics,
     MAX_PARTICLES,
 };
 pub use ensemble::{ensemble_point, EnsemblePoint};
+pub use reports::{BoltzmannCrossing, EnsembleReport, MicroReport, MicroRow};
 
 use crate::error::{Error, Result};
 use crate::exact::{parse_rational, rational_string};
