@@ -1050,11 +1050,12 @@ pub struct EnsembleArgs {
         long = "T",
         value_name = "T",
         conflicts_with = "kt",
-        required_unless_present = "kt"
+        required_unless_present = "kt",
+        allow_hyphen_values = true
     )]
     pub t: Option<String>,
     /// Instead of --T: kT in the system's energy unit (same grid forms).
-    #[arg(long = "kT", value_name = "KT")]
+    #[arg(long = "kT", value_name = "KT", allow_hyphen_values = true)]
     pub kt: Option<String>,
     /// Significant digits of every exact value, each certified.
     #[arg(long, value_name = "N", default_value_t = 10)]

@@ -1,0 +1,285 @@
+//! `zsum microstates` and `zsum ensemble` from the command line: exact
+//! counts as decimal strings in JSON, refusals with exit status 2 and no
+//! partial output.
+
+use std::path::Path;
+use std::process::{Command, Output};
+
+fn zsum(args: &[&str]) -> Output {
+    Command::new(env!("CARGO_BIN_EXE_zsum"))
+        .args(args)
+        .output()
+        .expect("run zsum")
+}
+
+fn example(name: &str) -> String {
+    Path::new(env!("CARGO_MANIFEST_DIR"))
+        .join("examples/systems")
+        .join(name)
+        .display()
+        .to_string()
+}
+
+fn refused(args: &[&str], needle: &str) {
+    let out = zsum(args);
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(2), "{args:?}: {err}");
+    assert!(out.stdout.is_empty(), "{args:?} wrote output");
+    assert!(err.contains(needle), "{args:?}: {err}");
+}
+
+#[test]
+fn einstein_solid_json_holds_exact_counts() {
+    // 300 oscillators sharing 300 quanta: C(599, 300) (standard result), a
+    // 180-digit number, printed whole.
+    let out = zsum(&[
+        "microstates",
+        "--einstein",
+        "--particles",
+        "300",
+        "--up-to",
+        "300",
+        "--compare",
+        "0",
+        "--format",
+        "json",
+    ]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let rows = v["rows"].as_array().unwrap();
+    assert_eq!(rows.len(), 301);
+    let last = rows[300]["omega"].as_str().unwrap();
+    // C(599, 300) = C(599, 299); its leading digits, from the product formula
+    // evaluated independently here in f64 logarithms: about 10^178.9.
+    let ln: f64 = (1..=299u32)
+        .map(|i| ((300 + i) as f64 / i as f64).ln())
+        .sum();
+    assert_eq!(
+        last.len(),
+        (ln / std::f64::consts::LN_10).floor() as usize + 1
+    );
+    assert_eq!(rows[2]["omega"], "45150"); // C(301, 2)
+    assert_eq!(v["statistics"], "distinct");
+}
+
+#[test]
+fn fermions_in_a_cage_start_at_the_filled_shells() {
+    // 20 fermions in a cube fill the levels 3, 6, 9, 11, 12, 14 (1+3+3+3+1+6
+    // = 17 states) and 3 of the 3 at 17: one state at 228 box units, so the
+    // first row has Omega = 1 and steps = 0 above N·3 + 168.
+    let out = zsum(&[
+        "microstates",
+        "--system",
+        &example("he3_cage.toml"),
+        "--particles",
+        "20",
+        "--stats",
+        "fermi",
+        "--up-to",
+        "190",
+        "--format",
+        "json",
+    ]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let first = &v["rows"][0];
+    assert_eq!(first["omega"], "1");
+    assert_eq!(first["steps"], 228 - 60);
+    assert_eq!(first["s_over_k"], "0");
+}
+
+#[test]
+fn ensemble_reports_the_boltzmann_breakdown() {
+    let out = zsum(&[
+        "ensemble",
+        "--system",
+        &example("atom_trap.toml"),
+        "--particles",
+        "50",
+        "--stats",
+        "fermi",
+        "--T",
+        "0.5:5:0.5",
+        "--format",
+        "json",
+    ]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(v["rows"].as_array().unwrap().len(), 10);
+    let c = v["crossings"].as_array().unwrap();
+    assert_eq!(c.len(), 1);
+    assert_eq!(c[0]["exceeds_below"], true);
+    // The same crossing as the table run with the finer grid 0.1:10:0.1.
+    assert_eq!(c[0]["T"], "2.487");
+    assert!(v["rows"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .all(|r| r["certified"] == true));
+}
+
+#[test]
+fn bad_input_exits_2_and_writes_nothing() {
+    let cage = example("he3_cage.toml");
+    let trap = example("atom_trap.toml");
+    refused(
+        &[
+            "microstates",
+            "--system",
+            &cage,
+            "--particles",
+            "0",
+            "--stats",
+            "bose",
+            "--up-to",
+            "100",
+        ],
+        "between 1 and 1000",
+    );
+    refused(
+        &[
+            "microstates",
+            "--system",
+            &cage,
+            "--particles",
+            "5000",
+            "--stats",
+            "bose",
+            "--up-to",
+            "100",
+        ],
+        "5000",
+    );
+    refused(
+        &[
+            "microstates",
+            "--system",
+            &cage,
+            "--particles",
+            "20",
+            "--stats",
+            "fermi",
+            "--up-to",
+            "150",
+        ],
+        "20 fermions",
+    );
+    refused(
+        &[
+            "microstates",
+            "--system",
+            &cage,
+            "--particles",
+            "2",
+            "--stats",
+            "anyons",
+            "--up-to",
+            "150",
+        ],
+        "bose, fermi or distinct",
+    );
+    refused(
+        &[
+            "microstates",
+            "--system",
+            &cage,
+            "--particles",
+            "2",
+            "--stats",
+            "bose",
+            "--up-to",
+            "150",
+            "--grid",
+            "1",
+        ],
+        "not a whole number of grid steps",
+    );
+    refused(
+        &[
+            "microstates",
+            "--system",
+            &cage,
+            "--particles",
+            "100",
+            "--stats",
+            "bose",
+            "--up-to",
+            "20000",
+            "--memory-budget",
+            "1MiB",
+        ],
+        "memory",
+    );
+    refused(
+        &[
+            "ensemble",
+            "--system",
+            &trap,
+            "--particles",
+            "0",
+            "--stats",
+            "bose",
+            "--T",
+            "1",
+        ],
+        "between 1 and 1000",
+    );
+    refused(
+        &[
+            "ensemble",
+            "--system",
+            &trap,
+            "--particles",
+            "50",
+            "--stats",
+            "fermi",
+            "--T",
+            "0.01",
+        ],
+        "cancellation",
+    );
+    refused(
+        &[
+            "ensemble",
+            "--system",
+            &trap,
+            "--particles",
+            "5",
+            "--stats",
+            "bose",
+            "--T",
+            "-1",
+        ],
+        "greater than zero",
+    );
+    // A refused run leaves no file behind.
+    let dir = tempfile::tempdir().unwrap();
+    let target = dir.path().join("out.json");
+    let out = zsum(&[
+        "ensemble",
+        "--system",
+        &trap,
+        "--particles",
+        "50",
+        "--stats",
+        "fermi",
+        "--T",
+        "0.01:1:0.99",
+        "-o",
+        target.to_str().unwrap(),
+    ]);
+    assert_eq!(out.status.code(), Some(2));
+    assert!(std::fs::read_dir(dir.path()).unwrap().next().is_none());
+}
