@@ -20,6 +20,17 @@ fn example(name: &str) -> String {
         .to_string()
 }
 
+/// Runs zsum, requires success, and reads its JSON.
+fn json(args: &[&str]) -> serde_json::Value {
+    let out = zsum(args);
+    assert!(
+        out.status.success(),
+        "{args:?}: {}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    serde_json::from_slice(&out.stdout).unwrap()
+}
+
 fn refused(args: &[&str], needle: &str) {
     let out = zsum(args);
     let err = String::from_utf8_lossy(&out.stderr);
@@ -32,7 +43,7 @@ fn refused(args: &[&str], needle: &str) {
 fn einstein_solid_json_holds_exact_counts() {
     // 300 oscillators sharing 300 quanta: C(599, 300) (standard result), a
     // 180-digit number, printed whole.
-    let out = zsum(&[
+    let v = json(&[
         "microstates",
         "--einstein",
         "--particles",
@@ -44,12 +55,6 @@ fn einstein_solid_json_holds_exact_counts() {
         "--format",
         "json",
     ]);
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
     let rows = v["rows"].as_array().unwrap();
     assert_eq!(rows.len(), 301);
     let last = rows[300]["omega"].as_str().unwrap();
@@ -71,7 +76,7 @@ fn fermions_in_a_cage_start_at_the_filled_shells() {
     // 20 fermions in a cube fill the levels 3, 6, 9, 11, 12, 14 (1+3+3+3+1+6
     // = 17 states) and 3 of the 3 at 17: one state at 228 box units, so the
     // first row has Omega = 1 and steps = 0 above N·3 + 168.
-    let out = zsum(&[
+    let v = json(&[
         "microstates",
         "--system",
         &example("he3_cage.toml"),
@@ -84,12 +89,6 @@ fn fermions_in_a_cage_start_at_the_filled_shells() {
         "--format",
         "json",
     ]);
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
     let first = &v["rows"][0];
     assert_eq!(first["omega"], "1");
     assert_eq!(first["steps"], 228 - 60);
@@ -98,7 +97,7 @@ fn fermions_in_a_cage_start_at_the_filled_shells() {
 
 #[test]
 fn ensemble_reports_the_boltzmann_breakdown() {
-    let out = zsum(&[
+    let v = json(&[
         "ensemble",
         "--system",
         &example("atom_trap.toml"),
@@ -111,12 +110,6 @@ fn ensemble_reports_the_boltzmann_breakdown() {
         "--format",
         "json",
     ]);
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
     assert_eq!(v["rows"].as_array().unwrap().len(), 10);
     let c = v["crossings"].as_array().unwrap();
     assert_eq!(c.len(), 1);
@@ -248,7 +241,7 @@ fn bad_input_exits_2_and_writes_nothing() {
             "--T",
             "0.01",
         ],
-        "cancellation",
+        "cancels about",
     );
     refused(
         &[
@@ -282,4 +275,45 @@ fn bad_input_exits_2_and_writes_nothing() {
     ]);
     assert_eq!(out.status.code(), Some(2));
     assert!(std::fs::read_dir(dir.path()).unwrap().next().is_none());
+}
+
+#[test]
+fn vibsum_extras_and_the_whitten_rabinovitch_map() {
+    // Modes 300 and 700 cm-1 with the demo free rotor (B = 5.5 cm-1): up to
+    // 20 cm-1 only m = 0, ±1 (at 5.5 → bin 6) fit, so the sum there is 3.
+    let rotor = example("free_rotor.levels");
+    let v = json(&[
+        "vibsum", "--modes", "300,700", "--up-to", "1000", "--extra", &rotor, "--format", "json",
+    ]);
+    let rows = v["rows"].as_array().unwrap();
+    assert_eq!(rows[1]["energy"], "6");
+    assert_eq!(rows[1]["sum"], "3");
+    assert_eq!(v["extras"].as_array().unwrap().len(), 1);
+    let v = json(&[
+        "vibsum", "--modes", "1000x3", "--up-to", "30000", "--wr", "10", "--format", "json",
+    ]);
+    let rows = v["rows"].as_array().unwrap();
+    assert_eq!(rows.len(), 10);
+    // Three identical modes: the exact sum at E = 3000 k is C(k + 3, 3)
+    // (standard result); the sampled energies are multiples of 2950.
+    let e: u64 = rows[9]["energy"].as_str().unwrap().parse().unwrap();
+    let k = e / 1000;
+    let want = (k + 1) * (k + 2) * (k + 3) / 6;
+    assert_eq!(rows[9]["sum_exact"].as_str().unwrap(), want.to_string());
+    refused(
+        &["vibsum", "--modes", "1000", "--up-to", "3000", "--wr", "0"],
+        "at least one energy",
+    );
+    refused(
+        &[
+            "vibsum",
+            "--modes",
+            "1000",
+            "--up-to",
+            "3000",
+            "--extra",
+            "/nonexistent.levels",
+        ],
+        "nonexistent",
+    );
 }

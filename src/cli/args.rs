@@ -76,32 +76,7 @@ pub enum Command {
     },
     /// Exact sums and densities of vibrational states of harmonic modes
     /// (Beyer–Swinehart) on an energy grain.
-    Vibsum {
-        /// Frequencies, comma-separated, each optionally xN for N degenerate
-        /// modes, e.g. 1000,1500x2,3000.
-        #[arg(long, value_name = "LIST")]
-        modes: String,
-        /// Unit of the frequencies, grain and cutoff (a name for the output).
-        #[arg(long, value_name = "UNIT", default_value = "cm-1")]
-        unit: String,
-        /// The energy grain.
-        #[arg(
-            long,
-            value_name = "G",
-            default_value = "1",
-            allow_hyphen_values = true
-        )]
-        grain: String,
-        /// Highest energy counted.
-        #[arg(long, value_name = "E", allow_hyphen_values = true)]
-        up_to: String,
-        /// Refuse grids estimated to need more memory than this.
-        #[arg(long, value_name = "SIZE", default_value = "2GiB")]
-        memory_budget: String,
-        /// Output options.
-        #[command(flatten)]
-        out: Output,
-    },
+    Vibsum(VibsumArgs),
     /// Exact microstate counts Ω(E, N) of N particles (labelled, bosons or
     /// fermions) in one spectrum for every total energy up to a cutoff, with
     /// S = k ln Ω, the microcanonical temperature and the canonical
@@ -1064,6 +1039,44 @@ pub struct EnsembleArgs {
     /// search, e.g. 1% or 0.01.
     #[arg(long, value_name = "TOL", default_value = "1%")]
     pub tolerance: String,
+    /// Output options.
+    #[command(flatten)]
+    pub out: Output,
+}
+
+/// `zsum vibsum`.
+#[derive(Debug, Args)]
+pub struct VibsumArgs {
+    /// Frequencies, comma-separated, each optionally xN for N degenerate
+    /// modes, e.g. 1000,1500x2,3000.
+    #[arg(long, value_name = "LIST")]
+    pub modes: String,
+    /// Unit of the frequencies, grain and cutoff (a name for the output).
+    #[arg(long, value_name = "UNIT", default_value = "cm-1")]
+    pub unit: String,
+    /// The energy grain.
+    #[arg(
+        long,
+        value_name = "G",
+        default_value = "1",
+        allow_hyphen_values = true
+    )]
+    pub grain: String,
+    /// Highest energy counted.
+    #[arg(long, value_name = "E", allow_hyphen_values = true)]
+    pub up_to: String,
+    /// An extra degree of freedom (free or hindered internal rotor, low
+    /// electronic levels) as a level file or a system file (.toml),
+    /// convolved in by Stein–Rabinovitch; repeat for more.
+    #[arg(long, value_name = "FILE")]
+    pub extra: Vec<PathBuf>,
+    /// Instead of the per-grain table, the Whitten–Rabinovitch error map
+    /// of the harmonic modes at this many energies up to the cutoff.
+    #[arg(long, value_name = "POINTS", conflicts_with = "extra")]
+    pub wr: Option<usize>,
+    /// Refuse grids estimated to need more memory than this.
+    #[arg(long, value_name = "SIZE", default_value = "2GiB")]
+    pub memory_budget: String,
     /// Output options.
     #[command(flatten)]
     pub out: Output,

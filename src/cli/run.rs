@@ -5,8 +5,8 @@ use super::args::{
     CountModel, CrossoverArgs, DiatomicLevels, DiatomicModel, EnsembleArgs, FileLevels, FileModel,
     FormatArg, HydrogenArgs, LevelsModel, ListArgs, MicrostatesArgs, OnlyArg, OscillatorLevels,
     OscillatorModel, Output, PerArg, RotorLevels, RotorModel, SpeciesCommand, SpeciesThermo,
-    SpinArgs, SystemLevels, SystemThermo, TempArgs, ThermoModel, TopLevels, TopModel, ZeemanLevels,
-    ZeemanModel,
+    SpinArgs, SystemLevels, SystemThermo, TempArgs, ThermoModel, TopLevels, TopModel, VibsumArgs,
+    ZeemanLevels, ZeemanModel,
 };
 use num_rational::BigRational;
 use num_traits::Zero;
@@ -52,24 +52,7 @@ pub fn run(cli: Cli) -> Result<Option<String>> {
         Command::Crossover { model, opts } => crossover(model, opts),
         Command::Species { command } => species(command),
         Command::Hydrogen(a) => hydrogen(a),
-        Command::Vibsum {
-            modes,
-            unit,
-            grain,
-            up_to,
-            memory_budget,
-            out,
-        } => {
-            zsum::units::EnergyUnit::parse(&unit)?;
-            let c = zsum::microstates::beyer_swinehart(
-                &zsum::microstates::parse_modes(&modes)?,
-                &number("--grain", &grain)?,
-                &number("--up-to", &up_to)?,
-                &parse_budget(&memory_budget)?,
-            )?;
-            let report = zsum::microstates::VibsumReport::new(&c, &unit);
-            emit(render(&report, format(out.format))?, &out)
-        }
+        Command::Vibsum(a) => vibsum(a),
         Command::Microstates(a) => microstates_cmd(a),
         Command::Ensemble(a) => ensemble_cmd(a),
         Command::Report { out } => {
@@ -877,5 +860,40 @@ fn ensemble_cmd(a: EnsembleArgs) -> Result<Option<String>> {
         a.digits,
         &tol,
     )?;
+    emit(render(&report, format(a.out.format))?, &a.out)
+}
+
+fn vibsum(a: VibsumArgs) -> Result<Option<String>> {
+    use zsum::microstates::{beyer_swinehart, parse_modes, stein_rabinovitch};
+    use zsum::microstates::{VibsumReport, WrReport};
+    let vib_unit = EnergyUnit::parse(&a.unit)?;
+    let budget = parse_budget(&a.memory_budget)?;
+    let up_to = number("--up-to", &a.up_to)?;
+    let mut c = beyer_swinehart(
+        &parse_modes(&a.modes)?,
+        &number("--grain", &a.grain)?,
+        &up_to,
+        &budget,
+    )?;
+    if let Some(points) = a.wr {
+        let report = WrReport::new(&c, &a.unit, points)?;
+        return emit(render(&report, format(a.out.format))?, &a.out);
+    }
+    let mut names = Vec::new();
+    for path in &a.extra {
+        let spectrum: Box<dyn Spectrum> = if path.extension().is_some_and(|e| e == "toml") {
+            Box::new(System::read(path)?.product)
+        } else {
+            Box::new(LevelFile::read(path)?)
+        };
+        let own = spectrum.unit();
+        let span = vib_unit.convert(&up_to, &own)?;
+        let levels = spectrum
+            .levels_within(&(spectrum.ground_energy() + span), &budget)?
+            .converted(&vib_unit)?;
+        names.push(spectrum.describe());
+        c = stein_rabinovitch(c, &levels, &budget)?;
+    }
+    let report = VibsumReport::new(&c, &a.unit).with_extras(names);
     emit(render(&report, format(a.out.format))?, &a.out)
 }

@@ -26,6 +26,7 @@ use crate::error::{Error, Result};
 use crate::spectrum::Spectrum;
 use crate::sum::{float_to_decimal, precision_for, stats_of, to_rug, Stats, Temperature};
 use num_rational::BigRational;
+use num_traits::ToPrimitive;
 use rug::float::Round;
 use rug::Float;
 use serde::Serialize;
@@ -258,7 +259,7 @@ pub(crate) fn canonical_at(
     }
     let mut lost = 0u32;
     let mut last = None;
-    let mut tried = 0u32;
+    let mut estimate: Option<u32> = None;
     for attempt in 0..12u32 {
         // Each q(kβ) must carry the cancellation's loss too; the engine's
         // tail bounds reach down to 1e-300 (about 2^-996).
@@ -268,7 +269,6 @@ pub(crate) fn canonical_at(
         }
         let eps = 2f64.powf(log2_eps);
         let prec = precision_for(digits, attempt.min(3)) + lost;
-        tried = prec;
         let one = stats_of(spectrum, beta, eps, prec)?;
         let base_shift = beta * &e0 * BigRational::from_integer(n.into()); // Nβε₀
         let mut qs: Vec<Jet> = Vec::with_capacity(n as usize);
@@ -279,6 +279,9 @@ pub(crate) fn canonical_at(
             qs.push(one_particle_jet(&st, &(&kb * &e0), prec));
         }
         let (q_n, lost_now) = recursion(&qs, stats, prec);
+        if estimate.is_none() && stats == Statistics::Fermi {
+            estimate = Some(fermi_loss_estimate(spectrum, n, beta, &qs, prec)?);
+        }
         let [v, d1, d2] = q_n.0;
         let shift = Float::with_val(prec, to_rug(&base_shift));
         let shift_b = Ball::rounded(shift, Float::new(RP));
@@ -309,11 +312,16 @@ pub(crate) fn canonical_at(
             last = Some(out);
         }
         // A result lost in the cancellation says little about how much was
-        // lost: double the allowance; otherwise add what it measured.
+        // lost: then take the a-priori estimate, and grow it if need be.
         lost = if settled {
             lost.max(lost_now) + 32
         } else {
-            lost.max(lost_now) * 2 + 32
+            let est = estimate.unwrap_or(0);
+            if lost >= est {
+                lost * 2 + 32
+            } else {
+                est + 32
+            }
         };
     }
     last.ok_or_else(|| {
@@ -325,13 +333,60 @@ pub(crate) fn canonical_at(
                 spectrum.unit()
             ),
             &format!(
-                "the fermion recursion for {n} particles loses every digit to cancellation \
-                 even at {tried} bits of working precision, and going further needs \
-                 one-particle sums beyond the about 990 bits to which they can be certified; \
-                 give fewer particles or a higher temperature"
+                "the fermion recursion for {n} particles cancels about {} bits here (Q_N is \
+                 that much smaller than the terms that sum to it), beyond the about 990 bits \
+                 to which the one-particle sums can be certified; give fewer particles or a \
+                 higher temperature",
+                estimate.unwrap_or(lost).max(lost)
             ),
         )
     })
+}
+
+/// Bits the fermion recursion may cancel, from above: its terms sum in
+/// magnitude to at most n·Q_n(bose) (the boson recursion has the same terms
+/// with one sign, and each fermion count is at most the boson count), and
+/// Q_N(fermi) is at least the Boltzmann factor of the lowest filling, so
+/// the loss is at most log₂(N·Q_N(bose)) + βΔE_F/ln 2, ΔE_F the lowest
+/// filling's energy above N·ε₀.
+fn fermi_loss_estimate(
+    spectrum: &dyn Spectrum,
+    n: u64,
+    beta: &BigRational,
+    qs: &[Jet],
+    prec: u32,
+) -> Result<u32> {
+    let (bose, _) = recursion(qs, Statistics::Bose, prec);
+    let ln2 = std::f64::consts::LN_2;
+    let log2_bose = bose.0[0].c.clone().log2().to_f64().max(0.0);
+    // List levels until they hold N orbitals.
+    let e0 = spectrum.ground_energy();
+    let mut span = BigRational::from_integer(1.into());
+    let budget = crate::spectrum::Budget::default();
+    let levels = loop {
+        let list = spectrum.levels_within(&(&e0 + &span), &budget)?;
+        let cut = &e0 + &span;
+        if list.total_states() >= n.into() || spectrum.highest_energy().is_some_and(|h| h <= cut) {
+            break list;
+        }
+        span = &span * BigRational::from_integer(4.into());
+    };
+    let mut left = num_bigint::BigUint::from(n);
+    let mut fill = BigRational::from_integer(0.into());
+    for l in levels.iter() {
+        let take = if left < l.degeneracy {
+            left.clone()
+        } else {
+            l.degeneracy.clone()
+        };
+        fill += (&l.energy - &e0) * BigRational::from_integer(take.clone().into());
+        left -= take;
+        if left == 0u32.into() {
+            break;
+        }
+    }
+    let x = (beta * fill).to_f64().unwrap_or(f64::MAX);
+    Ok(((n as f64).log2() + log2_bose + x / ln2 + 16.0).min(1e6) as u32)
 }
 
 fn b_ok(b: &Ball, target: f64) -> bool {

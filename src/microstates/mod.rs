@@ -13,12 +13,14 @@
 mod collection;
 mod ensemble;
 mod reports;
+mod vibration;
 pub use collection::{
     check_particles, count_on_grid, microstates, table_bytes, Grid, Omega, Statistics,
     MAX_PARTICLES,
 };
 pub use ensemble::{ensemble_point, EnsemblePoint};
 pub use reports::{BoltzmannCrossing, EnsembleReport, MicroReport, MicroRow};
+pub use vibration::{stein_rabinovitch, whitten_rabinovitch, WrReport, WrRow};
 
 use crate::error::{Error, Result};
 use crate::exact::{parse_rational, rational_string};
@@ -258,6 +260,15 @@ pub fn einstein_solid(n: u64, q: u64) -> BigUint {
     c
 }
 
+/// Rounded modes as `w(d), ...`: frequency in grains (degeneracy).
+fn modes_text(rounded: &[(u64, u32)]) -> String {
+    rounded
+        .iter()
+        .map(|(w, d)| format!("{w}({d})"))
+        .collect::<Vec<_>>()
+        .join(", ")
+}
+
 /// `zsum vibsum`: counts per grain, sums and densities of states.
 #[derive(Debug, Clone, serde::Serialize)]
 pub struct VibsumReport {
@@ -267,6 +278,8 @@ pub struct VibsumReport {
     pub grain: String,
     /// Each mode in grains after rounding, with its degeneracy.
     pub rounded_modes: Vec<(u64, u32)>,
+    /// Extra degrees of freedom convolved in (Stein–Rabinovitch), by name.
+    pub extras: Vec<String>,
     /// One row per bin with at least one state.
     pub rows: Vec<VibsumRow>,
 }
@@ -310,8 +323,15 @@ impl VibsumReport {
             unit: unit.to_string(),
             grain: rational_string(&c.grain),
             rounded_modes: c.rounded.clone(),
+            extras: Vec::new(),
             rows,
         }
+    }
+
+    /// Names the extra degrees of freedom convolved into the counts.
+    pub fn with_extras(mut self, extras: Vec<String>) -> Self {
+        self.extras = extras;
+        self
     }
 }
 
@@ -322,17 +342,21 @@ impl crate::export::Tabular for VibsumReport {
                 "Beyer–Swinehart exact state counts, grain {} {}; modes in grains (degeneracy): {}",
                 self.grain,
                 self.unit,
-                self.rounded_modes
-                    .iter()
-                    .map(|(w, d)| format!("{w}({d})"))
-                    .collect::<Vec<_>>()
-                    .join(", ")
+                modes_text(&self.rounded_modes)
             ),
             format!(
                 "count = states in the bin; sum = states up to it; density = count/grain per {}",
                 self.unit
             ),
         ]
+        .into_iter()
+        .chain((!self.extras.is_empty()).then(|| {
+            format!(
+                "with extra degrees of freedom (Stein–Rabinovitch, levels rounded to the grain): {}",
+                self.extras.join("; ")
+            )
+        }))
+        .collect()
     }
     fn columns(&self) -> Vec<String> {
         vec![
