@@ -30,6 +30,10 @@
 //! - [`spectrum`]: the [`spectrum::Spectrum`] trait.
 //! - [`models`]: the models (particle in a box, ...).
 //! - [`counting`]: exact counts without listing.
+//! - [`sum`]: partition functions and thermodynamic functions, certified.
+//! - [`classical`]: classical limits and where they fail.
+//! - [`species`]: built-in gases and their standard molar functions.
+//! - [`microstates`]: collections: Ω(E, N), Q_N, vibrational state counts.
 //! - [`report`]: the result structures that every output format writes.
 
 #![forbid(unsafe_code)]

@@ -22,9 +22,9 @@ fn every_example_system_loads_and_enumerates() {
         let path = entry.unwrap().path();
         if path.extension().is_some_and(|e| e == "toml") {
             let sys = System::read(&path).unwrap_or_else(|e| panic!("{}: {e}", path.display()));
-            // A few levels of each: 30 cm-1 of rotation, or 1 K of the cage.
+            // A few levels of each: 30 cm-1 of rotation, or 5 K of a cage or trap.
             let room = if sys.product.unit().symbol() == "K" {
-                "1"
+                "5"
             } else {
                 "30"
             };

@@ -410,7 +410,10 @@ fn libm_lgamma(x: f64) -> f64 {
 /// use num_bigint::BigUint;
 /// // Two bosons in orbitals at 0, 1, 2 (one each): totals 0..4 have
 /// // 1, 1, 2, 1, 1 states.
-/// let g = Grid { unit: zsum::units::EnergyUnit::Kelvin, ground: 0.into(), step: 1.into(),
+/// use num_rational::BigRational;
+/// let g = Grid { unit: zsum::units::EnergyUnit::Kelvin,
+///                ground: BigRational::from_integer(0.into()),
+///                step: BigRational::from_integer(1.into()),
 ///                levels: vec![(0, 1u32.into()), (1, 1u32.into()), (2, 1u32.into())] };
 /// let c = count_on_grid(&g, 2, Statistics::Bose, 5, &Budget::default())?;
 /// let want: Vec<BigUint> = [1u32, 1, 2, 1, 1].iter().map(|&x| x.into()).collect();

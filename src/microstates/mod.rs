@@ -1,5 +1,16 @@
-//! Exact counts for collections: vibrational state counts of polyatomic
-//! molecules (Beyer–Swinehart) and the Einstein solid.
+//! Exact counts for collections of particles and modes.
+//!
+//! - [`microstates`] and [`count_on_grid`]: the number of microstates
+//!   Ω(E, N) of N labelled particles, bosons or fermions in one spectrum,
+//!   for every total energy up to a cutoff, in big integers; [`MicroReport`]
+//!   adds S = k ln Ω, the microcanonical temperature and the canonical
+//!   comparison.
+//! - [`ensemble_point`] and [`EnsembleReport`]: canonical Q_N of ideal
+//!   bosons and fermions by the cycle recursion, certified, against q^N/N!
+//!   and q^N, with the temperature where q^N/N! breaks down.
+//! - [`beyer_swinehart`], [`stein_rabinovitch`], [`whitten_rabinovitch`]:
+//!   vibrational sums and densities of states, exactly and approximately.
+//! - [`einstein_solid`]: C(q + N − 1, q).
 //!
 //! The Beyer–Swinehart algorithm counts the states of independent harmonic
 //! modes on an energy grid of width `grain`: starting from one state at zero

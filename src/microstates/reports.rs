@@ -276,11 +276,14 @@ impl EnsembleReport {
     /// let r = |s: &str| parse_rational(s).unwrap();
     /// let trap = HarmonicModes::one_d(r("1"), false, EnergyUnit::Kelvin)?;
     /// let rep = EnsembleReport::build(&trap, 10, Statistics::Bose,
-    ///     &[r("1"), r("10"), r("100")], true, 8, &r("0.01"))?;
+    ///     &[r("1"), r("100"), r("10000")], true, 8, &r("0.01"))?;
     /// assert_eq!(rep.rows.len(), 3);
-    /// // q^N/N! fails by more than 1% below some temperature between 10 and 100 K.
+    /// // q^N/N! errs by about N(N − 1)/(4T) here, so by more than 1% below
+    /// // roughly 2250 K.
     /// assert_eq!(rep.crossings.len(), 1);
     /// assert!(rep.crossings[0].exceeds_below);
+    /// let t: f64 = rep.crossings[0].t.parse().unwrap();
+    /// assert!((2000.0..2500.0).contains(&t));
     /// # Ok::<(), zsum::Error>(())
     /// ```
     pub fn build(
