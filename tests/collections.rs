@@ -59,6 +59,20 @@ fn einstein_solid_counts_are_binomials() {
             assert_eq!(einstein_solid(n, q as u64), want);
         }
     }
+    // The named model's closed-form path gives the same counts.
+    let closed =
+        zsum::microstates::einstein_omega(300, 300, EnergyUnit::Kelvin, &Budget::default())
+            .unwrap();
+    let dp = microstates(
+        &unit_osc(),
+        300,
+        Statistics::Distinct,
+        &r("300"),
+        None,
+        &Budget::default(),
+    )
+    .unwrap();
+    assert_eq!(closed.counts, dp.counts);
     // Well past 128 bits: C(599, 300) has about 595 bits.
     assert!(einstein_solid(300, 300).bits() > 590);
 }
@@ -211,6 +225,19 @@ fn grids_name_the_offending_level() {
     .unwrap_err();
     assert_eq!(e.kind(), ErrorKind::Budget);
     assert!(e.message().contains("1.000001 K"), "{}", e.message());
+    // 1000 labelled oscillators over 100 000 quanta by the general recurrence
+    // would take far too long: refused by estimate, before any work.
+    let e = microstates(
+        &unit_osc(),
+        1000,
+        Statistics::Distinct,
+        &r("100000"),
+        None,
+        &Budget::default(),
+    )
+    .unwrap_err();
+    assert_eq!(e.kind(), ErrorKind::Budget);
+    assert!(e.message().contains("would take about"), "{}", e.message());
 }
 
 /// ln Q_N by brute force over the occupation patterns of the 12 orbitals at

@@ -817,14 +817,27 @@ fn microstates_cmd(a: MicrostatesArgs) -> Result<Option<String>> {
         .map(|g| cutoff_in(g, &unit).map_err(|_| Error::parse("--grid", g, "an energy step")))
         .transpose()?;
     let digits = check_digits(a.digits)?;
-    let omega = microstates(
-        &*spectrum,
-        a.particles,
-        stats,
-        &up_to,
-        step.as_ref(),
-        &parse_budget(&a.memory_budget)?,
-    )?;
+    let budget = parse_budget(&a.memory_budget)?;
+    let omega = if a.einstein {
+        let quanta = up_to.floor().to_integer();
+        let quanta = u64::try_from(&quanta).map_err(|_| {
+            Error::invalid(
+                "--up-to",
+                &a.up_to,
+                "an Einstein solid needs a number of quanta of zero or more",
+            )
+        })?;
+        zsum::microstates::einstein_omega(a.particles, quanta, unit.clone(), &budget)?
+    } else {
+        microstates(
+            &*spectrum,
+            a.particles,
+            stats,
+            &up_to,
+            step.as_ref(),
+            &budget,
+        )?
+    };
     let cached = zsum::sum::Cached::new(&*spectrum);
     let mut report = MicroReport::build(&cached, &omega, &up_to, a.compare, digits)?;
     if a.einstein {

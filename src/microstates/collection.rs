@@ -32,9 +32,15 @@
 use crate::error::{Error, Result};
 use crate::exact::exact_decimal;
 
-/// An exact energy for people: a decimal where it has one.
+/// An exact energy for people: a decimal where it has a short one, else 12
+/// significant digits marked as rounded.
 fn rational_string(x: &BigRational) -> String {
-    exact_decimal(x, 40)
+    let e = exact_decimal(x, 40);
+    if e.contains('/') {
+        format!("≈{}", crate::exact::format_sig(x, 12))
+    } else {
+        e
+    }
 }
 use crate::level::LevelList;
 use crate::spectrum::{human_bytes, Budget, Spectrum};
@@ -359,6 +365,17 @@ fn binomial(n: &BigUint, k: u64) -> BigUint {
 /// at most the number of ways to place the particles in the `orbitals`
 /// (C(M + N − 1, N) for bosons, C(M, N) for fermions, M^N for labelled).
 pub fn table_bytes(orbitals: &BigUint, n: u64, bins: u64, stats: Statistics) -> f64 {
+    let limbs = (count_bits(orbitals, n, stats) / 64.0).floor() + 1.0;
+    match stats {
+        // One row of big integers.
+        Statistics::Distinct => bins as f64 * (limbs * 8.0 + 32.0),
+        _ => (n as f64 + 1.0) * bins as f64 * limbs * 8.0,
+    }
+}
+
+/// log₂ of the bound on any count: the ways to place `n` particles in the
+/// `orbitals`.
+fn count_bits(orbitals: &BigUint, n: u64, stats: Statistics) -> f64 {
     let m = orbitals.to_f64().unwrap_or(f64::MAX).max(1.0);
     let nf = n as f64;
     let ln_fact = |x: f64| libm_lgamma(x + 1.0);
@@ -373,11 +390,34 @@ pub fn table_bytes(orbitals: &BigUint, n: u64, bins: u64, stats: Statistics) -> 
             }
         }
     };
-    let limbs = (bits / 64.0).floor() + 1.0;
+    bits.max(1.0)
+}
+
+/// The longest count zsum starts, in estimated seconds on one core.
+pub const MAX_SECONDS: f64 = 120.0;
+
+/// Estimated seconds to count `n` particles over `bins` energies of `grid`
+/// (from the number of cell additions and their width; calibrated on the
+/// benches, to within a few times).
+pub fn count_seconds(grid: &Grid, n: u64, stats: Statistics, bins: usize) -> f64 {
+    let k_max = bins.saturating_sub(1) as u64;
+    let limbs = (count_bits(&grid.orbitals_up_to(k_max), n, stats) / 64.0).floor() + 1.0;
+    let mut ops = 0f64;
+    for (e, g) in grid.levels.iter().filter(|(e, _)| *e <= k_max && *e > 0) {
+        let (e, k) = (*e as f64, k_max as f64);
+        match stats {
+            Statistics::Distinct => ops += k - e + 1.0,
+            _ => {
+                // Rows 1..=min(N, K/e), each from n·e to K.
+                let rows = (n as f64).min((k / e).floor());
+                let cells = rows * (k + 1.0) - e * rows * (rows + 1.0) / 2.0;
+                ops += g.to_f64().unwrap_or(f64::MAX) * cells;
+            }
+        }
+    }
     match stats {
-        // One row of big integers.
-        Statistics::Distinct => bins as f64 * (limbs * 8.0 + 32.0),
-        _ => (nf + 1.0) * bins as f64 * limbs * 8.0,
+        Statistics::Distinct => ops * (20e-9 + limbs * 2e-9),
+        _ => ops * limbs * 1e-10,
     }
 }
 
@@ -432,15 +472,23 @@ pub fn count_on_grid(
         return Ok(Vec::new());
     }
     let k_max = (bins - 1) as u64;
+    let what = format!(
+        "counting {n} particles ({}) over {bins} energies",
+        stats.name()
+    );
     let estimate = table_bytes(&grid.orbitals_up_to(k_max), n, bins as u64, stats);
     budget.check(
-        &format!(
-            "counting {n} particles ({}) over {bins} energies",
-            stats.name()
-        ),
+        &what,
         estimate,
         "lower the cutoff or the number of particles, or raise --memory-budget",
     )?;
+    let seconds = count_seconds(grid, n, stats, bins);
+    if seconds > MAX_SECONDS {
+        return Err(Error::budget(format!(
+            "{what} would take about {seconds:.0} s by estimate, more than the {MAX_SECONDS:.0} s \
+             zsum starts; lower the cutoff or the number of particles"
+        )));
+    }
     let used: Vec<&(u64, BigUint)> = grid.levels.iter().filter(|(e, _)| *e <= k_max).collect();
     if stats == Statistics::Distinct {
         return Ok(labelled(&used, n, bins));
@@ -677,6 +725,53 @@ pub fn microstates(
         particles: n,
         lowest: lowest.and_then(|l| l.to_u64()).unwrap_or(0),
         grid,
+        counts,
+    })
+}
+
+/// The Einstein solid as a named model: `n` labelled oscillators of one
+/// quantum (energies in quanta, unit `unit`) sharing 0 to `quanta` quanta,
+/// Ω = C(q + N − 1, q) (standard result) by the exact ratio
+/// C(q + N − 1, q) = C(q + N − 2, q − 1)·(q + N − 1)/q, refusing tables
+/// beyond `budget`.
+///
+/// ```
+/// use zsum::microstates::einstein_omega;
+/// use zsum::spectrum::Budget;
+/// use zsum::units::EnergyUnit;
+/// let o = einstein_omega(3, 4, EnergyUnit::Kelvin, &Budget::default())?;
+/// assert_eq!(o.counts[4], 15u32.into());
+/// # Ok::<(), zsum::Error>(())
+/// ```
+pub fn einstein_omega(n: u64, quanta: u64, unit: EnergyUnit, budget: &Budget) -> Result<Omega> {
+    check_particles(n)?;
+    let bins = quanta
+        .checked_add(1)
+        .ok_or_else(|| Error::invalid("--up-to", quanta, "give fewer quanta"))?;
+    // The largest count, C(q + N − 1, q), sets the width of every cell.
+    let bits = count_bits(&BigUint::from(bins), n, Statistics::Bose);
+    budget.check(
+        &format!("the Einstein solid's {bins} counts"),
+        bins as f64 * (bits / 8.0 + 32.0),
+        "lower the number of quanta",
+    )?;
+    let mut counts = Vec::with_capacity(bins as usize);
+    let mut c = BigUint::one();
+    counts.push(c.clone());
+    for q in 1..bins {
+        c = c * BigUint::from(q + n - 1) / BigUint::from(q);
+        counts.push(c.clone());
+    }
+    Ok(Omega {
+        statistics: Statistics::Distinct,
+        particles: n,
+        grid: Grid {
+            unit,
+            ground: BigRational::zero(),
+            step: BigRational::one(),
+            levels: vec![(0, BigUint::one())],
+        },
+        lowest: 0,
         counts,
     })
 }

@@ -26,8 +26,8 @@ mod ensemble;
 mod reports;
 mod vibration;
 pub use collection::{
-    check_particles, count_on_grid, microstates, table_bytes, Grid, Omega, Statistics,
-    MAX_PARTICLES,
+    check_particles, count_on_grid, count_seconds, einstein_omega, microstates, table_bytes, Grid,
+    Omega, Statistics, MAX_PARTICLES, MAX_SECONDS,
 };
 pub use ensemble::{ensemble_point, EnsemblePoint};
 pub use reports::{BoltzmannCrossing, EnsembleReport, MicroReport, MicroRow};

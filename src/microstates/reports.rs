@@ -367,9 +367,14 @@ impl Tabular for EnsembleReport {
                 self.system
             ),
             format!(
-                "T in {}; err = relative error of q^N/N! (Boltzmann counting) against the exact \
-                 Q_N; dS/k = its S/k minus the exact; q^N err = labelled counting",
-                self.temperature
+                "T column: {}; err = relative error of q^N/N! (Boltzmann counting) against the \
+                 exact Q_N; dS/k = its S/k minus the exact; q^N err = labelled counting; bits = \
+                 working precision",
+                if self.temperature == "K" {
+                    "T in K".to_string()
+                } else {
+                    self.temperature.clone()
+                }
             ),
         ]
     }
