@@ -274,6 +274,42 @@ fn recursion_matches_brute_force() {
 }
 
 #[test]
+fn fermions_beyond_a_finite_spectrum_are_refused() {
+    // The 12 orbitals hold at most 12 fermions: Q_13 = 0, refused by name.
+    let text: String = ORBITALS.iter().map(|e| format!("{e} K 1\n")).collect();
+    let list = LevelFile::parse(&text, "orbitals").unwrap();
+    let p = ensemble_point(
+        &list,
+        12,
+        Statistics::Fermi,
+        &Temperature::Kelvin(r("3")),
+        10,
+    )
+    .unwrap();
+    // All 12 filled: one state, Q = e^{-ΣE/kT}, ΣE = 52 K.
+    let want = -52.0 / 3.0;
+    assert!(
+        (p.ln_q.parse::<f64>().unwrap() - want).abs() < 1e-8,
+        "{}",
+        p.ln_q
+    );
+    let e = ensemble_point(
+        &list,
+        13,
+        Statistics::Fermi,
+        &Temperature::Kelvin(r("3")),
+        10,
+    )
+    .unwrap_err();
+    assert!(
+        e.message()
+            .contains("13 fermions cannot share the 12 orbitals"),
+        "{}",
+        e.message()
+    );
+}
+
+#[test]
 fn harmonic_trap_closed_forms() {
     // Bosons in a 1D harmonic trap (levels n ħω): Q_N = Π_{j=1}^{N} 1/(1 − x^j),
     // fermions: x^{N(N−1)/2} times the same, x = e^{−ħω/kT} (standard

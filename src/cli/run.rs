@@ -864,7 +864,7 @@ fn ensemble_cmd(a: EnsembleArgs) -> Result<Option<String>> {
     }
     let tol = parse_tolerance(&a.tolerance)?;
     let sys = System::read(&a.system)?;
-    let report = EnsembleReport::build(
+    let report = EnsembleReport::build_with_progress(
         &sys.product,
         a.particles,
         stats,
@@ -872,6 +872,7 @@ fn ensemble_cmd(a: EnsembleArgs) -> Result<Option<String>> {
         kelvin,
         a.digits,
         &tol,
+        &mut progress_observer(grid.len()),
     )?;
     emit(render(&report, format(a.out.format))?, &a.out)
 }

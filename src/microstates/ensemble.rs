@@ -257,6 +257,21 @@ pub(crate) fn canonical_at(
             lost_bits: 0,
         });
     }
+    if let (Statistics::Fermi, Some(top)) = (stats, spectrum.highest_energy()) {
+        let states = spectrum
+            .levels_within(&top, &crate::spectrum::Budget::default())?
+            .total_states();
+        if states < n.into() {
+            return Err(Error::invalid(
+                "--particles",
+                n,
+                &format!(
+                    "{n} fermions cannot share the {states} orbitals of this finite spectrum \
+                     (Q_N = 0); give at most {states}"
+                ),
+            ));
+        }
+    }
     let mut lost = 0u32;
     let mut last = None;
     let mut estimate: Option<u32> = None;

@@ -295,6 +295,22 @@ impl EnsembleReport {
         digits: u32,
         tol: &BigRational,
     ) -> Result<Self> {
+        Self::build_with_progress(spectrum, n, stats, grid, kelvin, digits, tol, &mut |_| {})
+    }
+
+    /// As [`EnsembleReport::build`], telling `progress` how many
+    /// temperatures are done after each one.
+    #[allow(clippy::too_many_arguments)]
+    pub fn build_with_progress(
+        spectrum: &dyn Spectrum,
+        n: u64,
+        stats: Statistics,
+        grid: &[BigRational],
+        kelvin: bool,
+        digits: u32,
+        tol: &BigRational,
+        progress: &mut dyn FnMut(usize),
+    ) -> Result<Self> {
         let temp = |t: &BigRational| {
             if kelvin {
                 Temperature::Kelvin(t.clone())
@@ -315,6 +331,7 @@ impl EnsembleReport {
             let c = canonical_at(&cached, n, stats, &beta, digits)?;
             states.push((t.clone(), exceeds(&c)));
             rows.push(point_from(&c, n, exact_decimal(t, 40), digits));
+            progress(rows.len());
         }
         let mut sorted = states.clone();
         sorted.sort_by(|a, b| a.0.cmp(&b.0));
