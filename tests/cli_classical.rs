@@ -1,40 +1,16 @@
 //! `zsum crossover` and `zsum compare` end to end: JSON shape, plots, and
 //! bad input (exit status 2, nothing written).
 
-use std::process::{Command, Output};
+mod common;
 
-fn run(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_zsum"))
-        .args(args)
-        .output()
-        .expect("failed to start the zsum binary")
-}
-
-fn ok_json(args: &[&str]) -> serde_json::Value {
-    let out = run(args);
-    assert!(
-        out.status.success(),
-        "{args:?}: {}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    serde_json::from_slice(&out.stdout).expect("valid JSON")
-}
-
-fn refused(args: &[&str], needle: &str) {
-    let out = run(args);
-    assert_eq!(out.status.code(), Some(2), "{args:?}");
-    let err = String::from_utf8_lossy(&out.stderr);
-    assert!(err.starts_with("zsum: "), "{err}");
-    assert!(err.contains(needle), "{args:?}: {err}");
-    assert!(out.stdout.is_empty());
-}
+use common::{json, refused, run};
 
 /// The rotor's classical Cv crosses 1% three times (mpmath 1.3.0, 40
 /// digits, findroot of |1/Cv − 1| = 0.01 on the direct sum: T/θ =
 /// 0.600571001676, 0.61648276109, 1.92063600093); with B = 2 K, T doubles.
 #[test]
 fn crossover_json_lists_every_crossing() {
-    let v = ok_json(&[
+    let v = json(&[
         "crossover",
         "rotor",
         "--B",
@@ -149,7 +125,7 @@ fn compare_writes_table_and_plot() {
         assert!(texts.iter().any(|t| t == want), "{want} missing: {texts:?}");
     }
     // JSON rows carry exact values and each approximation's errors.
-    let v = ok_json(&[
+    let v = json(&[
         "compare",
         "oscillator",
         "--freq",

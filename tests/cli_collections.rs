@@ -2,15 +2,10 @@
 //! counts as decimal strings in JSON, refusals with exit status 2 and no
 //! partial output.
 
-use std::path::Path;
-use std::process::{Command, Output};
+mod common;
 
-fn zsum(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_zsum"))
-        .args(args)
-        .output()
-        .expect("run zsum")
-}
+use common::{json, refused, run};
+use std::path::Path;
 
 fn example(name: &str) -> String {
     Path::new(env!("CARGO_MANIFEST_DIR"))
@@ -18,25 +13,6 @@ fn example(name: &str) -> String {
         .join(name)
         .display()
         .to_string()
-}
-
-/// Runs zsum, requires success, and reads its JSON.
-fn json(args: &[&str]) -> serde_json::Value {
-    let out = zsum(args);
-    assert!(
-        out.status.success(),
-        "{args:?}: {}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    serde_json::from_slice(&out.stdout).unwrap()
-}
-
-fn refused(args: &[&str], needle: &str) {
-    let out = zsum(args);
-    let err = String::from_utf8_lossy(&out.stderr);
-    assert_eq!(out.status.code(), Some(2), "{args:?}: {err}");
-    assert!(out.stdout.is_empty(), "{args:?} wrote output");
-    assert!(err.contains(needle), "{args:?}: {err}");
 }
 
 #[test]
@@ -260,7 +236,7 @@ fn bad_input_exits_2_and_writes_nothing() {
     // A refused run leaves no file behind.
     let dir = tempfile::tempdir().unwrap();
     let target = dir.path().join("out.json");
-    let out = zsum(&[
+    let out = run(&[
         "ensemble",
         "--system",
         &trap,

@@ -1,31 +1,8 @@
 //! `zsum species`, `zsum thermo SPECIES` and `zsum hydrogen` end to end.
 
-use std::process::{Command, Output};
+mod common;
 
-fn run(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_zsum"))
-        .args(args)
-        .output()
-        .expect("failed to start the zsum binary")
-}
-
-fn json(args: &[&str]) -> serde_json::Value {
-    let out = run(args);
-    assert!(
-        out.status.success(),
-        "{args:?}: {}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    serde_json::from_slice(&out.stdout).expect("valid JSON")
-}
-
-fn refused(args: &[&str], needle: &str) {
-    let out = run(args);
-    assert_eq!(out.status.code(), Some(2), "{args:?}");
-    let err = String::from_utf8_lossy(&out.stderr);
-    assert!(err.contains(needle), "{args:?}: {err}");
-    assert!(out.stdout.is_empty());
-}
+use common::{json, refused, run};
 
 /// CODATA Key Values (1989), S°(N2, 298.15 K, 1 bar) = 191.609 J/(mol K)
 /// (from memory); Cp° = 29.124 J/(mol K) (same source, from memory).

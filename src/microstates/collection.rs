@@ -32,9 +32,10 @@
 use crate::error::{Error, Result};
 use crate::exact::exact_decimal;
 
-/// An exact energy for people: a decimal where it has a short one, else 12
-/// significant digits marked as rounded.
-fn rational_string(x: &BigRational) -> String {
+/// An exact energy for messages: its decimal where it has one of up to 40
+/// digits (as a user would have typed it), else 12 significant digits
+/// marked as rounded.
+fn energy_text(x: &BigRational) -> String {
     let e = exact_decimal(x, 40);
     if e.contains('/') {
         format!("≈{}", crate::exact::format_sig(x, 12))
@@ -149,7 +150,7 @@ impl Grid {
                 if !s.is_positive() {
                     return Err(Error::invalid(
                         "--grid",
-                        rational_string(s),
+                        energy_text(s),
                         "the grid step must be greater than zero",
                     ));
                 }
@@ -173,20 +174,20 @@ impl Grid {
             if !steps.is_integer() {
                 return Err(Error::invalid(
                     "level",
-                    format!("{} {unit}", rational_string(&l.energy)),
+                    format!("{} {unit}", energy_text(&l.energy)),
                     &format!(
                         "its energy above the ground ({} {unit}) is not a whole number of grid \
                          steps of {} {unit}; give a grid step that divides every level's energy \
                          above the ground, or leave --grid out to use their common divisor",
-                        rational_string(&(&l.energy - &ground)),
-                        rational_string(&step)
+                        energy_text(&(&l.energy - &ground)),
+                        energy_text(&step)
                     ),
                 ));
             }
             let e = steps.to_integer().to_u64().ok_or_else(|| {
                 Error::budget(format!(
                     "the level at {} {unit} lies {} grid steps above the ground, beyond any table",
-                    rational_string(&l.energy),
+                    energy_text(&l.energy),
                     steps.to_integer()
                 ))
             })?;
@@ -216,18 +217,35 @@ impl Grid {
         if stats != Statistics::Fermi {
             return Some(BigUint::zero());
         }
-        let mut left = BigUint::from(n);
-        let mut total = BigUint::zero();
-        for (e, g) in &self.levels {
-            let take = if &left < g { left.clone() } else { g.clone() };
-            total += &take * BigUint::from(*e);
-            left -= take;
-            if left.is_zero() {
-                return Some(total);
-            }
-        }
-        None
+        let steps = self
+            .levels
+            .iter()
+            .map(|(e, g)| (BigRational::from_integer((*e).into()), g));
+        lowest_filling(steps, n).and_then(|f| f.to_integer().to_biguint())
     }
+}
+
+/// The least total excitation of `n` fermions in levels `(excitation,
+/// degeneracy)` given in rising order: the lowest orbitals filled. `None`
+/// if the levels hold fewer than `n` orbitals.
+pub(crate) fn lowest_filling<'a>(
+    levels: impl IntoIterator<Item = (BigRational, &'a BigUint)>,
+    n: u64,
+) -> Option<BigRational> {
+    let mut left = BigUint::from(n);
+    let mut total = BigRational::zero();
+    if left.is_zero() {
+        return Some(total);
+    }
+    for (e, g) in levels {
+        let take = if &left < g { left.clone() } else { g.clone() };
+        total += e * BigRational::from_integer(take.clone().into());
+        left -= take;
+        if left.is_zero() {
+            return Some(total);
+        }
+    }
+    None
 }
 
 /// gcd of two non-negative rationals: gcd of numerators over lcm of
@@ -260,10 +278,6 @@ impl Table {
             data: vec![0; rows * cols],
             budget,
         }
-    }
-
-    fn rows(&self) -> usize {
-        self.data.len() / (self.cols * self.w)
     }
 
     /// Adds row `src` (shifted right by `shift` columns) into row `dst` for
@@ -349,7 +363,7 @@ impl Table {
 }
 
 /// C(n, k) exactly.
-fn binomial(n: &BigUint, k: u64) -> BigUint {
+pub(crate) fn binomial(n: &BigUint, k: u64) -> BigUint {
     if &BigUint::from(k) > n {
         return BigUint::zero();
     }
@@ -378,7 +392,7 @@ pub fn table_bytes(orbitals: &BigUint, n: u64, bins: u64, stats: Statistics) -> 
 fn count_bits(orbitals: &BigUint, n: u64, stats: Statistics) -> f64 {
     let m = orbitals.to_f64().unwrap_or(f64::MAX).max(1.0);
     let nf = n as f64;
-    let ln_fact = |x: f64| libm_lgamma(x + 1.0);
+    let ln_fact = super::ln_factorial;
     let bits = match stats {
         Statistics::Distinct => nf * m.log2(),
         Statistics::Bose => (ln_fact(m + nf - 1.0) - ln_fact(nf) - ln_fact(m - 1.0)) / 2f64.ln(),
@@ -419,23 +433,6 @@ pub fn count_seconds(grid: &Grid, n: u64, stats: Statistics, bins: usize) -> f64
         Statistics::Distinct => ops * (20e-9 + limbs * 2e-9),
         _ => ops * limbs * 1e-10,
     }
-}
-
-/// ln Γ(x) for x ≥ 1, to a few digits (Stirling with two corrections),
-/// enough for size estimates.
-fn libm_lgamma(x: f64) -> f64 {
-    if x < 7.0 {
-        // Shift up: Γ(x) = Γ(x + k) / (x (x+1) ... (x+k−1)).
-        let mut p = 1.0;
-        let mut y = x;
-        while y < 7.0 {
-            p *= y;
-            y += 1.0;
-        }
-        return libm_lgamma(y) - p.ln();
-    }
-    (x - 0.5) * x.ln() - x + 0.5 * (2.0 * std::f64::consts::PI).ln() + 1.0 / (12.0 * x)
-        - 1.0 / (360.0 * x * x * x)
 }
 
 /// Ω(k) for k = 0..=`bins − 1` steps of total excitation above N·ε₀: the
@@ -545,7 +542,6 @@ pub fn count_on_grid(
             }
         })
         .collect();
-    debug_assert_eq!(t.rows(), n_us + 1);
     Ok((0..bins)
         .map(|col| {
             let mut s = BigUint::zero();
@@ -665,11 +661,11 @@ pub fn microstates(
     if up_to < &base {
         return Err(Error::invalid(
             "--up-to",
-            rational_string(up_to),
+            energy_text(up_to),
             &format!(
                 "{n} particles have at least {} {unit} (N times the single-particle ground); \
                  give a cutoff of at least that",
-                rational_string(&base)
+                energy_text(&base)
             ),
         ));
     }
@@ -706,14 +702,14 @@ pub fn microstates(
                     None => format!(
                         "{n} fermions need {n} distinct orbitals, but the spectrum lists only {below} \
                          orbitals at or below the cutoff {} {unit}",
-                        rational_string(up_to)
+                        energy_text(up_to)
                     ),
                     Some(l) => format!(
                         "{n} fermions fill the lowest orbitals with at least {} {unit}, above the \
                          cutoff {} {unit}; only {below} orbitals lie at or below the cutoff \
                          (raise --up-to to at least that)",
-                        rational_string(&(&base + &grid.step * BigRational::from_integer(l.into()))),
-                        rational_string(up_to)
+                        energy_text(&(&base + &grid.step * BigRational::from_integer(l.into()))),
+                        energy_text(up_to)
                     ),
                 },
             ));
@@ -787,14 +783,14 @@ fn finest_level_error(levels: &LevelList, grid: &Grid, bins: &BigInt, budget: &B
         .iter()
         .skip(1)
         .max_by_key(|l| (&l.energy - &grid.ground).denom().clone())
-        .map(|l| format!("{} {unit}", rational_string(&l.energy)))
+        .map(|l| format!("{} {unit}", energy_text(&l.energy)))
         .unwrap_or_else(|| "the ground".into());
     Error::budget(format!(
         "the levels lie on a common grid of {} {unit} (the level at {finest} sets how fine), so \
          the count needs {bins} energies per particle number, more than the memory budget of {} \
          allows; the energies cannot be put on a coarser integer grid exactly: lower --up-to, or \
          round the levels in the file to a coarser grid",
-        rational_string(&grid.step),
+        energy_text(&grid.step),
         human_bytes(budget.limit() as f64)
     ))
 }

@@ -21,7 +21,7 @@
 //! with the working precision raised by the bits the cancellation cost
 //! (Ziv's strategy); the precision used and the bits lost are reported.
 
-use super::collection::{check_particles, Statistics};
+use super::collection::{check_particles, lowest_filling, Statistics};
 use crate::error::{Error, Result};
 use crate::spectrum::Spectrum;
 use crate::sum::{float_to_decimal, precision_for, stats_of, to_rug, Stats, Temperature};
@@ -36,8 +36,10 @@ const RP: u32 = 64;
 
 /// A value with a bound on its error.
 #[derive(Debug, Clone)]
-struct Ball {
-    c: Float,
+pub(crate) struct Ball {
+    /// The centre.
+    pub c: Float,
+    /// A bound on the distance to the true value.
     r: Float,
 }
 
@@ -130,7 +132,8 @@ impl Ball {
         ))
     }
 
-    fn err(&self) -> f64 {
+    /// The error bound, rounded up to f64.
+    pub fn err(&self) -> f64 {
         self.r.to_f64_round(Round::Up)
     }
 }
@@ -177,30 +180,14 @@ impl Jet {
 #[derive(Debug, Clone)]
 pub(crate) struct Canonical {
     /// ln Q_N, U/kT, Cv/k of the N-particle system.
-    pub ln_q: Ball2,
-    pub u: Ball2,
-    pub cv: Ball2,
+    pub ln_q: Ball,
+    pub u: Ball,
+    pub cv: Ball,
     /// One-particle ln q, U/kT, Cv/k at β.
     pub one: Stats,
     /// Working precision (bits) and bits lost to cancellation.
     pub prec: u32,
     pub lost_bits: u32,
-}
-
-/// A ball exposed to the rest of the crate: centre and error bound.
-#[derive(Debug, Clone)]
-pub(crate) struct Ball2 {
-    pub c: Float,
-    pub err: f64,
-}
-
-impl From<Ball> for Ball2 {
-    fn from(b: Ball) -> Self {
-        Ball2 {
-            err: b.err(),
-            c: b.c,
-        }
-    }
 }
 
 /// The one-particle jet q̃(kβ) (energies from ε₀) with its bounds.
@@ -243,10 +230,12 @@ pub(crate) fn canonical_at(
         let prec = precision_for(digits, 0);
         let eps = 10f64.powi(-(digits as i32) - 6);
         let one = stats_of(spectrum, beta, eps, prec)?;
-        let times_n = |x: &Float, e: f64| Ball2 {
-            c: Float::with_val(prec, x * n),
-            err: e * n as f64 * (1.0 + 1e-12)
-                + x.to_f64().abs() * n as f64 * 2f64.powi(-(prec as i32) + 1),
+        let times_n = |x: &Float, e: f64| {
+            let scaled = Float::with_val(RP, e) * n;
+            Ball::rounded(
+                Float::with_val(prec, x * n),
+                up_mul(&scaled, &Float::with_val(RP, 1.0 + 1e-12)),
+            )
         };
         return Ok(Canonical {
             ln_q: times_n(&one.ln_q, one.err_ln_q),
@@ -294,9 +283,6 @@ pub(crate) fn canonical_at(
             qs.push(one_particle_jet(&st, &(&kb * &e0), prec));
         }
         let (q_n, lost_now) = recursion(&qs, stats, prec);
-        if estimate.is_none() && stats == Statistics::Fermi {
-            estimate = Some(fermi_loss_estimate(spectrum, n, beta, &qs, prec)?);
-        }
         let [v, d1, d2] = q_n.0;
         let shift = Float::with_val(prec, to_rug(&base_shift));
         let shift_b = Ball::rounded(shift, Float::new(RP));
@@ -314,9 +300,9 @@ pub(crate) fn canonical_at(
         if let Some((ln_q, u, cv)) = ok {
             let good = b_ok(&ln_q, target) && b_ok(&u, target) && b_ok(&cv, target);
             let out = Canonical {
-                ln_q: ln_q.into(),
-                u: u.into(),
-                cv: cv.into(),
+                ln_q,
+                u,
+                cv,
                 one,
                 prec,
                 lost_bits: lost_now,
@@ -331,6 +317,9 @@ pub(crate) fn canonical_at(
         lost = if settled {
             lost.max(lost_now) + 32
         } else {
+            if estimate.is_none() && stats == Statistics::Fermi {
+                estimate = Some(fermi_loss_estimate(spectrum, n, beta, &qs, prec)?);
+            }
             let est = estimate.unwrap_or(0);
             if lost >= est {
                 lost * 2 + 32
@@ -386,20 +375,8 @@ fn fermi_loss_estimate(
         }
         span = &span * BigRational::from_integer(4.into());
     };
-    let mut left = num_bigint::BigUint::from(n);
-    let mut fill = BigRational::from_integer(0.into());
-    for l in levels.iter() {
-        let take = if left < l.degeneracy {
-            left.clone()
-        } else {
-            l.degeneracy.clone()
-        };
-        fill += (&l.energy - &e0) * BigRational::from_integer(take.clone().into());
-        left -= take;
-        if left == 0u32.into() {
-            break;
-        }
-    }
+    let fill = lowest_filling(levels.iter().map(|l| (&l.energy - &e0, &l.degeneracy)), n)
+        .unwrap_or_default();
     let x = (beta * fill).to_f64().unwrap_or(f64::MAX);
     Ok(((n as f64).log2() + log2_bose + x / ln2 + 16.0).min(1e6) as u32)
 }
@@ -530,26 +507,29 @@ pub fn ensemble_point(
     Ok(point_from(&c, n, t_text, digits))
 }
 
-/// ln(q^N/N!) − ln Q_N: the log of the Boltzmann count's ratio to the exact.
-pub(crate) fn boltzmann_log_ratio(c: &Canonical, n: u64) -> Float {
+/// ln(q^N/N!), the Boltzmann count.
+fn ln_boltzmann(c: &Canonical, n: u64) -> Float {
     let p = c.prec;
     let ln_fact = Float::with_val(p, Float::with_val(p, n + 1).ln_gamma_ref());
-    let ln_b = Float::with_val(p, &c.one.ln_q * n) - ln_fact;
-    Float::with_val(p, ln_b - &c.ln_q.c)
+    Float::with_val(p, &c.one.ln_q * n) - ln_fact
+}
+
+/// ln(q^N/N!) − ln Q_N: the log of the Boltzmann count's ratio to the exact.
+pub(crate) fn boltzmann_log_ratio(c: &Canonical, n: u64) -> Float {
+    Float::with_val(c.prec, ln_boltzmann(c, n) - &c.ln_q.c)
 }
 
 /// The printed point of a canonical result.
 pub(crate) fn point_from(c: &Canonical, n: u64, t_text: String, digits: u32) -> EnsemblePoint {
     let p = c.prec;
     let s = Float::with_val(p, &c.ln_q.c + &c.u.c);
-    let (ln_q, ok1) = float_to_decimal(&c.ln_q.c, c.ln_q.err, 0.0, digits);
-    let (u, ok2) = float_to_decimal(&c.u.c, c.u.err, 0.0, digits);
-    let (cv, ok3) = float_to_decimal(&c.cv.c, c.cv.err, 0.0, digits);
-    let (s_t, ok4) = float_to_decimal(&s, c.ln_q.err + c.u.err, 0.0, digits);
+    let (ln_q, ok1) = float_to_decimal(&c.ln_q.c, c.ln_q.err(), 0.0, digits);
+    let (u, ok2) = float_to_decimal(&c.u.c, c.u.err(), 0.0, digits);
+    let (cv, ok3) = float_to_decimal(&c.cv.c, c.cv.err(), 0.0, digits);
+    let (s_t, ok4) = float_to_decimal(&s, c.ln_q.err() + c.u.err(), 0.0, digits);
     let nf = Float::with_val(p, n);
-    let ln_fact = Float::with_val(p, Float::with_val(p, n + 1).ln_gamma_ref());
     let ln_lab = Float::with_val(p, &c.one.ln_q * &nf);
-    let ln_b = Float::with_val(p, &ln_lab - &ln_fact);
+    let ln_b = ln_boltzmann(c, n);
     let u_b = Float::with_val(p, &c.one.u * &nf);
     let cv_b = Float::with_val(p, &c.one.cv * &nf);
     let rel = |a: &Float, b: &Float| -> Float {

@@ -261,14 +261,20 @@ pub fn einstein_solid(n: u64, q: u64) -> BigUint {
     if n == 0 {
         return BigUint::from(u32::from(q == 0));
     }
-    // C(q + n − 1, q) by the multiplicative formula, exact at every step.
-    let mut c = BigUint::from(1u32);
-    let k = q.min(n - 1);
-    let top = q + n - 1;
-    for i in 0..k {
-        c = c * BigUint::from(top - i) / BigUint::from(i + 1);
-    }
-    c
+    collection::binomial(&BigUint::from(q + n - 1), q.min(n - 1))
+}
+
+/// ln x! for x ≥ 0 (through MPFR's ln Γ), for estimates and approximations.
+pub(crate) fn ln_factorial(x: f64) -> f64 {
+    rug::Float::with_val(64, x + 1.0).ln_gamma().to_f64()
+}
+
+/// ln of a big integer at `prec` bits (−∞ for zero).
+pub(crate) fn ln_biguint(x: &BigUint, prec: u32) -> rug::Float {
+    let r = crate::sum::to_rug(&BigRational::from_integer(num_bigint::BigInt::from(
+        x.clone(),
+    )));
+    rug::Float::with_val(prec, rug::Float::with_val(prec, r).ln_ref())
 }
 
 /// Rounded modes as `w(d), ...`: frequency in grains (degeneracy).

@@ -8,7 +8,6 @@ use crate::exact::{exact_decimal, format_sig, parse_rational};
 use crate::export::Tabular;
 use crate::spectrum::Spectrum;
 use crate::sum::{float_to_decimal, to_rug, Temperature};
-use num_bigint::BigInt;
 use num_rational::BigRational;
 use num_traits::Zero;
 use rug::Float;
@@ -64,11 +63,6 @@ fn exact_float(r: &BigRational, prec: u32) -> Float {
     Float::with_val(prec, to_rug(r))
 }
 
-fn ln_big(x: &num_bigint::BigUint) -> Float {
-    let r = to_rug(&BigRational::from_integer(BigInt::from(x.clone())));
-    Float::with_val(PREC, Float::with_val(PREC, r).ln_ref())
-}
-
 impl MicroReport {
     /// The report of `omega`, with the canonical comparison at `compare`
     /// energies spread over the rows, values to `digits` digits.
@@ -82,7 +76,10 @@ impl MicroReport {
         let nz: Vec<usize> = (0..omega.counts.len())
             .filter(|&k| !omega.counts[k].is_zero())
             .collect();
-        let logs: Vec<Float> = nz.iter().map(|&k| ln_big(&omega.counts[k])).collect();
+        let logs: Vec<Float> = nz
+            .iter()
+            .map(|&k| super::ln_biguint(&omega.counts[k], PREC))
+            .collect();
         let step = exact_float(&omega.grid.step, PREC);
         // 1/kT by the discrete derivative of ln Ω.
         let beta: Vec<Option<Float>> = (0..nz.len())
@@ -168,13 +165,11 @@ impl MicroReport {
     }
 }
 
-/// An exact energy for the table: as is when short, else 12 digits.
+/// An exact energy for the table: its decimal when that has at most 12
+/// digits, else 12 digits.
 fn shown(exact: &str) -> String {
-    if exact.len() <= 16 {
-        return exact.to_string();
-    }
     match parse_rational(exact) {
-        Ok(x) => format_sig(&x, 12),
+        Ok(x) => crate::classical::rational_text(&x, 12),
         Err(_) => exact.to_string(),
     }
 }
@@ -333,7 +328,7 @@ impl EnsembleReport {
             rows.push(point_from(&c, n, exact_decimal(t, 40), digits));
             progress(rows.len());
         }
-        let mut sorted = states.clone();
+        let mut sorted = states;
         sorted.sort_by(|a, b| a.0.cmp(&b.0));
         sorted.dedup_by(|a, b| a.0 == b.0);
         let mut crossings = Vec::new();

@@ -142,7 +142,7 @@ pub fn whitten_rabinovitch(freqs: &[f64], e: f64) -> (f64, f64, bool) {
     };
     let a = 1.0 - beta * omega;
     let ln_prod: f64 = freqs.iter().map(|v| v.ln()).sum();
-    let ln_fact = |n: f64| -> f64 { (1..=n as u64).map(|i| (i as f64).ln()).sum() };
+    let ln_fact = super::ln_factorial;
     let base = (e + a * ez).ln();
     let ln_w = s * base - ln_fact(s) - ln_prod;
     let ln_rho = (s - 1.0) * base + (1.0 - beta * domega).ln() - ln_fact(s - 1.0) - ln_prod;
@@ -192,15 +192,7 @@ pub struct WrReport {
 }
 
 fn ln_big(x: &BigUint) -> f64 {
-    if x.is_zero() {
-        return f64::NEG_INFINITY;
-    }
-    let bits = x.bits();
-    if bits < 1000 {
-        return x.to_f64().unwrap_or(f64::INFINITY).ln();
-    }
-    let shift = bits - 60;
-    (x >> shift).to_f64().unwrap_or(1.0).ln() + shift as f64 * std::f64::consts::LN_2
+    super::ln_biguint(x, 64).to_f64()
 }
 
 fn rel_text(ln_ratio: f64) -> String {

@@ -65,3 +65,33 @@ pub fn check_spectrum(s: &dyn Spectrum, cutoff: &BigRational, sample: usize) {
         assert!(s.states_at(&mid).expect("states").is_empty());
     }
 }
+
+/// Runs the zsum binary with `args`.
+pub fn run(args: &[&str]) -> std::process::Output {
+    std::process::Command::new(env!("CARGO_BIN_EXE_zsum"))
+        .args(args)
+        .output()
+        .expect("failed to start the zsum binary")
+}
+
+/// Runs zsum, requires success, and reads its JSON.
+pub fn json(args: &[&str]) -> serde_json::Value {
+    let out = run(args);
+    assert!(
+        out.status.success(),
+        "{args:?}: {}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    serde_json::from_slice(&out.stdout).expect("valid JSON")
+}
+
+/// Requires zsum to refuse `args`: exit status 2, a `zsum: ` message
+/// containing `needle`, and nothing on standard output.
+pub fn refused(args: &[&str], needle: &str) {
+    let out = run(args);
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(2), "{args:?}: {err}");
+    assert!(err.starts_with("zsum: "), "{err}");
+    assert!(err.contains(needle), "{args:?}: {err}");
+    assert!(out.stdout.is_empty(), "{args:?} wrote output");
+}
