@@ -51,7 +51,7 @@ fn einstein_solid_json_holds_exact_counts() {
 fn fermions_in_a_cage_start_at_the_filled_shells() {
     // 20 fermions in a cube fill the levels 3, 6, 9, 11, 12, 14 (1+3+3+3+1+6
     // = 17 states) and 3 of the 3 at 17: one state at 228 box units, so the
-    // first row has Omega = 1 and steps = 0 above N·3 + 168.
+    // first row has Omega = 1, 228 − 20·3 = 168 steps above N·ε₀.
     let v = json(&[
         "microstates",
         "--system",
