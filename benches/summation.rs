@@ -67,5 +67,50 @@ fn sweep(c: &mut Criterion) {
     g.finish();
 }
 
-criterion_group!(benches, sums, sweep);
+fn cold_sweep(c: &mut Criterion) {
+    let mut g = c.benchmark_group("cold");
+    g.sample_size(10);
+    // The README's vibrating rotor (CO-like demo constants), 200 log-spaced
+    // temperatures from 0.01 K (ln q ≈ e^-570) to 300 K, 15 digits.
+    let vib = zsum::models::oscillator::AnharmonicOscillator::new(
+        r("2358.57"),
+        r("14.324"),
+        r("0"),
+        EnergyUnit::Wavenumber,
+    )
+    .unwrap();
+    let d = zsum::models::diatomic::RovibDiatomic::new(
+        vib,
+        r("1.99824"),
+        r("0.017318"),
+        r("0"),
+        zsum::models::diatomic::ParityWeights::from_nuclear_spin(2, false),
+    )
+    .unwrap();
+    let grid = zsum::thermo::parse_grid("--T", "log:0.01:300:200").unwrap();
+    g.bench_function(
+        "vibrating_rotor_200_temperatures_0.01_to_300_K_15_digits",
+        |b| {
+            b.iter(|| {
+                black_box(
+                    zsum::thermo::ThermoReport::build(
+                        "diatomic",
+                        &d,
+                        &grid,
+                        true,
+                        15,
+                        zsum::sum::DEFAULT_MAX_BITS,
+                        None,
+                        true,
+                        &mut |_| {},
+                    )
+                    .unwrap(),
+                )
+            })
+        },
+    );
+    g.finish();
+}
+
+criterion_group!(benches, sums, sweep, cold_sweep);
 criterion_main!(benches);

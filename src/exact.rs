@@ -356,3 +356,36 @@ pub fn exact_decimal(x: &BigRational, max_digits: u32) -> String {
         body
     }
 }
+
+/// An English ordinal: 1st, 2nd, 3rd, 4th, 11th, 21st, ...
+///
+/// ```
+/// use zsum::exact::ordinal;
+/// assert_eq!(ordinal(1), "1st");
+/// assert_eq!(ordinal(12), "12th");
+/// assert_eq!(ordinal(23), "23rd");
+/// ```
+pub fn ordinal(n: u64) -> String {
+    let suffix = match (n % 10, n % 100) {
+        (_, 11..=13) => "th",
+        (1, _) => "st",
+        (2, _) => "nd",
+        (3, _) => "rd",
+        _ => "th",
+    };
+    format!("{n}{suffix}")
+}
+
+/// An f64 to `digits` significant digits (for messages, not for results).
+///
+/// ```
+/// use zsum::exact::format_sig_f64;
+/// assert_eq!(format_sig_f64(4.6e21, 3), "4.60e21");
+/// assert_eq!(format_sig_f64(12.5, 3), "12.5");
+/// ```
+pub fn format_sig_f64(x: f64, digits: u32) -> String {
+    match BigRational::from_float(x) {
+        Some(r) => format_sig(&r, digits),
+        None => format!("{x}"),
+    }
+}

@@ -7,10 +7,10 @@
 //! and flagged unless both ends of its error interval round alike.
 
 use crate::error::{Error, Result};
-use crate::exact::{exact_decimal, format_sig, parse_rational};
+use crate::exact::{exact_decimal, parse_rational};
 use crate::export::Tabular;
 use crate::spectrum::Spectrum;
-use crate::sum::{thermo, Temperature, ThermoPoint};
+use crate::sum::{reformat, scaled_decimal, thermo_limited, Path, Temperature, ThermoPoint};
 use crate::units::constants;
 use num_bigint::BigInt;
 use num_rational::BigRational;
@@ -181,39 +181,12 @@ pub struct ThermoReport {
     pub rows: Vec<ThermoRow>,
 }
 
-/// Re-rounds a certified decimal at `extra` more digits to `digits`, times
-/// an exact factor, checking that its half-unit interval rounds alike.
-fn scaled(text: &str, extra_digits: u32, factor: &BigRational, digits: u32) -> (String, bool) {
-    let v = match parse_rational(text) {
-        Ok(v) => v,
-        Err(_) => return (text.to_string(), false),
-    };
-    if v.is_zero() {
-        return ("0".into(), true);
-    }
-    let e = crate::exact::decimal_exponent(&v.abs());
-    let half =
-        BigRational::new(BigInt::from(5), BigInt::from(10)) * pow10r(e - extra_digits as i64 + 1);
-    let lo = (&v - &half) * factor;
-    let hi = (&v + &half) * factor;
-    let mid = format_sig(&(&v * factor), digits);
-    let ok = format_sig(&lo, digits) == mid && format_sig(&hi, digits) == mid;
-    (mid, ok)
-}
-
-fn pow10r(k: i64) -> BigRational {
-    if k >= 0 {
-        BigRational::from_integer(crate::exact::pow10(k as u32))
-    } else {
-        BigRational::new(BigInt::from(1), crate::exact::pow10((-k) as u32))
-    }
-}
-
 impl ThermoReport {
     /// Evaluates `spectrum` at every temperature of `grid` (kelvin when
     /// `kelvin`, else kT in the spectrum's unit), to `digits` certified
     /// digits; `per` adds physical values (kelvin only). `progress` is told
-    /// how many temperatures are done.
+    /// how many temperatures are done. `max_bits` is the effort limit of
+    /// [`crate::sum::thermo_limited`].
     #[allow(clippy::too_many_arguments)]
     pub fn build(
         model: &str,
@@ -221,6 +194,7 @@ impl ThermoReport {
         grid: &[BigRational],
         kelvin: bool,
         digits: u32,
+        max_bits: u32,
         per: Option<Per>,
         functions: bool,
         progress: &mut dyn FnMut(usize),
@@ -261,35 +235,34 @@ impl ThermoReport {
             } else {
                 Temperature::Reduced(t.clone())
             };
-            let wide = thermo(&cached, &temp, digits + EXTRA)?;
-            let one = BigRational::from_integer(BigInt::from(1));
-            let mut ok = wide.certified;
-            let mut re = |s: &str, f: &BigRational| {
-                let (v, good) = scaled(s, digits + EXTRA, f, digits);
-                ok &= good;
-                v
-            };
-            let mut point = wide.clone();
-            point.q = re(&wide.q, &one);
-            point.ln_q = re(&wide.ln_q, &one);
-            point.u_over_kt = re(&wide.u_over_kt, &one);
-            point.cv_over_k = re(&wide.cv_over_k, &one);
-            point.s_over_k = re(&wide.s_over_k, &one);
-            point.f_over_kt = re(&wide.f_over_kt, &one);
-            point.digits = digits;
-            let (u, cv, s, f) = match &scale {
-                Some(c) => {
-                    let ct = c * t;
-                    (
-                        Some(re(&wide.u_over_kt, &ct)),
-                        Some(re(&wide.cv_over_k, c)),
-                        Some(re(&wide.s_over_k, c)),
-                        Some(re(&wide.f_over_kt, &ct)),
-                    )
+            // The physical values are the engine's balls times exact
+            // constants; where one straddles a rounding boundary, the point
+            // is recomputed with more digits (tighter balls).
+            let mut extra = 0;
+            let (mut point, u, cv, s, f) = loop {
+                let wide = thermo_limited(&cached, &temp, digits + extra, Path::Auto, max_bits)?;
+                let mut point = reformat(&wide, digits);
+                let mut ok = point.certified;
+                let mut re = |b: &crate::sum::ball::Ball, f: &BigRational| {
+                    let (v, good) = scaled_decimal(b, f, digits);
+                    ok &= good;
+                    Some(v)
+                };
+                let v = &wide.values;
+                let (u, cv, s, f) = match &scale {
+                    Some(c) => {
+                        let ct = c * t;
+                        (re(&v.u, &ct), re(&v.cv, c), re(&v.s, c), re(&v.f, &ct))
+                    }
+                    None => (None, None, None, None),
+                };
+                point.certified = ok;
+                let room = crate::sum::precision_for(digits + extra + EXTRA) <= max_bits;
+                if ok || !room || extra >= 2 * EXTRA || wide.precision_bits >= max_bits {
+                    break (point, u, cv, s, f);
                 }
-                None => (None, None, None, None),
+                extra += EXTRA;
             };
-            point.certified = ok;
             point.t = exact_decimal(t, 40);
             done[i] = Some(ThermoRow { point, u, cv, s, f });
             progress(count + 1);
@@ -323,6 +296,17 @@ impl Tabular for ThermoReport {
             "{}; T in {}; per particle; every digit certified unless marked *",
             self.description, self.temperature_unit
         )];
+        if let Some(worst) = self
+            .rows
+            .iter()
+            .filter(|r| !r.point.certified)
+            .min_by_key(|r| r.point.certified_digits)
+        {
+            p.push(format!(
+                "* {}",
+                crate::sum::shortfall_text(worst.point.certified_digits, worst.point.max_bits)
+            ));
+        }
         if self.units.is_some() {
             p.push(
                 "ideal model values; design decisions follow certified property data, local \

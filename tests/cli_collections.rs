@@ -215,7 +215,7 @@ fn bad_input_exits_2_and_writes_nothing() {
             "--stats",
             "fermi",
             "--T",
-            "0.01",
+            "0.001",
         ],
         "cancels about",
     );
@@ -233,6 +233,41 @@ fn bad_input_exits_2_and_writes_nothing() {
         ],
         "greater than zero",
     );
+    // At 0.01 K the recursion cancels about 2600 bits, within the limit:
+    // the 50 fermions fill the oscillator shells n = 0..4 (1 + 3 + 6 + 10 +
+    // 15 = 35 states) and 15 of the 21 states of n = 5, so U/kT → 180·θ/T
+    // = 1800 and ln Q → −1800 + ln C(21, 15) as T → 0 (shell filling,
+    // standard result); at T/θ = 0.1 the next excitation costs e^{-10}.
+    let out = run(&[
+        "ensemble",
+        "--system",
+        &trap,
+        "--particles",
+        "50",
+        "--stats",
+        "fermi",
+        "--T",
+        "0.01",
+        "--format",
+        "json",
+    ]);
+    assert_eq!(
+        out.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let row = &v["rows"][0];
+    assert_eq!(row["certified"], true);
+    let ln_q: f64 = row["ln_q"].as_str().unwrap().parse().unwrap();
+    let u: f64 = row["U_over_kT"].as_str().unwrap().parse().unwrap();
+    let ground = -1800.0 + 54264f64.ln();
+    assert!(
+        ln_q > ground && ln_q < ground + 0.1,
+        "ln Q = {ln_q}, ground filling {ground}"
+    );
+    assert!(u > 1800.0 && u < 1800.1, "U/kT = {u}");
     // A refused run leaves no file behind.
     let dir = tempfile::tempdir().unwrap();
     let target = dir.path().join("out.json");
@@ -245,7 +280,7 @@ fn bad_input_exits_2_and_writes_nothing() {
         "--stats",
         "fermi",
         "--T",
-        "0.01:1:0.99",
+        "0.001:1:0.999",
         "-o",
         target.to_str().unwrap(),
     ]);

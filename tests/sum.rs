@@ -333,8 +333,18 @@ fn sweeps_reuse_levels_without_changing_a_digit() {
     )
     .unwrap();
     let grid = parse_grid("--T", "50:1250:400").unwrap();
-    let rep =
-        ThermoReport::build("diatomic", &m, &grid, true, 12, None, true, &mut |_| {}).unwrap();
+    let rep = ThermoReport::build(
+        "diatomic",
+        &m,
+        &grid,
+        true,
+        12,
+        zsum::sum::DEFAULT_MAX_BITS,
+        None,
+        true,
+        &mut |_| {},
+    )
+    .unwrap();
     assert_eq!(rep.rows.len(), 4);
     for (row, t) in rep.rows.iter().zip(&grid) {
         let alone = thermo(&m, &Temperature::Kelvin(t.clone()), 16).unwrap();

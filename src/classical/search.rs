@@ -167,6 +167,32 @@ fn rational_of(x: f64) -> BigRational {
     BigRational::from_float(x).unwrap_or_else(|| BigRational::from_integer(1.into()))
 }
 
+/// The most temperatures one crossover scan evaluates (50 per decade).
+pub const MAX_SCAN_POINTS: usize = 2500;
+
+/// The scan's length for `range` (50 temperatures per decade, at least 60),
+/// estimated before any work: refused beyond [`MAX_SCAN_POINTS`] with the
+/// estimate and how to proceed.
+pub fn scan_points(range: &SearchRange) -> Result<usize> {
+    let ln = |x: &BigRational| super::to_float(x).ln().to_f64();
+    let decades = (ln(&range.to) - ln(&range.from)) / std::f64::consts::LN_10;
+    let n = (decades * 50.0).ceil();
+    if !(n <= MAX_SCAN_POINTS as f64) {
+        return Err(Error::budget(format!(
+            "the range T/θ {} to {} spans {} decades: the scan would evaluate about {} \
+             temperatures (50 per decade), more than the {MAX_SCAN_POINTS} allowed; narrow \
+             --range to at most {} decades around where the approximation fails (the \
+             classical forms fail near T/θ = 1)",
+            format_sig(&range.from, 3),
+            format_sig(&range.to, 3),
+            crate::exact::format_sig_f64(decades, 3),
+            crate::exact::format_sig_f64(n, 2),
+            MAX_SCAN_POINTS / 50
+        )));
+    }
+    Ok((n as usize).max(60))
+}
+
 /// Finds every temperature in `range` (T/θ) where the relative error of
 /// approximation `index` in `quantity` crosses `tol`, each to `digits`
 /// significant digits (1 to 12).
@@ -211,10 +237,9 @@ pub fn crossovers(
         form: c.form().clone(),
     };
     let tol_f = super::to_float(tol);
-    let lo = range.from.to_f64().unwrap_or(f64::MIN_POSITIVE).ln();
-    let hi = range.to.to_f64().unwrap_or(f64::MAX).ln();
-    let decades = (hi - lo) / std::f64::consts::LN_10;
-    let n = ((decades * 50.0).ceil() as usize).max(60);
+    let n = scan_points(range)?;
+    let lo = super::to_float(&range.from).ln().to_f64();
+    let hi = super::to_float(&range.to).ln().to_f64();
     // Grid from hottest to coldest; the ends are the range's exact ends.
     let mut grid: Vec<BigRational> = (0..=n)
         .map(|i| {

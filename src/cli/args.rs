@@ -655,6 +655,12 @@ pub struct TempArgs {
     #[arg(long, value_name = "N", default_value_t = 15)]
     pub digits: u32,
 
+    /// Effort limit: the most working bits spent on one temperature before
+    /// a value is printed marked * (with the reason). Precision starts at
+    /// what the digits need and doubles until every digit is certified.
+    #[arg(long = "max-bits", value_name = "BITS", default_value_t = zsum::sum::DEFAULT_MAX_BITS)]
+    pub max_bits: u32,
+
     /// Also give U, Cv, S, F in J/mol (per mole) or J (per particle).
     #[arg(long, value_enum)]
     pub per: Option<PerArg>,
@@ -707,6 +713,9 @@ pub struct SystemThermo {
     /// Significant digits.
     #[arg(long, value_name = "N", default_value_t = 15)]
     pub digits: u32,
+    /// Effort limit in working bits (as for the models).
+    #[arg(long = "max-bits", value_name = "BITS", default_value_t = zsum::sum::DEFAULT_MAX_BITS)]
+    pub max_bits: u32,
     /// Physical units.
     #[arg(long, value_enum)]
     pub per: Option<PerArg>,

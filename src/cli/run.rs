@@ -470,6 +470,7 @@ fn run_thermo(
                 })?),
                 kt: None,
                 digits: system.digits,
+                max_bits: system.max_bits,
                 per: system.per,
                 out: Output {
                     format: system.format,
@@ -500,6 +501,7 @@ fn run_thermo(
         &grid,
         kelvin,
         temp.digits,
+        temp.max_bits,
         per,
         with_functions,
         &mut progress_observer(grid.len()),

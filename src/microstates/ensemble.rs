@@ -24,119 +24,15 @@
 use super::collection::{check_particles, lowest_filling, Statistics};
 use crate::error::{Error, Result};
 use crate::spectrum::Spectrum;
+use crate::sum::ball::{mag, up_add, Ball, RP};
 use crate::sum::{float_to_decimal, precision_for, stats_of, to_rug, Stats, Temperature};
 use num_rational::BigRational;
 use num_traits::ToPrimitive;
-use rug::float::Round;
 use rug::Float;
 use serde::Serialize;
 
-/// Precision of error radii, in bits.
-const RP: u32 = 64;
-
-/// A value with a bound on its error.
-#[derive(Debug, Clone)]
-pub(crate) struct Ball {
-    /// The centre.
-    pub c: Float,
-    /// A bound on the distance to the true value.
-    r: Float,
-}
-
-fn up_add(a: &Float, b: &Float) -> Float {
-    Float::with_val_round(RP, a + b, Round::Up).0
-}
-
-fn up_mul(a: &Float, b: &Float) -> Float {
-    Float::with_val_round(RP, a * b, Round::Up).0
-}
-
-fn mag(x: &Float) -> Float {
-    Float::with_val_round(RP, &*x.as_abs(), Round::Up).0
-}
-
-impl Ball {
-    fn exact(c: Float) -> Ball {
-        Ball {
-            c,
-            r: Float::new(RP),
-        }
-    }
-
-    /// Adds the rounding error of a result at its own precision.
-    fn rounded(c: Float, r: Float) -> Ball {
-        let p = c.prec();
-        let ulp = mag(&c) >> p;
-        Ball {
-            r: up_add(&r, &ulp),
-            c,
-        }
-    }
-
-    fn add(&self, o: &Ball) -> Ball {
-        let p = self.c.prec().max(o.c.prec());
-        Ball::rounded(Float::with_val(p, &self.c + &o.c), up_add(&self.r, &o.r))
-    }
-
-    fn neg(&self) -> Ball {
-        Ball {
-            c: Float::with_val(self.c.prec(), -&self.c),
-            r: self.r.clone(),
-        }
-    }
-
-    fn mul(&self, o: &Ball) -> Ball {
-        let p = self.c.prec().max(o.c.prec());
-        let r = up_add(
-            &up_add(&up_mul(&mag(&self.c), &o.r), &up_mul(&self.r, &mag(&o.c))),
-            &up_mul(&self.r, &o.r),
-        );
-        Ball::rounded(Float::with_val(p, &self.c * &o.c), r)
-    }
-
-    fn div_int(&self, n: u64) -> Ball {
-        let d = Float::with_val(RP, n);
-        let r = Float::with_val_round(RP, &self.r / &d, Round::Up).0;
-        Ball::rounded(Float::with_val(self.c.prec(), &self.c / n), r)
-    }
-
-    /// `self / o`; `None` if the divisor's ball holds zero.
-    fn div(&self, o: &Ball) -> Option<Ball> {
-        let bc = mag(&o.c);
-        let low = Float::with_val_round(RP, &bc - &o.r, Round::Down).0;
-        if low <= 0 {
-            return None;
-        }
-        // |a/b − ac/bc| ≤ (|ac| rb + ra |bc|) / (|bc| (|bc| − rb)).
-        let num = up_add(&up_mul(&mag(&self.c), &o.r), &up_mul(&self.r, &bc));
-        let den = Float::with_val_round(RP, &bc * &low, Round::Down).0;
-        let r = Float::with_val_round(RP, &num / &den, Round::Up).0;
-        let p = self.c.prec().max(o.c.prec());
-        Some(Ball::rounded(Float::with_val(p, &self.c / &o.c), r))
-    }
-
-    /// ln of a positive ball; `None` if the ball reaches zero.
-    fn ln(&self) -> Option<Ball> {
-        if self.c <= 0 {
-            return None;
-        }
-        let rel = Float::with_val_round(RP, &self.r / &self.c, Round::Up).0;
-        if rel >= 0.5 {
-            return None;
-        }
-        // |ln(c + δ) − ln c| ≤ −ln(1 − rel) ≤ rel / (1 − rel) ≤ 2 rel.
-        let r = up_mul(&rel, &Float::with_val(RP, 2));
-        Some(Ball::rounded(
-            Float::with_val(self.c.prec(), self.c.ln_ref()),
-            r,
-        ))
-    }
-
-    /// The error bound, rounded up to f64.
-    pub fn err(&self) -> f64 {
-        self.r.to_f64_round(Round::Up)
-    }
-}
+/// The most bits the fermion recursion may cancel before it is refused.
+const MAX_LOST_BITS: u32 = 8192;
 
 /// f, β f' and β² f'' of a function of β.
 #[derive(Debug, Clone)]
@@ -190,29 +86,14 @@ pub(crate) struct Canonical {
     pub lost_bits: u32,
 }
 
-/// The one-particle jet q̃(kβ) (energies from ε₀) with its bounds.
-fn one_particle_jet(st: &Stats, shift: &BigRational, prec: u32) -> Jet {
-    // shift = kβ ε₀: ln q̃ = ln q + kβε₀, Ũ/kT = U/kT − kβε₀.
-    let sh = Float::with_val(prec, to_rug(shift));
-    let sh_err = mag(&sh) >> prec;
-    let ln_qt = Float::with_val(prec, &st.ln_q + &sh);
-    let d_ln = st.err_ln_q + sh_err.to_f64_round(Round::Up);
-    let qc = Float::with_val(prec, ln_qt.exp_ref());
-    // e^δ − 1 ≤ 2δ for δ ≤ 1; beyond that the ball is hopeless anyway.
-    let rel = if d_ln <= 1.0 {
-        2.0 * d_ln * (1.0 + 1e-12)
-    } else {
-        d_ln.exp() * 2.0
-    };
-    let q = Ball::rounded(qc.clone(), up_mul(&mag(&qc), &Float::with_val(RP, rel)));
-    let u = Ball::rounded(
-        Float::with_val(prec, &st.u - &sh),
-        up_add(&Float::with_val(RP, st.err_u), &sh_err),
-    );
-    let cv = Ball::rounded(st.cv.clone(), Float::with_val(RP, st.err_cv));
-    let d = q.mul(&u).neg();
-    let dd = q.mul(&u.mul(&u).add(&cv));
-    Jet([q, d, dd])
+/// The one-particle jet q̃(kβ) (energies from ε₀) with its bounds: q̃ is
+/// q' = e^{ln q'} itself, and Ũ/kT the mean excitation.
+fn one_particle_jet(st: &Stats) -> Option<Jet> {
+    let q = st.ln_qx.exp()?;
+    let u = &st.mu;
+    let d = q.mul(u).neg();
+    let dd = q.mul(&u.mul(u).add(&st.cv));
+    Some(Jet([q, d, dd]))
 }
 
 /// Q_N and its derivatives at 1/kT = `beta` (in the spectrum's unit).
@@ -227,20 +108,12 @@ pub(crate) fn canonical_at(
     let e0 = spectrum.ground_energy();
     if stats == Statistics::Distinct {
         // Q = q^N exactly: ln Q = N ln q, and so on.
-        let prec = precision_for(digits, 0);
-        let eps = 10f64.powi(-(digits as i32) - 6);
-        let one = stats_of(spectrum, beta, eps, prec)?;
-        let times_n = |x: &Float, e: f64| {
-            let scaled = Float::with_val(RP, e) * n;
-            Ball::rounded(
-                Float::with_val(prec, x * n),
-                up_mul(&scaled, &Float::with_val(RP, 1.0 + 1e-12)),
-            )
-        };
+        let prec = precision_for(digits);
+        let one = stats_of(spectrum, beta, prec)?;
         return Ok(Canonical {
-            ln_q: times_n(&one.ln_q, one.err_ln_q),
-            u: times_n(&one.u, one.err_u),
-            cv: times_n(&one.cv, one.err_cv),
+            ln_q: one.ln_q().mul_int(n),
+            u: one.u().mul_int(n),
+            cv: one.cv.mul_int(n),
             one,
             prec,
             lost_bits: 0,
@@ -265,22 +138,28 @@ pub(crate) fn canonical_at(
     let mut last = None;
     let mut estimate: Option<u32> = None;
     for attempt in 0..12u32 {
-        // Each q(kβ) must carry the cancellation's loss too; the engine's
-        // tail bounds reach down to 1e-300 (about 2^-996).
-        let log2_eps = -(digits as f64) * std::f64::consts::LOG2_10 - 20.0 - lost as f64;
-        if log2_eps < -990.0 {
+        // Each q(kβ) must carry the cancellation's loss too.
+        if lost > MAX_LOST_BITS {
             break;
         }
-        let eps = 2f64.powf(log2_eps);
-        let prec = precision_for(digits, attempt.min(3)) + lost;
-        let one = stats_of(spectrum, beta, eps, prec)?;
+        let prec = precision_for(digits) + 32 * attempt.min(3) + lost;
+        let one = stats_of(spectrum, beta, prec)?;
         let base_shift = beta * &e0 * BigRational::from_integer(n.into()); // Nβε₀
         let mut qs: Vec<Jet> = Vec::with_capacity(n as usize);
-        qs.push(one_particle_jet(&one, &(beta * &e0), prec));
+        let jet_of = |st: &Stats| {
+            one_particle_jet(st).ok_or_else(|| {
+                Error::invalid(
+                    "spectrum",
+                    spectrum.describe(),
+                    "its sums could not be bounded",
+                )
+            })
+        };
+        qs.push(jet_of(&one)?);
         for k in 2..=n {
             let kb = beta * BigRational::from_integer(k.into());
-            let st = stats_of(spectrum, &kb, eps, prec)?;
-            qs.push(one_particle_jet(&st, &(&kb * &e0), prec));
+            let st = stats_of(spectrum, &kb, prec)?;
+            qs.push(jet_of(&st)?);
         }
         let (q_n, lost_now) = recursion(&qs, stats, prec);
         let [v, d1, d2] = q_n.0;
@@ -338,8 +217,8 @@ pub(crate) fn canonical_at(
             ),
             &format!(
                 "the fermion recursion for {n} particles cancels about {} bits here (Q_N is \
-                 that much smaller than the terms that sum to it), beyond the about 990 bits \
-                 to which the one-particle sums can be certified; give fewer particles or a \
+                 that much smaller than the terms that sum to it), beyond the {MAX_LOST_BITS} bits \
+                 this command spends on it; give fewer particles or a \
                  higher temperature",
                 estimate.unwrap_or(lost).max(lost)
             ),
@@ -511,7 +390,7 @@ pub fn ensemble_point(
 fn ln_boltzmann(c: &Canonical, n: u64) -> Float {
     let p = c.prec;
     let ln_fact = Float::with_val(p, Float::with_val(p, n + 1).ln_gamma_ref());
-    Float::with_val(p, &c.one.ln_q * n) - ln_fact
+    Float::with_val(p, &c.one.ln_q().c * n) - ln_fact
 }
 
 /// ln(q^N/N!) − ln Q_N: the log of the Boltzmann count's ratio to the exact.
@@ -528,10 +407,10 @@ pub(crate) fn point_from(c: &Canonical, n: u64, t_text: String, digits: u32) -> 
     let (cv, ok3) = float_to_decimal(&c.cv.c, c.cv.err(), 0.0, digits);
     let (s_t, ok4) = float_to_decimal(&s, c.ln_q.err() + c.u.err(), 0.0, digits);
     let nf = Float::with_val(p, n);
-    let ln_lab = Float::with_val(p, &c.one.ln_q * &nf);
+    let ln_lab = Float::with_val(p, &c.one.ln_q().c * &nf);
     let ln_b = ln_boltzmann(c, n);
-    let u_b = Float::with_val(p, &c.one.u * &nf);
-    let cv_b = Float::with_val(p, &c.one.cv * &nf);
+    let u_b = Float::with_val(p, &c.one.u().c * &nf);
+    let cv_b = Float::with_val(p, &c.one.cv.c * &nf);
     let rel = |a: &Float, b: &Float| -> Float {
         if b.is_zero() {
             Float::with_val(p, f64::NAN)

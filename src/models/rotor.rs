@@ -145,6 +145,68 @@ fn turnover(energy: impl Fn(u64) -> BigRational, distorted: bool) -> Option<BigR
     None
 }
 
+/// The turnover of `E = B x − D x² + H x³`, x = J(J+1), without walking
+/// the ladder: E(J+1) − E(J) = 2(J+1) P(m) with m = J + 1 and
+/// P(m) = 3H m⁴ + (H − 2D) m² + B, a quadratic in m², so the first
+/// non-increasing rung is found from its root (in f64) and confirmed
+/// exactly on the integers beside it. Falls back to the walk when the
+/// root is near or the estimate cannot be confirmed.
+fn turnover_poly(b: &BigRational, d: &BigRational, h: &BigRational) -> Option<BigRational> {
+    let energy = |j: u64| {
+        let x = int(j * (j + 1));
+        let x2 = &x * &x;
+        b * &x - d * &x2 + h * &x2 * &x
+    };
+    if d.is_zero() && h.is_zero() {
+        return None;
+    }
+    let p = |m: u64| {
+        let u = int(m * m);
+        int(3) * h * &u * &u + (h - int(2) * d) * &u + b
+    };
+    let (a, bb, c) = (
+        3.0 * h.to_f64().unwrap_or(0.0),
+        (h - int(2) * d).to_f64().unwrap_or(0.0),
+        b.to_f64().unwrap_or(0.0),
+    );
+    // Smallest positive root u₁ of a u² + bb u + c.
+    let u1 = if a == 0.0 {
+        if bb < 0.0 {
+            Some(-c / bb)
+        } else {
+            None
+        }
+    } else {
+        let disc = bb * bb - 4.0 * a * c;
+        if disc < 0.0 {
+            None
+        } else {
+            let r = disc.sqrt();
+            let roots = [(-bb - r) / (2.0 * a), (-bb + r) / (2.0 * a)];
+            roots
+                .into_iter()
+                .filter(|u| *u > 0.0)
+                .min_by(|x, y| x.total_cmp(y))
+        }
+    };
+    let m_est = u1.map(|u| u.sqrt().ceil());
+    match m_est {
+        Some(m) if m.is_finite() && m > 10_000.0 && m < 1e7 => {
+            let m = m as u64;
+            // Confirm: P(m*) ≤ 0 < P(m* − 1) for the first m* near m.
+            let lo = m.saturating_sub(3).max(1);
+            let first = (lo..m + 4).find(|&k| !p(k).is_positive())?;
+            if first > lo && p(first - 1).is_positive() {
+                Some(energy(first - 1))
+            } else {
+                turnover(energy, true)
+            }
+        }
+        Some(m) if m >= 1e7 => None,
+        _ => turnover(energy, true),
+    }
+}
+
 /// How many rungs a budget allows.
 fn max_rungs(budget: &Budget) -> u64 {
     (budget.limit() as f64 / LEVEL_BYTES) as u64
@@ -349,7 +411,7 @@ impl Spectrum for LinearRotor {
     }
 
     fn highest_energy(&self) -> Option<BigRational> {
-        turnover(|j| self.energy(j), !(self.d.is_zero() && self.h.is_zero()))
+        turnover_poly(&self.b, &self.d, &self.h)
     }
 
     fn classical_form(&self) -> Option<crate::classical::Form> {
@@ -795,7 +857,7 @@ impl Spectrum for SphericalTop {
     }
 
     fn highest_energy(&self) -> Option<BigRational> {
-        turnover(|j| self.energy(j), !self.d.is_zero())
+        turnover_poly(&self.b, &self.d, &BigRational::zero())
     }
 
     fn growth_exponent(&self) -> Option<f64> {

@@ -1,7 +1,8 @@
 //! Direct summation over listed levels, with the tail bound described in the
 //! module docs of [`crate::sum`].
 
-use super::Stats;
+use super::ball::Ball;
+use super::{check_excitation, ln_target, rational_ball, Stats};
 use crate::error::{Error, Result};
 use crate::spectrum::Spectrum;
 use num_bigint::BigInt;
@@ -67,150 +68,215 @@ fn tail_bounds(count: &dyn Fn(f64) -> f64, x_c: f64, p: f64, ln_eps: f64) -> [f6
     out
 }
 
-/// The weighted sum, mean and central second moment of terms `w_i` at
-/// reduced energies `x_i` (two passes: the mean first, then Σ w (x − μ)²,
-/// so nothing cancels).
-pub(crate) fn moments(xs: &[Float], ws: &[Float], prec: u32) -> (Float, Float, Float) {
-    let mut s0 = Float::new(prec);
-    let mut s1 = Float::new(prec);
-    for (x, w) in xs.iter().zip(ws) {
-        s1 += Float::with_val(prec, w * x);
-        s0 += w;
-    }
-    let mu = Float::with_val(prec, &s1 / &s0);
-    let mut s2 = Float::new(prec);
-    for (x, w) in xs.iter().zip(ws) {
-        let d = Float::with_val(prec, x - &mu);
-        s2 += Float::with_val(prec, &d * &d) * w;
-    }
-    let var = Float::with_val(prec, &s2 / &s0);
-    (s0, mu, var)
-}
-
-/// Direct sum of a spectrum's levels at inverse temperature `beta`. The
-/// cutoff widens until the tail bound is small against every result, not
-/// only against q: at low temperature Cv/k can be far smaller than the
-/// tail's share of q.
-pub(crate) fn stats(s: &dyn Spectrum, beta: &BigRational, eps: f64, prec: u32) -> Result<Stats> {
-    let mut x_min = 0.0;
-    for _ in 0..12 {
-        let (st, x_c) = stats_from(s, beta, eps, prec, x_min)?;
-        let small = |err: f64, v: &rug::Float| err <= eps * v.to_f64().abs();
-        if x_c == 0.0 || (small(st.err_cv, &st.cv) && small(st.err_u, &st.u)) {
+/// Direct sum of a spectrum's levels at inverse temperature `beta`, at
+/// working precision `prec`: the excitation sums are formed apart from the
+/// ground level, their tails bounded relative to the first excited level's
+/// term, and the cutoff widens until the tail bound is small against every
+/// result (at low temperature Cv/k can be far smaller than the tail's share
+/// of q).
+pub(crate) fn stats(s: &dyn Spectrum, beta: &BigRational, prec: u32) -> Result<Stats> {
+    let mut widen = 1.0;
+    for _ in 0..6 {
+        let (st, tail_ok) = stats_from(s, beta, prec, widen)?;
+        if tail_ok {
             return Ok(st);
         }
-        x_min = 2.0 * x_c;
+        widen *= 2.0;
     }
-    stats_from(s, beta, eps, prec, x_min).map(|(st, _)| st)
+    stats_from(s, beta, prec, widen).map(|(st, _)| st)
 }
 
-/// One direct sum with the cutoff at least `x_min` (in units of kT above
-/// the ground); returns the stats and the cutoff used (0 for a finite
-/// spectrum summed completely).
+/// Whether the tails `ln_tail` (absolute, ln) of ⟨x⟩'s and Cv's sums are
+/// below the target against those values themselves (they may be far
+/// smaller than the tail's share of q at low temperature).
+fn tails_small(st: &Stats, ln_tail: &[f64; 3], ln_q: f64, ln_eps: f64) -> bool {
+    let ln_of = |b: &Ball| {
+        if b.c.is_zero() {
+            f64::NEG_INFINITY
+        } else {
+            Float::with_val(64, b.c.abs_ref()).ln().to_f64()
+        }
+    };
+    let (ln_mu, ln_cv) = (ln_of(&st.mu), ln_of(&st.cv));
+    ln_tail[1] - ln_q <= ln_eps + ln_mu && ln_tail[2] - ln_q <= ln_eps + ln_cv
+}
+
+/// The reduced first excitation x₁ = (E₁ − E₀)/kT, found by listing ever
+/// wider windows (cheap: the counting bound says when a window can hold an
+/// excited state). `None` for a spectrum with a single level.
+fn first_excitation(
+    s: &dyn Spectrum,
+    e0: &BigRational,
+    beta: &BigRational,
+) -> Result<Option<(f64, BigRational)>> {
+    let top = s.highest_energy();
+    let g0 = s.count_bound(e0);
+    // Start small (a dense spectrum's first excitation may be a tiny
+    // fraction of kT) and widen fourfold while the counting bound says the
+    // window holds only the ground level: listing is paid once, near x₁.
+    let mut w = 1e-3;
+    loop {
+        let width = BigRational::from_float(w)
+            .map(|x| x / beta)
+            .ok_or_else(|| {
+                Error::invalid("temperature", "for this spectrum", "kT is out of range")
+            })?;
+        let mut cut = e0 + width;
+        let capped = top.as_ref().is_some_and(|t| *t <= cut);
+        if capped {
+            cut = top.clone().unwrap_or(cut);
+        }
+        if capped || s.count_bound(&cut) > g0 {
+            let list = s.levels_up_to(&cut)?;
+            if let Some(l) = list.levels().get(1) {
+                let x1 = ((&l.energy - e0) * beta).to_f64().unwrap_or(f64::INFINITY);
+                return Ok(Some((x1, cut)));
+            }
+            if capped {
+                return Ok(None);
+            }
+        }
+        check_excitation(w, &s.describe())?;
+        w *= 4.0;
+    }
+}
+
+/// One direct sum, the cutoff `widen` times further past the first excited
+/// level than the tail target needs; returns the stats and whether a tail
+/// was cut off.
 fn stats_from(
     s: &dyn Spectrum,
     beta: &BigRational,
-    eps: f64,
     prec: u32,
-    x_min: f64,
-) -> Result<(Stats, f64)> {
-    let mut x_used = 0.0;
+    widen: f64,
+) -> Result<(Stats, bool)> {
+    let ln_eps = ln_target(prec);
     let e0 = s.ground_energy();
     let beta_f = beta.to_f64().unwrap_or(f64::INFINITY);
-    let (levels, ln_tail) = match s.highest_energy() {
-        Some(top) => (s.levels_up_to(&top)?, [f64::NEG_INFINITY; 3]),
-        None => {
-            let p = s.growth_exponent().ok_or_else(|| {
-                Error::invalid(
-                    "spectrum",
-                    s.describe(),
-                    "it has neither a highest level nor a growth exponent for its counting \
-                     bound, so the truncated tail cannot be bounded",
-                )
-            })?;
-            // Start where e^{-x} alone is far below eps, then widen until the
-            // tail bound is small enough.
-            let mut x_c = (-(eps.ln()) + 10.0 + 2.0 * p).max(x_min);
-            loop {
-                let width = BigRational::from_float(x_c / beta_f).ok_or_else(|| {
-                    Error::invalid(
-                        "temperature",
-                        "for this spectrum",
-                        "kT is too small or too large to form a cutoff",
-                    )
-                })?;
-                let cutoff = &e0 + width;
-                let count = |x: f64| -> f64 {
-                    match BigRational::from_float(x / beta_f) {
-                        Some(w) => s.tail_bound(&(&e0 + w)).to_f64().unwrap_or(f64::INFINITY),
-                        None => f64::INFINITY,
+    let p = s.growth_exponent();
+    let top = s.highest_energy();
+    let span = (-ln_eps + 10.0 + 2.0 * p.unwrap_or(0.0)) * widen;
+    let (levels, ln_tail) = match (p, &top) {
+        (None, None) => {
+            return Err(Error::invalid(
+                "spectrum",
+                s.describe(),
+                "it has neither a highest level nor a growth exponent for its counting \
+                 bound, so the truncated tail cannot be bounded",
+            ))
+        }
+        (None, Some(t)) => (s.levels_up_to(t)?, None),
+        (Some(p), _) => match first_excitation(s, &e0, beta)? {
+            None => (s.levels_up_to(&e0)?, None),
+            Some((x1, _)) => {
+                check_excitation(x1, &s.describe())?;
+                // Start where e^{−(x − x₁)} alone is far below the target,
+                // then widen until the tail bound is small against the
+                // first excited level's term g₁ e^{−x₁} ≥ e^{−x₁}.
+                let mut x_c = x1 + span;
+                loop {
+                    let cutoff = &e0
+                        + BigRational::from_float(x_c / beta_f).ok_or_else(|| {
+                            Error::invalid(
+                                "temperature",
+                                "for this spectrum",
+                                "kT is too small or too large to form a cutoff",
+                            )
+                        })?;
+                    if top.as_ref().is_some_and(|t| *t <= cutoff) {
+                        break (s.levels_up_to(top.as_ref().unwrap_or(&cutoff))?, None);
                     }
-                };
-                let t = tail_bounds(&count, x_c, p, eps.ln());
-                // q' ≥ ground degeneracy ≥ 1.
-                if t[0] < eps.ln() - 2.0 && t[2] < eps.ln() - 2.0 || x_c > 1e7 {
-                    if x_c > 1e7 {
+                    let count = |x: f64| -> f64 {
+                        match BigRational::from_float(x / beta_f) {
+                            Some(w) => s.tail_bound(&(&e0 + w)).to_f64().unwrap_or(f64::INFINITY),
+                            None => f64::INFINITY,
+                        }
+                    };
+                    let t = tail_bounds(&count, x_c, p, ln_eps - x1);
+                    let need = ln_eps - x1 - 2.0 + x1.min(1.0).ln().min(0.0) * 2.0;
+                    if t[0] < need && t[1] < need && t[2] < need {
+                        break (s.levels_up_to(&cutoff)?, Some(t));
+                    }
+                    if x_c > x1 + 1e7 {
                         return Err(Error::budget(format!(
-                            "the tail of {} cannot be bounded below the requested error at this \
-                             temperature",
+                            "the tail of {} cannot be bounded below the requested error at \
+                             this temperature",
                             s.describe()
                         )));
                     }
-                    x_used = x_c;
-                    break (s.levels_up_to(&cutoff)?, t);
+                    x_c *= 1.5;
                 }
-                x_c *= 1.5;
             }
-        }
+        },
     };
-    if levels.is_empty() {
+    let mut it = levels.iter();
+    let ground = it
+        .next()
+        .ok_or_else(|| Error::invalid("spectrum", s.describe(), "it has no levels to sum"))?;
+    if ground.energy != e0 {
         return Err(Error::invalid(
             "spectrum",
             s.describe(),
-            "it has no levels to sum",
+            "its lowest listed level differs from its ground energy",
         ));
     }
+    let g0 = big(&ground.degeneracy);
     let beta_r = Float::with_val(prec, &to_rug(beta));
-    let mut xs = Vec::with_capacity(levels.len());
-    let mut ws = Vec::with_capacity(levels.len());
+    let t = ln_tail.unwrap_or([f64::NEG_INFINITY; 3]);
+    let tails = t.map(|lt| Float::with_val(64, lt).exp());
+    let terms = it.map(|l| {
+        let x = Float::with_val(prec, &to_rug(&(&l.energy - &e0))) * &beta_r;
+        (x, big(&l.degeneracy))
+    });
+    let [e, m1, m2] = excited_sums(terms, tails, prec);
+    let cut = ln_tail.is_some();
+    let shift = rational_ball(&(&e0 * beta), prec);
+    let st = Stats::from_excitations(&g0, &e, &m1, &m2, shift)
+        .ok_or_else(|| Error::invalid("spectrum", s.describe(), "its sums could not be bounded"))?;
+    let ok = !cut || tails_small(&st, &t, st.ln_qx.c.to_f64(), ln_eps);
+    Ok((st, ok))
+}
+
+/// Excitation sums `Σ g e^{−x}`, `Σ g x e^{−x}`, `Σ g x² e^{−x}` over
+/// terms `(x, g)` with x > 0 given to within 3 units of relative error, as
+/// balls carrying their rounding (all terms positive: relative to each sum)
+/// and the absolute tail bounds `tails`.
+pub(crate) fn excited_sums(
+    terms: impl Iterator<Item = (Float, Integer)>,
+    tails: [Float; 3],
+    prec: u32,
+) -> [Ball; 3] {
+    let (mut e, mut m1, mut m2) = (Float::new(prec), Float::new(prec), Float::new(prec));
+    let mut w = Float::new(prec);
     let mut x_max = 0f64;
-    for l in levels.iter() {
-        let de = &l.energy - &e0;
-        let x = Float::with_val(prec, &to_rug(&de)) * &beta_r;
-        let g = Integer::from_digits(&l.degeneracy.to_u32_digits(), rug::integer::Order::Lsf);
-        let w = Float::with_val(prec, -&x).exp() * &g;
+    let mut n = 0usize;
+    for (x, g) in terms {
+        use rug::Assign;
+        w.assign(-&x);
+        w.exp_mut();
+        w *= &g;
+        e += &w;
+        w *= &x;
+        m1 += &w;
+        w *= &x;
+        m2 += &w;
         x_max = x_max.max(x.to_f64());
-        xs.push(x);
-        ws.push(w);
+        n += 1;
     }
-    let (s0, mu, var) = moments(&xs, &ws, prec);
-    // Error bounds.
-    let n = levels.len() as f64;
-    let ulp = 2f64.powi(-(prec as i32));
-    let round_rel = (x_max + 8.0 + n) * ulp * 2.0;
-    let q0 = s0.to_f64();
-    let m = mu.to_f64();
-    let v = var.to_f64();
-    let t0 = ln_tail[0].exp() / q0;
-    let t1 = ln_tail[1].exp() / q0;
-    let t2 = ln_tail[2].exp() / q0;
-    let err_mu = t1 + m * t0 + round_rel * (m + 1.0);
-    let err_var = 4.0 * (t2 + 2.0 * m * t1 + m * m * t0 + v * t0)
-        + err_mu * err_mu
-        + round_rel * (v + m * m * ulp);
-    let shift = Float::with_val(prec, &to_rug(&e0)) * &beta_r;
-    let ln_q = Float::with_val(prec, s0.ln_ref()) - &shift;
-    let u = Float::with_val(prec, &mu + &shift);
-    let shift_err = shift.to_f64().abs() * ulp * 4.0;
-    Ok((
-        Stats {
-            ln_q,
-            u,
-            cv: var,
-            err_ln_q: t0 + round_rel + shift_err,
-            err_u: err_mu + shift_err,
-            err_cv: err_var,
-        },
-        x_used,
-    ))
+    // x carries at most 3 units of relative error, so e^{−x} at most 3x + 1
+    // and each product one more; all terms are positive, so each sum's
+    // relative error is at most (3 x_max + n + 16) units.
+    let rel = Float::with_val(64, (3.0 * x_max + n as f64 + 16.0) * 1.01) >> prec;
+    let [t0, t1, t2] = tails;
+    let with = |v: Float, t: Float| {
+        let mut b = Ball::with_rel(v, &rel);
+        b.r = super::ball::up_add(&b.r, &t);
+        b
+    };
+    [with(e, t0), with(m1, t1), with(m2, t2)]
+}
+
+/// A big natural number as an MPFR-ready integer.
+pub(crate) fn big(b: &num_bigint::BigUint) -> Integer {
+    Integer::from_digits(&b.to_u32_digits(), rug::integer::Order::Lsf)
 }

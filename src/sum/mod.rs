@@ -64,15 +64,18 @@
 //!   recurrence runs in fixed point (integers scaled by 2^P, P = prec + 24),
 //!   with each truncation's error tracked term by term into the bounds.
 
+pub(crate) mod ball;
 mod closed;
 mod direct;
 pub(crate) use direct::to_rug;
 mod format;
+mod ladder;
 
 use crate::error::{Error, ErrorKind, Result};
 use crate::exact::rational_string;
 use crate::spectrum::Spectrum;
 use crate::units::EnergyUnit;
+use ball::{Ball, RP};
 use num_rational::BigRational;
 use num_traits::Signed;
 use rug::Float;
@@ -144,36 +147,137 @@ impl Temperature {
     }
 }
 
-/// Sums and their error bounds for one spectrum at one temperature.
+/// The largest first excitation, in units of kT, that the engine sums: its
+/// Boltzmann factor e^{−x} (about 10^−43 429 448 at the limit) and the
+/// moments x e^{−x}, x² e^{−x} stay well inside MPFR's exponent range
+/// (about 10^±323 228 496).
+pub const MAX_EXCITATION: f64 = 1e8;
+
+/// The default effort limit: the most working bits the engine spends on
+/// one value before it prints it marked `*`.
+pub const DEFAULT_MAX_BITS: u32 = 1 << 14;
+
+/// Sums and their error bounds for one spectrum at one temperature, with
+/// energies measured from the ground level: the excitation parts are kept
+/// apart from the ground level's share, so values of order e^{−x₁} (a cold
+/// system) carry errors relative to themselves.
 #[derive(Debug, Clone)]
 pub(crate) struct Stats {
-    /// ln q (true, not shifted).
-    pub(crate) ln_q: Float,
-    /// U/kT.
-    pub(crate) u: Float,
-    /// Cv/k.
-    pub(crate) cv: Float,
-    /// Absolute error bounds of ln q, U/kT and Cv/k.
-    pub(crate) err_ln_q: f64,
-    pub(crate) err_u: f64,
-    pub(crate) err_cv: f64,
+    /// ln q' = ln Σ g e^{−(E−E₀)/kT} (energies from the ground).
+    pub(crate) ln_qx: Ball,
+    /// ⟨(E − E₀)/kT⟩ = U/kT − E₀/kT.
+    pub(crate) mu: Ball,
+    /// Cv/k, the variance of E/kT.
+    pub(crate) cv: Ball,
+    /// E₀/kT.
+    pub(crate) shift: Ball,
 }
 
 impl Stats {
-    fn add(mut self, o: &Stats) -> Stats {
-        self.ln_q += &o.ln_q;
-        self.u += &o.u;
-        self.cv += &o.cv;
-        self.err_ln_q += o.err_ln_q;
-        self.err_u += o.err_u;
-        self.err_cv += o.err_cv;
-        self
+    fn add(&self, o: &Stats) -> Stats {
+        Stats {
+            ln_qx: self.ln_qx.add(&o.ln_qx),
+            mu: self.mu.add(&o.mu),
+            cv: self.cv.add(&o.cv),
+            shift: self.shift.add(&o.shift),
+        }
+    }
+
+    /// ln q = ln q' − E₀/kT.
+    pub(crate) fn ln_q(&self) -> Ball {
+        self.ln_qx.sub(&self.shift)
+    }
+
+    /// U/kT = ⟨x⟩ + E₀/kT.
+    pub(crate) fn u(&self) -> Ball {
+        self.mu.add(&self.shift)
+    }
+
+    /// S/k = ln q' + ⟨x⟩ (the ground energy cancels exactly, so it is
+    /// never subtracted in floating point).
+    pub(crate) fn s(&self) -> Ball {
+        self.ln_qx.add(&self.mu)
+    }
+
+    /// The stats from q' and the raw moments `m1 = Σ g x e^{−x}`, `m2 = Σ g x²
+    /// e^{−x}` over the same levels (with `ln_qx = ln q'` formed by the
+    /// caller, relative to the excitations where they are small):
+    /// ⟨x⟩ = m1/q', Cv/k = m2/q' − ⟨x⟩². The ball arithmetic charges the
+    /// subtraction in full.
+    pub(crate) fn from_moments(
+        ln_qx: Ball,
+        q: &Ball,
+        m1: &Ball,
+        m2: &Ball,
+        shift: Ball,
+    ) -> Option<Stats> {
+        let mu = m1.div(q)?;
+        let second = m2.div(q)?;
+        let cv = second.sub(&mu.mul(&mu));
+        Some(Stats {
+            ln_qx,
+            mu,
+            cv,
+            shift,
+        })
+    }
+
+    /// The stats of a spectrum summed as a ground level of `g0` states and
+    /// excitation sums `e = Σ g e^{−x}`, `m1`, `m2` over the excited levels
+    /// (x > 0): ln q' = ln g₀ + ln(1 + e/g₀), relative to e however small.
+    pub(crate) fn from_excitations(
+        g0: &rug::Integer,
+        e: &Ball,
+        m1: &Ball,
+        m2: &Ball,
+        shift: Ball,
+    ) -> Option<Stats> {
+        let prec = e.prec();
+        let g = Ball::exact(Float::with_val(prec, g0));
+        let ln_g0 = if *g0 == 1 {
+            Ball::exact(Float::new(prec))
+        } else {
+            Ball::rounded(Float::with_val(prec, g.c.ln_ref()), Float::new(RP))
+        };
+        let ratio = e.div(&g)?;
+        let ln_qx = ln_g0.add(&ratio.ln_1p()?);
+        let q = g.add(e);
+        Stats::from_moments(ln_qx, &q, m1, m2, shift)
     }
 }
 
-/// Working precision in bits for a target relative error `eps`.
-pub(crate) fn precision_for(digits: u32, attempt: u32) -> u32 {
-    (digits as f64 * std::f64::consts::LOG2_10).ceil() as u32 + 64 + 32 * attempt
+/// A Ball from an exact rational at `prec` bits (one rounding).
+pub(crate) fn rational_ball(r: &BigRational, prec: u32) -> Ball {
+    Ball::rounded(Float::with_val(prec, &to_rug(r)), Float::new(RP))
+}
+
+/// Refuses a first excitation `x1` (in kT) beyond [`MAX_EXCITATION`].
+pub(crate) fn check_excitation(x1: f64, what: &str) -> Result<()> {
+    if x1 > MAX_EXCITATION || x1.is_nan() {
+        return Err(Error::budget(format!(
+            "at this temperature the first excited level of {what} lies {} kT above the \
+             ground level: its Boltzmann factor e^-{} is beyond the engine's range (the \
+             largest first excitation summed is {:e} kT), and every excitation part of \
+             ln q, U and Cv is below 10^-43000000; check the constants' unit, or raise the \
+             temperature",
+            crate::exact::format_sig_f64(x1, 3),
+            crate::exact::format_sig_f64(x1, 3),
+            MAX_EXCITATION
+        )));
+    }
+    Ok(())
+}
+
+/// Working precision in bits for `digits` significant digits, before any
+/// raise: the digits' bits plus 64 guard bits.
+pub(crate) fn precision_for(digits: u32) -> u32 {
+    (digits as f64 * std::f64::consts::LOG2_10).ceil() as u32 + 64
+}
+
+/// The natural log of the relative tail target at working precision `prec`:
+/// truncated tails are bounded below 2^−(prec − 24) of each value.
+pub(crate) fn ln_target(prec: u32) -> f64 {
+    -((prec as f64) - 24.0) * std::f64::consts::LN_2
 }
 
 /// Which summation path to take.
@@ -186,62 +290,63 @@ pub enum Path {
     Direct,
 }
 
-pub(crate) fn stats_of(s: &dyn Spectrum, beta: &BigRational, eps: f64, prec: u32) -> Result<Stats> {
-    stats_path(s, beta, eps, prec, Path::Auto)
+pub(crate) fn stats_of(s: &dyn Spectrum, beta: &BigRational, prec: u32) -> Result<Stats> {
+    stats_path(s, beta, prec, Path::Auto)
 }
 
-fn stats_path(
-    s: &dyn Spectrum,
-    beta: &BigRational,
-    eps: f64,
-    prec: u32,
-    path: Path,
-) -> Result<Stats> {
-    if path == Path::Direct {
-        return direct::stats(s, beta, eps, prec);
+fn sum_parts(parts: Vec<Result<Stats>>, what: &str) -> Result<Stats> {
+    let mut acc: Option<Stats> = None;
+    for st in parts {
+        let st = st?;
+        acc = Some(match acc {
+            None => st,
+            Some(a) => a.add(&st),
+        });
     }
+    acc.ok_or_else(|| Error::invalid(what, "with no parts", "it needs at least one"))
+}
+
+fn stats_path(s: &dyn Spectrum, beta: &BigRational, prec: u32, path: Path) -> Result<Stats> {
+    if path == Path::Direct {
+        return direct::stats(s, beta, prec);
+    }
+    // Parts share the tail target: a few guard bits cover their number.
+    let share = |n: usize| prec + (usize::BITS - n.leading_zeros());
     match s.shape() {
-        Shape::Direct => direct::stats(s, beta, eps, prec),
+        Shape::Direct => direct::stats(s, beta, prec),
         Shape::Parts(parts) => {
-            let mut acc: Option<Stats> = None;
-            let share = eps / parts.len().max(1) as f64;
-            for (p, factor) in parts {
-                let st = stats_of(p, &(beta * factor), share, prec)?;
-                acc = Some(match acc {
-                    None => st,
-                    Some(a) => a.add(&st),
-                });
-            }
-            acc.ok_or_else(|| Error::invalid("spectrum", "with no parts", "it needs a part"))
+            let p = share(parts.len());
+            let sts = parts
+                .into_iter()
+                .map(|(part, factor)| stats_of(part, &(beta * factor), p))
+                .collect();
+            sum_parts(sts, "spectrum")
         }
         Shape::Squares(ws) => {
-            let mut acc: Option<Stats> = None;
-            for w in &ws {
-                let st = closed::squares(&(w * beta), eps / ws.len() as f64, prec);
-                acc = Some(match acc {
-                    None => st,
-                    Some(a) => a.add(&st),
-                });
-            }
-            acc.ok_or_else(|| Error::invalid("box", "with no axes", "it needs an axis"))
+            let p = share(ws.len());
+            let sts = ws.iter().map(|w| closed::squares(&(w * beta), p)).collect();
+            sum_parts(sts, "box")
         }
-        Shape::RigidLadder(b, w) => {
-            let y = &b * beta;
-            Ok(closed::rigid_ladder_fixed(&y, &w, eps, prec)
-                .unwrap_or_else(|| closed::rigid_ladder(&y, &w, eps, prec)))
-        }
+        Shape::RigidLadder(b, w) => ladder::rigid_ladder(&(&b * beta), &w, prec),
         Shape::Harmonic(modes, zero_point) => {
-            let mut acc: Option<Stats> = None;
-            for (w, d) in &modes {
-                let st = closed::harmonic(&(w * beta), *d, zero_point, prec);
-                acc = Some(match acc {
-                    None => st,
-                    Some(a) => a.add(&st),
-                });
-            }
-            acc.ok_or_else(|| Error::invalid("oscillator", "with no modes", "it needs a mode"))
+            let sts = modes
+                .iter()
+                .map(|(w, d)| closed::harmonic(&(w * beta), *d, zero_point, prec))
+                .collect();
+            sum_parts(sts, "oscillator")
         }
     }
+}
+
+/// The certified values of one state point, as balls (centre and error
+/// bound), before printing.
+#[derive(Debug, Clone)]
+pub(crate) struct Values {
+    pub(crate) ln_q: Ball,
+    pub(crate) u: Ball,
+    pub(crate) cv: Ball,
+    pub(crate) s: Ball,
+    pub(crate) f: Ball,
 }
 
 /// One thermodynamic state point, per particle, with every value written to
@@ -273,10 +378,34 @@ pub struct ThermoPoint {
     pub digits: u32,
     /// Working precision used, in bits.
     pub precision_bits: u32,
-    /// Whether every value was proved correctly rounded (false only if the
-    /// error interval still straddled a rounding boundary after retries;
-    /// then the last digit may be off by one).
+    /// Whether every value was proved correctly rounded. False only when
+    /// the effort limit [`ThermoPoint::max_bits`] was reached first; then
+    /// [`ThermoPoint::certified_digits`] says how many digits are proved.
     pub certified: bool,
+    /// The number of leading significant digits proved for every value
+    /// (equal to `digits` when certified).
+    pub certified_digits: u32,
+    /// The effort limit: the most working bits the engine was allowed.
+    pub max_bits: u32,
+    #[serde(skip)]
+    pub(crate) values: Values,
+}
+
+impl ThermoPoint {
+    /// Why the point is not certified, or `None` when it is: e.g.
+    /// "digits beyond the 12th need more than 16384 bits; raise --max-bits".
+    pub fn shortfall(&self) -> Option<String> {
+        if self.certified {
+            return None;
+        }
+        Some(shortfall_text(self.certified_digits, self.max_bits))
+    }
+}
+
+/// The reason text for a value certified to `certified` digits only.
+pub fn shortfall_text(certified: u32, max_bits: u32) -> String {
+    let nth = crate::exact::ordinal(certified as u64 + 1);
+    format!("digits from the {nth} on need more than {max_bits} working bits; raise --max-bits")
 }
 
 /// Computes q, ln q and U/kT, Cv/k, S/k, F/kT of `spectrum` at `temperature`
@@ -309,6 +438,12 @@ pub fn thermo_with(
     digits: u32,
     path: Path,
 ) -> Result<ThermoPoint> {
+    thermo_limited(spectrum, temperature, digits, path, DEFAULT_MAX_BITS)
+}
+
+/// Refuses a digit count outside 1..=[`MAX_DIGITS`] or an effort limit
+/// below what the digits need.
+pub fn check_request(digits: u32, max_bits: u32) -> Result<()> {
     if !(1..=MAX_DIGITS).contains(&digits) {
         return Err(Error::invalid(
             "digits",
@@ -316,56 +451,99 @@ pub fn thermo_with(
             &format!("choose between 1 and {MAX_DIGITS} significant digits"),
         ));
     }
+    let need = precision_for(digits);
+    if max_bits < need {
+        return Err(Error::invalid(
+            "--max-bits",
+            max_bits,
+            &format!("{digits} digits need at least {need} working bits; give at least that"),
+        ));
+    }
+    Ok(())
+}
+
+/// As [`thermo_with`], with an effort limit: where the first attempt does
+/// not certify every digit, the working precision (and with it every
+/// cutoff) doubles until it does or reaches `max_bits` (Ziv's strategy).
+pub fn thermo_limited(
+    spectrum: &dyn Spectrum,
+    temperature: &Temperature,
+    digits: u32,
+    path: Path,
+    max_bits: u32,
+) -> Result<ThermoPoint> {
+    check_request(digits, max_bits)?;
     let beta = temperature.beta(&spectrum.unit())?;
     let t_text = match temperature {
         Temperature::Kelvin(t) | Temperature::Reduced(t) => crate::exact::exact_decimal(t, 40),
     };
-    let mut last = None;
-    for attempt in 0..4u32 {
-        let prec = precision_for(digits, attempt);
-        let eps = 10f64
-            .powi(-(digits as i32) - 6 - 8 * attempt as i32)
-            .max(1e-300);
-        let st = stats_path(spectrum, &beta, eps, prec, path)?;
-        let p = point(&st, &t_text, digits, prec);
-        if p.certified {
+    let mut prec = precision_for(digits);
+    // Retries at higher precision reuse the level listings.
+    let cached = Cached::new(spectrum);
+    loop {
+        let st = stats_path(&cached, &beta, prec, path)?;
+        let p = point(&st, &t_text, digits, prec, max_bits);
+        if p.certified || prec >= max_bits {
             return Ok(p);
         }
-        last = Some(p);
+        prec = (prec * 2).min(max_bits);
     }
-    Ok(last.expect("at least one attempt"))
 }
 
-fn point(st: &Stats, t: &str, digits: u32, prec: u32) -> ThermoPoint {
-    let s = Float::with_val(prec, &st.ln_q + &st.u);
-    let f = Float::with_val(prec, -&st.ln_q);
-    let q = Float::with_val(prec, st.ln_q.exp_ref());
-    // Relative error of q from the absolute error of ln q: e^δ − 1 ≤ 2δ for δ ≤ 1.
-    let err_q_rel = 2.0 * st.err_ln_q + 4.0 * 2f64.powi(-(prec as i32));
-    let qa = q.to_f64().abs();
-    let (q_s, ok_q) = float_to_decimal(
-        &q,
-        err_q_rel * if qa.is_finite() { qa } else { f64::MAX },
-        err_q_rel,
-        digits,
-    );
-    let (lnq_s, ok_l) = float_to_decimal(&st.ln_q, st.err_ln_q, 0.0, digits);
-    let (u_s, ok_u) = float_to_decimal(&st.u, st.err_u, 0.0, digits);
-    let (cv_s, ok_c) = float_to_decimal(&st.cv, st.err_cv, 0.0, digits);
-    let (s_s, ok_s) = float_to_decimal(&s, st.err_ln_q + st.err_u, 0.0, digits);
-    let (f_s, ok_f) = float_to_decimal(&f, st.err_ln_q, 0.0, digits);
+fn point(st: &Stats, t: &str, digits: u32, prec: u32, max_bits: u32) -> ThermoPoint {
+    let ln_q = st.ln_q();
+    let values = Values {
+        u: st.u(),
+        cv: st.cv.clone(),
+        s: st.s(),
+        f: ln_q.neg(),
+        ln_q,
+    };
+    point_from_values(values, t, digits, prec, max_bits)
+}
+
+fn point_from_values(
+    values: Values,
+    t: &str,
+    digits: u32,
+    prec: u32,
+    max_bits: u32,
+) -> ThermoPoint {
+    let (q_s, ok_q) = format::exp_decimal(&values.ln_q, digits);
+    let texts: Vec<(String, bool)> = [&values.ln_q, &values.u, &values.cv, &values.s, &values.f]
+        .iter()
+        .map(|b| format::ball_decimal(b, digits))
+        .collect();
+    let certified = ok_q && texts.iter().all(|t| t.1);
+    let certified_digits = if certified {
+        digits
+    } else {
+        [&values.ln_q, &values.u, &values.cv, &values.s, &values.f]
+            .iter()
+            .map(|b| format::proved_digits(b, digits))
+            .chain([format::proved_exp_digits(&values.ln_q, digits)])
+            .min()
+            .unwrap_or(0)
+    };
+    // Relative error of q: e^r − 1 ≤ 2r for r ≤ 1.
+    let rel_q = ball::up_mul(&values.ln_q.r, &Float::with_val(RP, 2));
+    let mut it = texts.into_iter().map(|t| t.0);
+    let mut next = || it.next().unwrap_or_default();
     ThermoPoint {
         t: t.to_string(),
         q: q_s,
-        ln_q: lnq_s,
-        rel_bound: format!("{:.2e}", err_q_rel),
-        u_over_kt: u_s,
-        cv_over_k: cv_s,
-        s_over_k: s_s,
-        f_over_kt: f_s,
+        ln_q: next(),
+        rel_bound: format::radius_text(&rel_q),
+        u_over_kt: next(),
+        cv_over_k: next(),
+        s_over_k: next(),
+        f_over_kt: next(),
         digits,
         precision_bits: prec,
-        certified: ok_q && ok_l && ok_u && ok_c && ok_s && ok_f,
+        certified,
+        certified_digits,
+        max_bits,
+        values,
     }
 }
 
@@ -460,4 +638,20 @@ impl Spectrum for Cached<'_> {
     fn warnings(&self, cutoff: &BigRational) -> Vec<String> {
         self.inner.warnings(cutoff)
     }
+}
+
+/// The same point printed to `digits` significant digits (at most the
+/// digits it was computed for), certified afresh from its balls.
+pub(crate) fn reformat(p: &ThermoPoint, digits: u32) -> ThermoPoint {
+    let v = &p.values;
+    let mut out = point_from_values(v.clone(), &p.t, digits, p.precision_bits, p.max_bits);
+    out.rel_bound = p.rel_bound.clone();
+    out
+}
+
+/// `b · factor` (an exact positive rational) to `digits` digits, and
+/// whether proved.
+pub(crate) fn scaled_decimal(b: &Ball, factor: &BigRational, digits: u32) -> (String, bool) {
+    let f = rational_ball(factor, b.prec());
+    format::ball_decimal(&b.mul(&f), digits)
 }
