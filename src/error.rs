@@ -33,6 +33,9 @@ pub enum ErrorKind {
     Mismatch,
     /// Reading or writing a file failed.
     Io,
+    /// The model does not apply: an ideal gas so dense and cold that it is
+    /// quantum-degenerate (nΛ³ ≥ 1), where classical translation fails.
+    Degenerate,
 }
 
 impl Error {

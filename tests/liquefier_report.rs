@@ -1,6 +1,9 @@
 //! `zsum report`: a well-formed self-contained page that names its sources
 //! and embeds every plot, plus CSV files; nothing partial on failure.
 
+mod common;
+
+use common::n_lambda3;
 use zsum::species::liquefier::{build_report, write_report, CAUTION};
 
 #[test]
@@ -74,4 +77,57 @@ fn a_file_in_the_way_is_refused_and_nothing_is_written() {
             "summary.txt"
         ]
     );
+}
+
+/// The report prints 8 digits, tolerance 1e-8. At 298.15 K and 1 bar the
+/// first quantum correction nΛ³/2^(5/2) (standard result) is 5.5e-7 for He
+/// (m = 4.002602 u) and 2.9e-9 for Xe (m = 131.293 u, CIAAW 2013 from
+/// memory), both computed here: He is flagged, Xe is not. Every hydrogen
+/// row (10 K to 400 K) is flagged, the caution stays, and the page and the
+/// summary say why.
+#[test]
+fn the_report_marks_rows_where_classical_translation_is_not_exact() {
+    let files = build_report().unwrap();
+    let get = |name: &str| {
+        files
+            .iter()
+            .find(|f| f.0 == name)
+            .map(|f| f.1.clone())
+            .unwrap()
+    };
+    let species = get("species_298K.csv");
+    let mut r = csv::Reader::from_reader(species.as_bytes());
+    let h = r.headers().unwrap().clone();
+    let col = h
+        .iter()
+        .position(|c| c == "nLambda^3 (dimensionless)")
+        .unwrap();
+    let flag = h.iter().position(|c| c == "flag").unwrap();
+    let rows: Vec<csv::StringRecord> = r.records().map(|x| x.unwrap()).collect();
+    let row = |n: &str| rows.iter().find(|r| &r[0] == n).unwrap().clone();
+    for (name, mass, flagged) in [("He", 4.002602, true), ("Xe", 131.293, false)] {
+        let want = n_lambda3(mass, 298.15, 1e5);
+        let got: f64 = row(name)[col].parse().unwrap();
+        // Printed to 4 significant digits.
+        assert!((got / want - 1.0).abs() < 5e-4, "{name}: {got} vs {want}");
+        let c = want / 2f64.powf(2.5);
+        assert_eq!(c > 1e-8, flagged, "{name}: c = {c}");
+        assert_eq!(&row(name)[flag] == "*", flagged, "{name}");
+    }
+    let hydrogen = get("hydrogen.csv");
+    let mut r = csv::Reader::from_reader(hydrogen.as_bytes());
+    let flag = r
+        .headers()
+        .unwrap()
+        .iter()
+        .position(|c| c == "flag")
+        .unwrap();
+    assert!(r.records().all(|x| &x.unwrap()[flag] == "*"));
+    let html = get("index.html");
+    assert!(html.contains(CAUTION));
+    assert!(html.contains("Where classical translation is not exact"));
+    assert!(html.contains("He at p = 100000 Pa: the row is flagged *"));
+    assert!(!html.contains("Xe at p = 100000 Pa"));
+    let summary = get("summary.txt");
+    assert!(summary.contains("rows are marked *") && summary.contains("caution"));
 }

@@ -1,6 +1,9 @@
 //! Built-in species against published standard entropies and hydrogen's
 //! ortho/para data.
 
+mod common;
+
+use common::{n_lambda3, sig4};
 use zsum::exact::parse_rational;
 use zsum::species::hydrogen::HydrogenTable;
 use zsum::species::{molar, Database, Isomer, MolarOptions, Translation, VibModel};
@@ -234,4 +237,178 @@ electronic = { levels = [ { energy = "0", degeneracy = 1 } ], unit = "cm-1", sou
     assert!(e.to_string().contains("pressure"), "{e}");
     assert!(Isomer::parse("fraction=1.5").is_err());
     assert!(Isomer::parse("fraction=-0.1").is_err());
+}
+
+// --- Quantum degeneracy of the translational gas -------------------------
+
+/// He-4 atomic mass 4.002602 u (the value the brief gives; it is also the
+/// CIAAW 2013 standard atomic weight the built-in He uses, from memory).
+const HE_U: f64 = 4.002602;
+/// H2: 2 × 1.00782503223 u (AME2016, from memory; the built-in value).
+const H2_U: f64 = 2.01565006446;
+
+fn at(name: &str, t: &str, o: &MolarOptions) -> zsum::Result<zsum::species::MolarPoint> {
+    let db = Database::builtin().unwrap();
+    molar(db.find(name).unwrap(), &parse_rational(t).unwrap(), o)
+}
+
+/// He at 4.2 K (its normal boiling point) and 1 bar: nΛ³ ≈ 0.13 (computed
+/// here from CODATA 2018 constants). The first Bose correction, of relative
+/// size nΛ³/2^(5/2) ≈ 0.024 (standard result), far exceeds the default
+/// 10-digit tolerance, so the row is flagged.
+#[test]
+fn helium_at_4_2_k_carries_its_degeneracy_and_is_flagged() {
+    let p = at("He", "4.2", &MolarOptions::default()).unwrap();
+    let want = n_lambda3(HE_U, 4.2, 1e5);
+    assert!((0.13..0.14).contains(&want), "independent value {want}");
+    let d = &p.degeneracy;
+    assert!(
+        (d.n_lambda3 / want - 1.0).abs() < 1e-12,
+        "library {} vs independent {want}",
+        d.n_lambda3
+    );
+    assert_eq!(d.g, 1);
+    // 2^(5/2) = 5.65685...
+    let c = want / 2f64.powf(2.5);
+    assert!((d.quantum_correction / c - 1.0).abs() < 1e-12);
+    assert_eq!(d.quantum_tolerance, 1e-10);
+    assert!(d.quantum_flag, "{d:?}");
+    assert!(!d.negative_entropy);
+    // c ≈ 0.0235: about one significant digit stands.
+    assert_eq!(d.trusted_digits(), 1);
+    // JSON carries the number and the flag.
+    let v: serde_json::Value = serde_json::to_value(&p).unwrap();
+    assert!((v["n_lambda3"].as_f64().unwrap() / want - 1.0).abs() < 1e-12);
+    assert_eq!(v["quantum_flag"], true);
+    assert_eq!(v["units"]["n_lambda3"], "dimensionless");
+}
+
+/// He at 300 K and 1 bar: nΛ³ ≈ 3.09e-6, so the first correction is
+/// c = nΛ³/2^(5/2) ≈ 5.5e-7 (standard result). It stays below the
+/// tolerance of 6 printed digits (1e-6): not flagged. At 7 digits, and at
+/// the default 10, it exceeds the tolerance and the row is flagged: the
+/// flag follows c > 10^-digits exactly.
+#[test]
+fn helium_at_300_k_is_flagged_only_where_the_digits_reach_the_correction() {
+    let want = n_lambda3(HE_U, 300.0, 1e5);
+    let c = want / 2f64.powf(2.5);
+    assert!(c > 1e-7 && c < 1e-6, "{c}");
+    for (digits, flagged) in [(5, false), (6, false), (7, true), (10, true)] {
+        let o = MolarOptions {
+            digits,
+            ..MolarOptions::default()
+        };
+        let d = at("He", "300", &o).unwrap().degeneracy;
+        assert!((d.n_lambda3 / want - 1.0).abs() < 1e-12);
+        assert_eq!(d.quantum_flag, flagged, "{digits} digits: {d:?}");
+    }
+}
+
+/// He at 1 K and 1 bar: nΛ³ ≈ 4.8 ≥ 1 (computed here, CODATA 2018), so
+/// the classical row is refused with a typed error naming nΛ³, T and p.
+/// H2 at 1 K: nΛ³ ≈ 13 (same way).
+#[test]
+fn degenerate_gases_are_refused_with_a_typed_error() {
+    for (name, mass, t) in [("He", HE_U, 1.0), ("H2", H2_U, 1.0), ("He", HE_U, 0.1)] {
+        let e = at(name, &t.to_string(), &MolarOptions::default()).unwrap_err();
+        assert_eq!(e.kind(), zsum::error::ErrorKind::Degenerate, "{e}");
+        let x = n_lambda3(mass, t, 1e5);
+        let msg = e.to_string();
+        assert!(msg.contains(&format!("nΛ³ = {}", sig4(x))), "{x}: {msg}");
+        assert!(msg.contains(&format!("T = {t} K")), "{msg}");
+        assert!(msg.contains("p = 100000 Pa"), "{msg}");
+        assert!(
+            msg.contains("ensemble") && msg.contains("later release"),
+            "{msg}"
+        );
+        assert!(msg.contains("raise T"), "{msg}");
+    }
+    assert!((n_lambda3(H2_U, 1.0, 1e5) - 13.0).abs() < 1.0);
+    // The grid is refused as a whole, and so is the hydrogen table.
+    let db = Database::builtin().unwrap();
+    let grid: Vec<_> = ["300", "1"]
+        .iter()
+        .map(|t| parse_rational(t).unwrap())
+        .collect();
+    let e =
+        zsum::species::MolarTable::build(db.find("He").unwrap(), &grid, &MolarOptions::default())
+            .unwrap_err();
+    assert_eq!(e.kind(), zsum::error::ErrorKind::Degenerate);
+    let e = HydrogenTable::build(
+        db.find("H2").unwrap(),
+        &[parse_rational("2").unwrap()],
+        &Isomer::Normal,
+        &MolarOptions::default(),
+    )
+    .unwrap_err();
+    assert_eq!(e.kind(), zsum::error::ErrorKind::Degenerate);
+    // Lowering the pressure below p/nΛ³ lifts the refusal (nΛ³ ∝ p).
+    let o = MolarOptions {
+        pressure: parse_rational("10000").unwrap(),
+        ..MolarOptions::default()
+    };
+    let d = at("He", "1", &o).unwrap().degeneracy;
+    assert!((d.n_lambda3 / n_lambda3(HE_U, 1.0, 1e4) - 1.0).abs() < 1e-12);
+    assert!(d.quantum_flag);
+}
+
+/// Just above the refusal (nΛ³ a little below 1), every isomer state of H2
+/// and D2 and the atoms still print a positive entropy, and flagged; and
+/// across a low-temperature grid no row prints a negative S or S_total
+/// without the flag.
+#[test]
+fn negative_entropies_never_print_unflagged() {
+    let db = Database::builtin().unwrap();
+    let states = [
+        None,
+        Some(Isomer::Normal),
+        Some(Isomer::Para),
+        Some(Isomer::Ortho),
+        Some(Isomer::Equilibrium),
+    ];
+    let mut seen = 0;
+    for sp in db.all() {
+        for iso in &states {
+            if iso.is_some() && !sp.has_spin_isomers() {
+                continue;
+            }
+            for t in ["1.9", "2", "2.5", "2.9", "3", "4", "6", "10"] {
+                let o = MolarOptions {
+                    isomer: iso.clone(),
+                    ..MolarOptions::default()
+                };
+                let Ok(p) = molar(sp, &parse_rational(t).unwrap(), &o) else {
+                    continue;
+                };
+                seen += 1;
+                let s: f64 = p.s.parse().unwrap();
+                let st: f64 = p.s_total.parse().unwrap();
+                assert!(p.degeneracy.n_lambda3 < 1.0);
+                if s < 0.0 || st < 0.0 {
+                    assert!(p.degeneracy.quantum_flag && p.degeneracy.negative_entropy);
+                }
+                // Below 10 K every built-in species is flagged at 10 digits.
+                assert!(
+                    p.degeneracy.quantum_flag,
+                    "{} {t}: {:?}",
+                    sp.name, p.degeneracy
+                );
+            }
+        }
+    }
+    assert!(seen > 50, "{seen}");
+    // H2 at 2.9 K (nΛ³ ≈ 0.92, independent): equilibrium S stays positive.
+    let h2 = at(
+        "H2",
+        "2.9",
+        &MolarOptions {
+            isomer: Some(Isomer::Equilibrium),
+            ..MolarOptions::default()
+        },
+    )
+    .unwrap();
+    let x = n_lambda3(H2_U, 2.9, 1e5);
+    assert!(x > 0.9 && x < 1.0, "{x}");
+    assert!((h2.degeneracy.n_lambda3 / x - 1.0).abs() < 1e-12);
+    assert!(h2.s.parse::<f64>().unwrap() > 0.0, "{}", h2.s);
 }

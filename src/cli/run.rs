@@ -760,7 +760,11 @@ fn species_thermo(args: &[String]) -> Result<Option<String>> {
         (Format::Json, [one]) => zsum::export::to_json(one)?,
         (f, _) => render(&table, f)?,
     };
-    emit(text, &a.out)
+    let out = emit(text, &a.out)?;
+    for w in table.warnings() {
+        eprintln!("zsum: warning: {w}");
+    }
+    Ok(out)
 }
 
 fn species(c: SpeciesCommand) -> Result<Option<String>> {
@@ -791,7 +795,11 @@ fn hydrogen(a: HydrogenArgs) -> Result<Option<String>> {
         ..MolarOptions::default()
     };
     let table = HydrogenTable::build(sp, &grid, &isomer, &options)?;
-    emit(render(&table, format(a.out.format))?, &a.out)
+    let out = emit(render(&table, format(a.out.format))?, &a.out)?;
+    for w in table.warnings() {
+        eprintln!("zsum: warning: {w}");
+    }
+    Ok(out)
 }
 
 fn microstates_cmd(a: MicrostatesArgs) -> Result<Option<String>> {

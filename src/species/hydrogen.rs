@@ -11,7 +11,10 @@
 //!   fraction x_n, 3/4 for H2) converts to equilibrium at T:
 //!   `x_n H_o + (1 − x_n) H_p − H_eq`, per mole and per kilogram.
 
-use super::molar::{isomer_parts, molar_with, prec, Isomer, MolarOptions, Spectra, Units};
+use super::molar::{
+    degeneracy, degeneracy_cells, degeneracy_note, degeneracy_warnings, isomer_parts, molar_with,
+    prec, Degeneracy, Isomer, MolarOptions, Spectra, Units, FLAG_HEADER, N_LAMBDA3_HEADER,
+};
 use super::Species;
 use crate::error::Result;
 use crate::export::Tabular;
@@ -57,6 +60,11 @@ pub struct HydrogenRow {
     /// Cp of pure para.
     #[serde(rename = "Cp_para")]
     pub cp_para: String,
+    /// The gas's closeness to quantum degeneracy (the chosen state's S, Cp
+    /// and H use Sackur–Tetrode translation); the conversion heats are
+    /// internal only and do not depend on it.
+    #[serde(flatten)]
+    pub degeneracy: Degeneracy,
     /// Units.
     pub units: Units,
     #[serde(skip)]
@@ -71,6 +79,8 @@ pub struct HydrogenTable {
     pub rows: Vec<HydrogenRow>,
     #[serde(skip)]
     species: String,
+    #[serde(skip)]
+    pressure: String,
 }
 
 impl HydrogenTable {
@@ -101,6 +111,10 @@ impl HydrogenTable {
         let p = prec(digits);
         let r = super::molar::fl(p, &(constants::boltzmann() * constants::avogadro()));
         let kg = super::molar::fl(p, &sp.molar_mass());
+        // Refuse a degenerate temperature before any sum is done.
+        for t in grid {
+            degeneracy(sp, t, o)?;
+        }
         let spectra = Spectra::new(sp, o.model)?;
         let cached = spectra.cached();
         // Hottest first, so one listing per spectrum serves the grid.
@@ -158,6 +172,7 @@ impl HydrogenTable {
                 cp_normal: normal.cp,
                 cp_equilibrium: eq.cp,
                 cp_para: para.cp,
+                degeneracy: chosen.degeneracy,
                 units: chosen.units,
             });
         }
@@ -165,6 +180,7 @@ impl HydrogenTable {
         Ok(HydrogenTable {
             rows,
             species: sp.name.clone(),
+            pressure: crate::exact::exact_decimal(&o.pressure, 30),
         })
     }
 
@@ -177,21 +193,46 @@ impl HydrogenTable {
             .map(|r| (r.raw[0], r.raw[(which + 1).min(6)]))
             .collect()
     }
+
+    /// Warning lines for the rows whose classical translation (in S, Cp
+    /// and H) is flagged.
+    pub fn warnings(&self) -> Vec<String> {
+        degeneracy_warnings(self.rows.iter().map(|r| {
+            (
+                self.species.as_str(),
+                r.t.as_str(),
+                self.pressure.as_str(),
+                &r.degeneracy,
+            )
+        }))
+    }
 }
 
 impl Tabular for HydrogenTable {
     fn preamble(&self) -> Vec<String> {
-        vec![
+        let mut lines = vec![
             format!(
                 "{}: spin isomers from exact rovibrational sums; conversion heat = heat \
                  released per mole when normal converts to equilibrium at T",
                 self.species
             ),
-            "Cp, S in J/(mol K); H-H0, heats in J/mol; per kg in kJ/kg; p = 1 bar ideal gas".into(),
+            format!(
+                "ideal gas at p = {} Pa; S, Cp and H-H0 with Sackur–Tetrode translation; the \
+                 conversion heats are internal and do not depend on it",
+                self.pressure
+            ),
+            degeneracy_note(
+                self.rows
+                    .first()
+                    .map(|r| r.degeneracy.quantum_tolerance)
+                    .unwrap_or(0.0),
+            ),
             "ideal-gas model values: design decisions follow certified property data, local \
              codes and licensed engineering practice"
                 .into(),
-        ]
+        ];
+        lines.extend(self.warnings().into_iter().map(|w| format!("warning: {w}")));
+        lines
     }
 
     fn columns(&self) -> Vec<String> {
@@ -200,12 +241,14 @@ impl Tabular for HydrogenTable {
             "isomer",
             "ortho fraction",
             "eq. ortho fraction",
-            "Cp",
-            "S",
-            "H-H0",
+            "Cp (J/(mol K))",
+            "S (J/(mol K))",
+            "H-H0 (J/mol)",
             "conversion heat (J/mol)",
             "(kJ/kg)",
             "ortho->para heat (J/mol)",
+            N_LAMBDA3_HEADER,
+            FLAG_HEADER,
         ]
         .map(String::from)
         .to_vec()
@@ -227,6 +270,9 @@ impl Tabular for HydrogenTable {
                     r.conversion_heat_per_kg.clone(),
                     r.ortho_to_para_heat.clone(),
                 ]
+                .into_iter()
+                .chain(degeneracy_cells(&r.degeneracy))
+                .collect()
             })
             .collect()
     }

@@ -10,7 +10,10 @@
 //! source or model of each.
 
 use super::hydrogen::HydrogenTable;
-use super::molar::{tables, Isomer, MolarOptions, MolarTable};
+use super::molar::{
+    degeneracy_cells, degeneracy_note, tables, Isomer, MolarOptions, MolarTable, FLAG_HEADER,
+    N_LAMBDA3_HEADER,
+};
 use super::Database;
 use crate::error::{Error, ErrorKind, Result};
 use crate::exact::parse_rational;
@@ -125,6 +128,25 @@ pub fn build_report() -> Result<Vec<(String, String)>> {
             .flat_map(|t| t.rows.into_iter())
             .collect(),
     };
+    let warnings: Vec<String> = species_rows
+        .warnings()
+        .into_iter()
+        .chain(curves.warnings())
+        .collect();
+    let flagged = |rows: &mut dyn Iterator<Item = bool>| rows.filter(|f| *f).count();
+    let species_flagged = flagged(&mut species_rows.rows.iter().map(|r| r.degeneracy.quantum_flag));
+    let hydrogen_flagged = flagged(&mut curves.rows.iter().map(|r| r.degeneracy.quantum_flag));
+    let note = degeneracy_note(
+        species_rows
+            .rows
+            .first()
+            .map(|r| r.degeneracy.quantum_tolerance)
+            .unwrap_or(0.0),
+    );
+    let warning_html: String = warnings
+        .iter()
+        .map(|w| format!("<li>{}</li>\n", esc(w)))
+        .collect();
     let hydrogen_csv = to_csv(&curves)?;
     let species_csv = to_csv(&SpeciesRows(&species_rows))?;
 
@@ -207,16 +229,28 @@ fraction and about 1.06 kJ/mol (525 kJ/kg) for the conversion heat.</p>
 <h2>Heats of conversion</h2>
 {heat_plot}
 <h2>Standard molar functions at 298.15 K and 1 bar</h2>
+<p>{note}.</p>
 {species_table}
 <h2>Hydrogen from 10 K to 400 K (normal hydrogen's Cp, S, H; conversion heats)</h2>
 {hydrogen_table}
+<h2>Where classical translation is not exact</h2>
+<p>Sackur–Tetrode translation counts the molecules by Boltzmann statistics. The first
+correction for their Bose or Fermi statistics is of relative size nΛ<sup>3</sup>/2<sup>5/2</sup>
+(n = p/kT, Λ = h/sqrt(2π m kT); standard result); rows where it exceeds the tolerance
+of the printed digits are marked * ({species_flagged} of {species_count} species rows,
+{hydrogen_flagged} of {hydrogen_count} hydrogen rows). The conversion heats are internal
+and do not depend on it.</p>
+<ul class="warnings">
+{warning_html}</ul>
 <h2>Sources and models</h2>
 <ul>
 <li>Model: ideal gas at 1 bar; translation by Sackur–Tetrode; rotation and vibration
 by exact sums over the vibrating-rotor levels (anharmonic G(v), B<sub>v</sub> = B<sub>e</sub> −
 α<sub>e</sub>(v + 1/2), centrifugal D<sub>e</sub>) with nuclear-spin statistics
 (H2: para even J weight 1, ortho odd J weight 3); electronic levels as listed per species.
-Every printed digit of every sum is certified by zsum's engine.</li>
+Every printed digit of every sum is certified by zsum's engine; where the
+first quantum-statistics correction to Sackur–Tetrode translation exceeds the printed
+tolerance, the row is marked * (see above).</li>
 <li>Conventions: energies from the lowest level (H0); conventional entropy S excludes
 nuclear spin as the standard tables do; S_total includes it.</li>
 <li>Constants: SI 2019 exact defining constants; atomic mass constant CODATA 2018.</li>
@@ -240,6 +274,9 @@ and latent heat: common practice, from memory.</li>
         latent = LATENT_HEAT_J_PER_MOL,
         ratio = q_mol / LATENT_HEAT_J_PER_MOL,
         load = load_w,
+        note = esc(&note),
+        species_count = species_rows.rows.len(),
+        hydrogen_count = curves.rows.len(),
         species_table = html_table(&SpeciesRows(&species_rows)),
         hydrogen_table = html_table(&curves),
     );
@@ -249,19 +286,35 @@ and latent heat: common practice, from memory.</li>
         ("species_298K.csv".into(), species_csv),
         (
             "summary.txt".into(),
-            summary_lines(para_eq, q_mol, q_kg, load_w).join("\n") + "\n",
+            summary_lines(
+                para_eq,
+                q_mol,
+                q_kg,
+                load_w,
+                species_flagged + hydrogen_flagged,
+            )
+            .join("\n")
+                + "\n",
         ),
     ])
 }
 
-fn summary_lines(para: f64, q_mol: f64, q_kg: f64, load_w: f64) -> Vec<String> {
-    vec![
+fn summary_lines(para: f64, q_mol: f64, q_kg: f64, load_w: f64, flagged: usize) -> Vec<String> {
+    let mut lines = vec![
         "Harrow Fen liquefier (fictional scenario), hydrogen at 20.28 K:".into(),
         format!("  equilibrium para fraction        {para:.4}"),
         format!("  normal -> equilibrium heat       {q_mol:.1} J/mol = {q_kg:.1} kJ/kg"),
         format!("  load for 10 L/h unconverted      {load_w:.1} W"),
-        format!("  caution: {CAUTION}"),
-    ]
+    ];
+    if flagged > 0 {
+        lines.push(format!(
+            "  warning: {flagged} table rows are marked *: there the first quantum correction \
+             nLambda^3/2^(5/2) to their classical (Sackur-Tetrode) S, Cp and H exceeds the \
+             printed tolerance; the conversion heats do not depend on it (see the report)"
+        ));
+    }
+    lines.push(format!("  caution: {CAUTION}"));
+    lines
 }
 
 /// The species table with the species name as first column.
@@ -275,11 +328,13 @@ impl Tabular for SpeciesRows<'_> {
         [
             "species",
             "T (K)",
-            "S",
-            "S_total",
-            "Cp",
-            "H-H0",
-            "-(G-H0)/T",
+            "S (J/(mol K))",
+            "S_total (J/(mol K))",
+            "Cp (J/(mol K))",
+            "H-H0 (J/mol)",
+            "-(G-H0)/T (J/(mol K))",
+            N_LAMBDA3_HEADER,
+            FLAG_HEADER,
         ]
         .map(String::from)
         .to_vec()
@@ -298,6 +353,9 @@ impl Tabular for SpeciesRows<'_> {
                     r.h.clone(),
                     r.g.clone(),
                 ]
+                .into_iter()
+                .chain(degeneracy_cells(&r.degeneracy))
+                .collect()
             })
             .collect()
     }

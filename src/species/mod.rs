@@ -23,6 +23,18 @@
 //! and without the entropy of mixing the isomers (these two together are
 //! R ln (2I+1)² for the normal mixture, so normal and equilibrium agree at
 //! high temperature). `S_total` includes them.
+//!
+//! Quantum degeneracy: both translations count the molecules by Boltzmann
+//! statistics (Sackur–Tetrode is its macroscopic limit; the box sum divides
+//! by N!). Every row therefore carries the degeneracy parameter nΛ³ (n =
+//! p/kT, Λ = h/sqrt(2π m kT), dimensionless) in a [`Degeneracy`], with g =
+//! [`DEGENERACY_G`] = 1 for every species (an upper bound on the
+//! correction; see there). The first Bose/Fermi correction to the ideal
+//! gas is of relative size nΛ³/(g 2^{5/2}) (standard result); a row where
+//! it exceeds the printed tolerance 10^−digits is flagged
+//! (`quantum_flag`), and so is any row with a negative S or S_total. Where
+//! nΛ³/g ≥ 1 the row is refused with an
+//! [`ErrorKind::Degenerate`](crate::error::ErrorKind::Degenerate) error.
 
 pub mod hydrogen;
 pub mod liquefier;
@@ -44,7 +56,8 @@ use serde::{Deserialize, Serialize};
 use std::path::Path;
 
 pub use molar::{
-    molar, tables, Isomer, MolarOptions, MolarPoint, MolarTable, Translation, VibModel,
+    degeneracy_warnings, molar, tables, Degeneracy, Isomer, MolarOptions, MolarPoint, MolarTable,
+    Translation, VibModel, DEGENERACY_G,
 };
 
 /// The built-in database text.

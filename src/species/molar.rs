@@ -1,8 +1,8 @@
 //! Standard molar functions of one species at T and p.
 
 use super::Species;
-use crate::error::{Error, Result};
-use crate::exact::{exact_decimal, rational_string};
+use crate::error::{Error, ErrorKind, Result};
+use crate::exact::{exact_decimal, format_sig, rational_string};
 use crate::export::Tabular;
 use crate::models::diatomic::ParityWeights;
 use crate::models::ParticleInBox;
@@ -147,8 +147,131 @@ pub struct MolarPoint {
     /// −(G(T) − H(0))/T, J/(mol K).
     #[serde(rename = "minus_G_minus_H0_over_T")]
     pub g: String,
+    /// How far the gas is from quantum degeneracy at this T and p, and
+    /// whether the classical translation is flagged.
+    #[serde(flatten)]
+    pub degeneracy: Degeneracy,
     /// Units of every value.
     pub units: Units,
+}
+
+/// The degeneracy g that divides nΛ³ in the ideal-gas quantum correction.
+///
+/// zsum takes g = 1 for every species. The first Bose/Fermi correction of
+/// an ideal gas whose molecules occupy internal quantum states s (nuclear
+/// spin included) with fractions x_s is of relative size
+/// `nΛ³ Σ x_s² / 2^{5/2}`, and `Σ x_s² ≤ 1`: g = 1 (one internal state) is
+/// the largest the correction can be, so the flag and the refusal never
+/// miss a degenerate gas. For He-4 (1S0, nuclear spin 0) g = 1 is exact;
+/// for molecules with populated rotational, electronic or nuclear-spin
+/// states the true correction is smaller by the factor Σ x_s².
+pub const DEGENERACY_G: u32 = 1;
+
+/// The gas's closeness to quantum degeneracy at one T and p (numbers only;
+/// the warning text is made where the row is printed).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Degeneracy {
+    /// The degeneracy parameter nΛ³ (dimensionless), with `n = p/kT` and
+    /// the thermal wavelength `Λ = h/sqrt(2π m kT)`.
+    pub n_lambda3: f64,
+    /// The g that divides nΛ³ ([`DEGENERACY_G`] = 1).
+    #[serde(rename = "degeneracy_g")]
+    pub g: u32,
+    /// Relative size of the first quantum-statistics correction to the
+    /// classical ideal gas, `nΛ³/(g 2^{5/2})` (standard result: the second
+    /// virial coefficient of the ideal Bose or Fermi gas).
+    pub quantum_correction: f64,
+    /// The tolerance the row was printed with, `10^−digits` relative.
+    pub quantum_tolerance: f64,
+    /// True where a printed entropy (S or S_total) is negative.
+    pub negative_entropy: bool,
+    /// True where `quantum_correction` exceeds `quantum_tolerance`, or an
+    /// entropy is negative: the classical translational values are then
+    /// not right to the printed digits.
+    pub quantum_flag: bool,
+}
+
+impl Degeneracy {
+    /// Significant digits of the classical translational values that the
+    /// first quantum correction leaves standing: `floor(−log10 correction)`,
+    /// at least 0 (`u32::MAX` if the correction is zero).
+    pub fn trusted_digits(&self) -> u32 {
+        if self.quantum_correction <= 0.0 {
+            return u32::MAX;
+        }
+        let d = -self.quantum_correction.log10();
+        if d <= 0.0 {
+            0
+        } else {
+            d.floor().min(u32::MAX as f64) as u32
+        }
+    }
+}
+
+/// nΛ³ for a molecule of mass `m` (kg) at `t` (K) and `pressure` (Pa), at
+/// MPFR precision `prec`: `(p/kT) (h²/(2π m kT))^{3/2}`.
+pub(crate) fn n_lambda3(
+    m: &BigRational,
+    t: &BigRational,
+    pressure: &BigRational,
+    prec: u32,
+) -> Float {
+    let kt = constants::boltzmann() * t;
+    let h = constants::planck();
+    let pi2 = Float::with_val(prec, rug::float::Constant::Pi) * 2u32;
+    let lambda2 = Float::with_val(prec, fl(prec, &(&h * &h / (m * &kt))) / &pi2);
+    let lambda3 = Float::with_val(prec, lambda2.sqrt_ref()) * &lambda2;
+    lambda3 * fl(prec, &(pressure / &kt))
+}
+
+/// The degeneracy of `sp` at `t` and the options' pressure; refuses the
+/// classical row where `nΛ³/g ≥ 1` with an [`ErrorKind::Degenerate`] error.
+pub(crate) fn degeneracy(sp: &Species, t: &BigRational, o: &MolarOptions) -> Result<Degeneracy> {
+    validate(t, o)?;
+    let p = prec(o.digits);
+    let nl3 = n_lambda3(&sp.mass_kg, t, &o.pressure, p);
+    let per_g = Float::with_val(p, &nl3 / DEGENERACY_G);
+    let x = nl3.to_f64();
+    if per_g >= 1u32 {
+        // nΛ³ ∝ p T^(−5/2): the T at which it falls to 1 at this p, and the
+        // p at which it does at this T.
+        let t1 = fl(p, t).to_f64() * per_g.to_f64().powf(0.4);
+        let p1 = fl(p, &o.pressure).to_f64() / per_g.to_f64();
+        let what = match o.translation {
+            Translation::SackurTetrode => "Sackur–Tetrode",
+            Translation::Box(_) => "the box sum with N! (Boltzmann) counting",
+        };
+        return Err(Error::new(
+            ErrorKind::Degenerate,
+            format!(
+                "{} at T = {} K and p = {} Pa is quantum-degenerate: nΛ³ = {} (n = p/kT, \
+                 Λ = h/sqrt(2π m kT), g = {}) is not below 1, so the classical translational \
+                 entropy ({what}) does not apply there (it can even turn negative). Use the \
+                 N-particle `zsum ensemble` command (Bose or Fermi statistics on a system \
+                 file), or wait for the degenerate ideal gas that a later release adds; or \
+                 raise T above {} K or lower p below {} Pa (nΛ³ grows as p T^(-5/2))",
+                sp.name,
+                exact_decimal(t, 30),
+                exact_decimal(&o.pressure, 30),
+                sig4(x),
+                DEGENERACY_G,
+                sig4(t1),
+                sig4(p1),
+            ),
+        ));
+    }
+    // 2^(5/2) = 4 sqrt(2).
+    let two_52 = Float::with_val(p, 2u32).sqrt() * 4u32;
+    let c = Float::with_val(p, &per_g / &two_52).to_f64();
+    let tol = 10f64.powi(-(o.digits as i32));
+    Ok(Degeneracy {
+        n_lambda3: x,
+        g: DEGENERACY_G,
+        quantum_correction: c,
+        quantum_tolerance: tol,
+        negative_entropy: false,
+        quantum_flag: c > tol,
+    })
 }
 
 /// The units of a molar point.
@@ -171,6 +294,8 @@ pub struct Units {
     pub t: &'static str,
     /// Of p.
     pub p: &'static str,
+    /// Of nΛ³.
+    pub n_lambda3: &'static str,
 }
 
 const UNITS: Units = Units {
@@ -180,6 +305,7 @@ const UNITS: Units = Units {
     g: "J/(mol K)",
     t: "K",
     p: "Pa",
+    n_lambda3: "dimensionless",
 };
 
 /// Per-R values of one contribution.
@@ -432,12 +558,8 @@ pub fn molar(sp: &Species, t: &BigRational, o: &MolarOptions) -> Result<MolarPoi
     molar_with(sp, &spectra.cached(), t, o)
 }
 
-pub(crate) fn molar_with(
-    sp: &Species,
-    cached: &CachedSpectra,
-    t: &BigRational,
-    o: &MolarOptions,
-) -> Result<MolarPoint> {
+/// Checks T, p and digits before any work.
+fn validate(t: &BigRational, o: &MolarOptions) -> Result<()> {
     if !t.is_positive() {
         return Err(Error::invalid(
             "T",
@@ -459,7 +581,18 @@ pub(crate) fn molar_with(
             "choose between 1 and 60",
         ));
     }
+    Ok(())
+}
+
+pub(crate) fn molar_with(
+    sp: &Species,
+    cached: &CachedSpectra,
+    t: &BigRational,
+    o: &MolarOptions,
+) -> Result<MolarPoint> {
+    validate(t, o)?;
     let p = prec(o.digits);
+    let mut degeneracy = degeneracy(sp, t, o)?;
     let tr = translation(&sp.mass_kg, t, o)?;
     let (int_s, int_s_total, int_h, int_cv, ortho) =
         match (&o.isomer, sp.has_spin_isomers()) {
@@ -525,6 +658,13 @@ pub(crate) fn molar_with(
     let show = |v: Float| float_to_decimal(&v, 0.0, 0.0, o.digits).0;
     let cp = Float::with_val(p, &cv + 1u32);
     let g = Float::with_val(p, &s - &h);
+    // A negative entropy is never printed unflagged.
+    // (−(G − H0)/T is not an entropy: it is negative for frozen normal
+    // hydrogen at low T, where H − H0 holds the ortho rotational energy.)
+    degeneracy.negative_entropy = [&s, &s_total]
+        .iter()
+        .any(|v| v.cmp0() == Some(std::cmp::Ordering::Less));
+    degeneracy.quantum_flag |= degeneracy.negative_entropy;
     Ok(MolarPoint {
         species: sp.name.clone(),
         t: exact_decimal(t, 30),
@@ -539,6 +679,7 @@ pub(crate) fn molar_with(
         cv: show(Float::with_val(p, &cv * &r)),
         h: show(Float::with_val(p, &h * &rt)),
         g: show(Float::with_val(p, &g * &r)),
+        degeneracy,
         units: UNITS,
     })
 }
@@ -555,6 +696,10 @@ impl MolarTable {
     /// Builds the table of `sp` over `grid` (kelvin), listing internal
     /// levels once for the whole grid.
     pub fn build(sp: &Species, grid: &[BigRational], o: &MolarOptions) -> Result<Self> {
+        // Refuse a degenerate temperature before any sum is done.
+        for t in grid {
+            degeneracy(sp, t, o)?;
+        }
         let spectra = Spectra::new(sp, o.model)?;
         let cached = spectra.cached();
         // Hottest first so one listing serves every temperature.
@@ -613,22 +758,182 @@ pub fn tables(
         .collect()
 }
 
+impl MolarTable {
+    /// Warning lines for the rows whose classical translation is flagged
+    /// (none when no row is).
+    pub fn warnings(&self) -> Vec<String> {
+        degeneracy_warnings(self.rows.iter().map(|r| {
+            (
+                r.species.as_str(),
+                r.t.as_str(),
+                r.p.as_str(),
+                &r.degeneracy,
+            )
+        }))
+    }
+}
+
+/// The header of the nΛ³ column in every table, CSV included.
+pub(crate) const N_LAMBDA3_HEADER: &str = "nLambda^3 (dimensionless)";
+
+/// The header of the flag column: `*` marks a flagged row.
+pub(crate) const FLAG_HEADER: &str = "flag";
+
+/// The text of a row's nΛ³ (4 significant digits) and flag cells.
+pub(crate) fn degeneracy_cells(d: &Degeneracy) -> [String; 2] {
+    [
+        sig4(d.n_lambda3),
+        if d.quantum_flag { "*" } else { "" }.to_string(),
+    ]
+}
+
+/// The preamble line that says what the nΛ³ and flag columns mean.
+pub(crate) fn degeneracy_note(tolerance: f64) -> String {
+    format!(
+        "nLambda^3 = n Λ³ with n = p/kT, Λ = h/sqrt(2π m kT), g = {DEGENERACY_G} (dimensionless); \
+         flag * where the first quantum correction nΛ³/(g 2^(5/2)) exceeds the tolerance {} \
+         of the printed digits, or an entropy is negative",
+        tolerance_text(tolerance)
+    )
+}
+
+/// `1e-D` for the tolerance `10^-D` of D printed digits.
+fn tolerance_text(tol: f64) -> String {
+    format!("1e-{}", (-tol.log10()).round() as i64)
+}
+
+fn sig4(v: f64) -> String {
+    BigRational::from_float(v)
+        .map(|r| format_sig(&r, 4))
+        .unwrap_or_else(|| v.to_string())
+}
+
+fn ordinal(n: u32) -> String {
+    let suffix = match (n % 10, n % 100) {
+        (_, 11..=13) => "th",
+        (1, _) => "st",
+        (2, _) => "nd",
+        (3, _) => "rd",
+        _ => "th",
+    };
+    format!("{n}{suffix}")
+}
+
+fn wrong_beyond(d: &Degeneracy) -> String {
+    match d.trusted_digits() {
+        0 => "wrong already in the first significant digit".into(),
+        n => format!("wrong beyond about the {} significant digit", ordinal(n)),
+    }
+}
+
+/// Warning lines for flagged rows, one per species and pressure:
+/// `(species, T, p, degeneracy)` for every row, in table order. Each says
+/// where the classical translational entropy stops being right, by how
+/// many digits, and why.
+pub fn degeneracy_warnings<'a>(
+    rows: impl IntoIterator<Item = (&'a str, &'a str, &'a str, &'a Degeneracy)>,
+) -> Vec<String> {
+    // (species, p, [(T, degeneracy)]) in table order.
+    type Group<'b> = (&'b str, &'b str, Vec<(&'b str, &'b Degeneracy)>);
+    let mut groups: Vec<Group> = Vec::new();
+    for (sp, t, p, d) in rows {
+        match groups.iter_mut().find(|g| g.0 == sp && g.1 == p) {
+            Some(g) => g.2.push((t, d)),
+            None => groups.push((sp, p, vec![(t, d)])),
+        }
+    }
+    let mut out = Vec::new();
+    for (sp, p, rows) in groups {
+        let n = rows.len();
+        let quantum: Vec<&(&str, &Degeneracy)> = rows
+            .iter()
+            .filter(|(_, d)| d.quantum_correction > d.quantum_tolerance)
+            .collect();
+        if let (Some(worst), Some(best)) = (
+            quantum
+                .iter()
+                .max_by(|a, b| a.1.quantum_correction.total_cmp(&b.1.quantum_correction)),
+            quantum
+                .iter()
+                .min_by(|a, b| a.1.quantum_correction.total_cmp(&b.1.quantum_correction)),
+        ) {
+            let tol = worst.1.quantum_tolerance;
+            let digits = (-tol.log10()).round() as i64;
+            let tol = tolerance_text(tol);
+            let which = if quantum.len() == n {
+                if n == 1 {
+                    "the row is flagged *".to_string()
+                } else {
+                    format!("all {n} rows are flagged *")
+                }
+            } else {
+                format!("{} of {n} rows are flagged *", quantum.len())
+            };
+            let range = |f: &dyn Fn(&Degeneracy) -> f64| {
+                if quantum.len() == 1 {
+                    sig4(f(worst.1))
+                } else {
+                    format!("{} to {}", sig4(f(best.1)), sig4(f(worst.1)))
+                }
+            };
+            let mut line = format!(
+                "{sp} at p = {p} Pa: {which}: the classical translational entropy is {} at \
+                 T = {} K",
+                wrong_beyond(worst.1),
+                worst.0
+            );
+            if quantum.len() > 1 {
+                line.push_str(&match best.1.trusted_digits() {
+                    0 => format!(" and at T = {} K", best.0),
+                    n => format!(" and beyond about the {} at T = {} K", ordinal(n), best.0),
+                });
+            }
+            line.push_str(&format!(
+                ", because it counts the molecules by Boltzmann statistics and leaves out their \
+                 Bose/Fermi statistics: nΛ³ = {} there, and the first quantum correction, of \
+                 relative size nΛ³/2^(5/2) = {}, exceeds the tolerance {} of {digits} printed \
+                 digits; S, Cp, H-H0 and -(G-H0)/T are off by about that relative amount",
+                range(&|d| d.n_lambda3),
+                range(&|d| d.quantum_correction),
+                tol,
+            ));
+            out.push(line);
+        }
+        let negative: Vec<&str> = rows
+            .iter()
+            .filter(|(_, d)| d.negative_entropy)
+            .map(|(t, _)| *t)
+            .collect();
+        if !negative.is_empty() {
+            out.push(format!(
+                "{sp} at p = {p} Pa: a printed entropy is negative at T = {} K (flagged *): no \
+                 gas has a negative entropy, so the classical model fails there",
+                negative.join(", ")
+            ));
+        }
+    }
+    out
+}
+
 impl Tabular for MolarTable {
     fn preamble(&self) -> Vec<String> {
         let first = self.rows.first();
-        vec![
+        let mut lines = vec![
             format!(
                 "{}: ideal-gas standard molar functions at p = {} Pa from exact sums",
                 first.map(|r| r.species.as_str()).unwrap_or(""),
                 first.map(|r| r.p.as_str()).unwrap_or("")
             ),
             "S conventional (nuclear spin excluded); S_total with it; energies from the lowest \
-             level (H0); S, Cp, Cv, -(G-H0)/T in J/(mol K), H-H0 in J/mol"
+             level (H0)"
                 .into(),
+            degeneracy_note(first.map(|r| r.degeneracy.quantum_tolerance).unwrap_or(0.0)),
             "ideal-gas model values: design decisions follow certified property data, local \
              codes and licensed engineering practice"
                 .into(),
-        ]
+        ];
+        lines.extend(self.warnings().into_iter().map(|w| format!("warning: {w}")));
+        lines
     }
 
     fn columns(&self) -> Vec<String> {
@@ -637,7 +942,16 @@ impl Tabular for MolarTable {
             c.push("isomer".into());
             c.push("ortho fraction".into());
         }
-        for x in ["S", "S_total", "Cp", "Cv", "H-H0", "-(G-H0)/T"] {
+        for x in [
+            "S (J/(mol K))",
+            "S_total (J/(mol K))",
+            "Cp (J/(mol K))",
+            "Cv (J/(mol K))",
+            "H-H0 (J/mol)",
+            "-(G-H0)/T (J/(mol K))",
+            N_LAMBDA3_HEADER,
+            FLAG_HEADER,
+        ] {
             c.push(x.into());
         }
         c
@@ -661,6 +975,7 @@ impl Tabular for MolarTable {
                     r.h.clone(),
                     r.g.clone(),
                 ]);
+                v.extend(degeneracy_cells(&r.degeneracy));
                 v
             })
             .collect()

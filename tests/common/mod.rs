@@ -95,3 +95,23 @@ pub fn refused(args: &[&str], needle: &str) {
     assert!(err.contains(needle), "{args:?}: {err}");
     assert!(out.stdout.is_empty(), "{args:?} wrote output");
 }
+
+/// nΛ³ of an ideal gas from the SI constants alone, independently of zsum:
+/// n = p/kT, Λ = h/sqrt(2π m kT), mass in u. h and k exact (CODATA 2018,
+/// the SI 2019 values); u = 1.66053906660e-27 kg (CODATA 2018).
+pub fn n_lambda3(mass_u: f64, t: f64, p: f64) -> f64 {
+    let (h, k, u) = (6.62607015e-34, 1.380649e-23, 1.66053906660e-27);
+    let lambda = h / (2.0 * std::f64::consts::PI * mass_u * u * k * t).sqrt();
+    p / (k * t) * lambda.powi(3)
+}
+
+/// `x` to 4 significant digits, laid out as zsum prints nΛ³ (plain from
+/// 1e-5 up to 1e4, else scientific as `3.087e-6`).
+pub fn sig4(x: f64) -> String {
+    let e = x.abs().log10().floor() as i32;
+    if (-5..4).contains(&e) {
+        format!("{:.*}", (3 - e).max(0) as usize, x)
+    } else {
+        format!("{x:.3e}")
+    }
+}
