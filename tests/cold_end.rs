@@ -372,3 +372,27 @@ fn every_species_agrees_at_30_and_60_digits_from_20_k_to_1e4_k() {
         }
     }
 }
+
+/// A value on a rounding boundary (U/kT = E₀/kT = 0.15 exactly, asked to
+/// one digit) cannot be settled at any precision: the engine doubles its
+/// bits to the effort limit, then marks the point and says why.
+#[test]
+fn an_unsettled_value_is_marked_with_the_reason_at_the_effort_limit() {
+    let one = vec![Level::new(BigRational::new(3.into(), 20.into()), 1u32)];
+    let s = Listed(LevelList::new(EnergyUnit::Kelvin, one));
+    let t = Temperature::Kelvin(BigRational::from_integer(1.into()));
+    let p = zsum::sum::thermo_limited(&s, &t, 1, zsum::sum::Path::Auto, 512).unwrap();
+    assert!(!p.certified);
+    assert_eq!(p.precision_bits, 512);
+    assert_eq!(p.max_bits, 512);
+    assert_eq!(p.certified_digits, 0);
+    let why = p.shortfall().unwrap();
+    assert!(
+        why.contains("1st") && why.contains("512") && why.contains("--max-bits"),
+        "{why}"
+    );
+    // The same spectrum at two digits is exact: 0.15.
+    let p2 = zsum::sum::thermo_limited(&s, &t, 2, zsum::sum::Path::Auto, 512).unwrap();
+    assert!(p2.certified);
+    assert_eq!(p2.u_over_kt, "0.15");
+}

@@ -177,7 +177,7 @@ pub fn scan_points(range: &SearchRange) -> Result<usize> {
     let ln = |x: &BigRational| super::to_float(x).ln().to_f64();
     let decades = (ln(&range.to) - ln(&range.from)) / std::f64::consts::LN_10;
     let n = (decades * 50.0).ceil();
-    if !(n <= MAX_SCAN_POINTS as f64) {
+    if n.is_nan() || n > MAX_SCAN_POINTS as f64 {
         return Err(Error::budget(format!(
             "the range T/θ {} to {} spans {} decades: the scan would evaluate about {} \
              temperatures (50 per decade), more than the {MAX_SCAN_POINTS} allowed; narrow \

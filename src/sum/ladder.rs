@@ -110,7 +110,7 @@ fn warm(y: &BigRational, y_f: f64, w: &[BigUint; 2], prec: u32) -> Result<Stats>
     let est = (Float::with_val(64, -ln_eps + 40.0) / &y_low)
         .sqrt()
         .to_f64();
-    if !(est <= MAX_LADDER_TERMS) {
+    if est.is_nan() || est > MAX_LADDER_TERMS {
         return Err(Error::budget(format!(
             "the rotor at kT/B = {} needs about {} terms of its ladder, more than the {:e} \
              allowed (a few seconds); at such temperatures the classical expansion q = kT/B + \
