@@ -108,13 +108,16 @@ fn first_excitation(
     s: &dyn Spectrum,
     e0: &BigRational,
     beta: &BigRational,
+    first: f64,
 ) -> Result<Option<(f64, BigRational)>> {
     let top = s.highest_energy();
     let g0 = s.count_bound(e0);
-    // Start small (a dense spectrum's first excitation may be a tiny
-    // fraction of kT) and widen fourfold while the counting bound says the
-    // window holds only the ground level: listing is paid once, near x₁.
-    let mut w = 1e-3;
+    // The first window reaches past where the sum's cutoff lands when the
+    // first excitation is small against the span (the usual case), so the
+    // listing made here is the one the sum truncates; beyond it, widen
+    // fourfold while the counting bound says the window holds only the
+    // ground level.
+    let mut w = first;
     loop {
         let width = BigRational::from_float(w)
             .map(|x| x / beta)
@@ -136,7 +139,9 @@ fn first_excitation(
                 return Ok(None);
             }
         }
-        check_excitation(w, &s.describe())?;
+        if w > super::MAX_EXCITATION {
+            check_excitation(w, &s.describe())?;
+        }
         w *= 4.0;
     }
 }
@@ -166,10 +171,12 @@ fn stats_from(
             ))
         }
         (None, Some(t)) => (s.levels_up_to(t)?, None),
-        (Some(p), _) => match first_excitation(s, &e0, beta)? {
+        (Some(p), _) => match first_excitation(s, &e0, beta, 1.25 * span)? {
             None => (s.levels_up_to(&e0)?, None),
             Some((x1, _)) => {
-                check_excitation(x1, &s.describe())?;
+                if !(x1 <= super::MAX_EXCITATION) {
+                    check_excitation(x1, &s.describe())?;
+                }
                 // Start where e^{−(x − x₁)} alone is far below the target,
                 // then widen until the tail bound is small against the
                 // first excited level's term g₁ e^{−x₁} ≥ e^{−x₁}.

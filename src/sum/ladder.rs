@@ -1,6 +1,6 @@
 //! The rigid rotor ladder `E = b J(J+1)`, J = 0, 1, ..., with `(2J+1)·w(J
 //! mod 2)` states: summed term by term where the ground level may dominate
-//! (y = b/kT > 1/2: excitation sums apart from the ground, each term its
+//! (y = b/kT > 4: excitation sums apart from the ground, each term its
 //! own exponential), and by a fixed-point recurrence otherwise.
 
 use super::ball::{up_add, Ball, RP};
@@ -11,6 +11,11 @@ use num_bigint::BigUint;
 use num_rational::BigRational;
 use num_traits::{ToPrimitive, Zero};
 use rug::{Assign, Float, Integer};
+
+/// Above this y = b/kT the excitations are summed apart from the ground
+/// level (there e^{−2y} < 4e-4, so the excited share of q is small); below
+/// it the fixed-point recurrence, whose sums are all of order one or more.
+const COLD: f64 = 4.0;
 
 /// The most terms the fixed-point recurrence may take (a few seconds).
 pub const MAX_LADDER_TERMS: f64 = 5e7;
@@ -52,14 +57,14 @@ pub(crate) fn rigid_ladder(y: &BigRational, w: &[BigUint; 2], prec: u32) -> Resu
             "it has no states",
         ));
     }
-    if y_f > 0.5 {
+    if y_f > COLD {
         cold(y, y_f, w, prec)
     } else {
         warm(y, y_f, w, prec)
     }
 }
 
-/// y > 1/2: the ground rung J₀ and excitation sums over J > J₀, each term
+/// y > 4: the ground rung J₀ and excitation sums over J > J₀, each term
 /// e^{−y (J(J+1) − J₀(J₀+1))} formed directly (there are few).
 fn cold(y: &BigRational, y_f: f64, w: &[BigUint; 2], prec: u32) -> Result<Stats> {
     let j0: u64 = if w[0].is_zero() { 1 } else { 0 };
@@ -97,7 +102,7 @@ fn cold(y: &BigRational, y_f: f64, w: &[BigUint; 2], prec: u32) -> Result<Stats>
     Stats::from_excitations(&g0, &e, &m1, &m2, shift).ok_or_else(unbounded)
 }
 
-/// y ≤ 1/2, in fixed point: integers scaled by 2^P replace floating point,
+/// y ≤ 4, in fixed point: integers scaled by 2^P replace floating point,
 /// so each step is a few exact integer operations and two truncating
 /// products (`e^{−x_{J+1}} = e^{−x_J} f_J`, `f_{J+1} = f_J e^{−2y}`). The
 /// truncation errors are tracked term by term (in f64, inflated) and enter
