@@ -174,7 +174,7 @@ fn stats_from(
         (Some(p), _) => match first_excitation(s, &e0, beta, 1.25 * span)? {
             None => (s.levels_up_to(&e0)?, None),
             Some((x1, _)) => {
-                if !(x1 <= super::MAX_EXCITATION) {
+                if x1.is_nan() || x1 > super::MAX_EXCITATION {
                     check_excitation(x1, &s.describe())?;
                 }
                 // Start where e^{−(x − x₁)} alone is far below the target,
