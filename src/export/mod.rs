@@ -73,8 +73,48 @@ pub fn render<T: Serialize + Tabular>(result: &T, format: Format) -> Result<Stri
 }
 
 /// Writes `contents` to `path` all at once: to a temporary file beside it,
-/// then renamed over it, so a failure never leaves a partial file.
+/// then renamed over it, so a failure never leaves a partial file. A
+/// symbolic link is followed to its target (the link stays); something that
+/// is not a regular file (a device, a FIFO) is written through, never
+/// replaced, and a failed write (e.g. a full device) is an error.
 pub fn write_atomic(path: &Path, contents: &str) -> Result<()> {
+    let io_err = |e: std::io::Error, what: &str, p: &Path| {
+        Error::new(
+            ErrorKind::Io,
+            format!("cannot {what} {:?}: {e}", p.display().to_string()),
+        )
+    };
+    let resolved;
+    let path = match std::fs::symlink_metadata(path) {
+        Ok(m) if m.file_type().is_symlink() => {
+            resolved =
+                std::fs::canonicalize(path).map_err(|e| io_err(e, "follow the link", path))?;
+            resolved.as_path()
+        }
+        _ => path,
+    };
+    if let Ok(m) = std::fs::metadata(path) {
+        if m.is_dir() {
+            return Err(Error::new(
+                ErrorKind::Io,
+                format!(
+                    "output path {:?} is a directory; give a file name",
+                    path.display().to_string()
+                ),
+            ));
+        }
+        if !m.is_file() {
+            use std::io::Write;
+            let mut f = std::fs::OpenOptions::new()
+                .write(true)
+                .open(path)
+                .map_err(|e| io_err(e, "open", path))?;
+            return f
+                .write_all(contents.as_bytes())
+                .and_then(|_| f.flush())
+                .map_err(|e| io_err(e, "write", path));
+        }
+    }
     let dir = match path.parent() {
         Some(p) if !p.as_os_str().is_empty() => p.to_path_buf(),
         _ => std::path::PathBuf::from("."),
@@ -93,12 +133,6 @@ pub fn write_atomic(path: &Path, contents: &str) -> Result<()> {
         .to_string_lossy()
         .to_string();
     let tmp = dir.join(format!(".{name}.zsum-tmp-{}", std::process::id()));
-    let io_err = |e: std::io::Error, what: &str, p: &Path| {
-        Error::new(
-            ErrorKind::Io,
-            format!("cannot {what} {:?}: {e}", p.display().to_string()),
-        )
-    };
     std::fs::write(&tmp, contents).map_err(|e| io_err(e, "write", path))?;
     std::fs::rename(&tmp, path).map_err(|e| {
         let _ = std::fs::remove_file(&tmp);
