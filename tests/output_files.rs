@@ -20,8 +20,16 @@ fn a_symlink_is_followed_and_stays_a_link() {
     let mut args = ARGS.to_vec();
     args.extend(["-o", link.to_str().unwrap()]);
     let out = run(&args);
-    assert_eq!(out.status.code(), Some(0), "{}", String::from_utf8_lossy(&out.stderr));
-    assert!(std::fs::symlink_metadata(&link).unwrap().file_type().is_symlink());
+    assert_eq!(
+        out.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    assert!(std::fs::symlink_metadata(&link)
+        .unwrap()
+        .file_type()
+        .is_symlink());
     let text = std::fs::read_to_string(&target).unwrap();
     assert!(text.contains("rigid linear rotor"), "{text}");
 }
