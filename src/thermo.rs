@@ -21,17 +21,44 @@ use serde::Serialize;
 pub const MAX_GRID: usize = 100_000;
 
 /// Reads a temperature grid: `298.15`, `10:300:5` (start:stop:step,
-/// exact decimals, stop included when on the grid) or `log:1:1000:50`
+/// exact decimals, stop included when on the grid), `log:1:1000:50`
 /// (COUNT points spaced evenly in ln T, each rounded to 12 significant
-/// digits so that it is an exact decimal).
+/// digits so that it is an exact decimal), or a comma list of any of these
+/// (`20.28,77,300` or `1:5:1,77`), kept in the order given.
 ///
 /// ```
 /// use zsum::thermo::parse_grid;
 /// assert_eq!(parse_grid("--T", "10:30:10").unwrap().len(), 3);
 /// assert_eq!(parse_grid("--T", "log:1:1000:4").unwrap()[1].to_string(), "10");
 /// assert!(parse_grid("--T", "10:30:0").is_err());
+/// let list = parse_grid("--T", "20.28,77,300").unwrap();
+/// assert_eq!(list.len(), 3);
+/// assert_eq!(list[0].to_string(), "507/25");
+/// assert!(parse_grid("--T", "20,,30").is_err());
 /// ```
 pub fn parse_grid(flag: &str, text: &str) -> Result<Vec<BigRational>> {
+    if text.contains(',') {
+        let mut all = Vec::new();
+        for part in text.split(',') {
+            if part.trim().is_empty() {
+                return Err(Error::parse(
+                    flag,
+                    text,
+                    "a comma list of temperatures or grids with nothing empty between the \
+                     commas (20.28,77,300)",
+                ));
+            }
+            all.extend(parse_grid(flag, part.trim())?);
+            if all.len() > MAX_GRID {
+                return Err(Error::invalid(
+                    flag,
+                    text,
+                    &format!("a grid may hold at most {MAX_GRID} temperatures"),
+                ));
+            }
+        }
+        return Ok(all);
+    }
     let num = |s: &str| {
         parse_rational(s).map_err(|_| {
             Error::parse(

@@ -1045,8 +1045,14 @@ pub struct EnsembleArgs {
     #[arg(long, value_name = "N", default_value_t = 10)]
     pub digits: u32,
     /// Tolerance on the relative error of q^N/N! in Q for the breakdown
-    /// search, e.g. 1% or 0.01.
-    #[arg(long, value_name = "TOL", default_value = "1%")]
+    /// search, e.g. 1% or 0.01 (`--tol`, as in crossover and compare;
+    /// `--tolerance` is kept as an alias).
+    #[arg(
+        long = "tol",
+        alias = "tolerance",
+        value_name = "TOL",
+        default_value = "1%"
+    )]
     pub tolerance: String,
     /// Output options.
     #[command(flatten)]
