@@ -2,7 +2,7 @@
 
 use super::Species;
 use crate::error::{Error, ErrorKind, Result};
-use crate::exact::{exact_decimal, format_sig, rational_string};
+use crate::exact::{exact_decimal, rational_string};
 use crate::export::Tabular;
 use crate::models::diatomic::ParityWeights;
 use crate::models::ParticleInBox;
@@ -803,26 +803,16 @@ fn tolerance_text(tol: f64) -> String {
 }
 
 fn sig4(v: f64) -> String {
-    BigRational::from_float(v)
-        .map(|r| format_sig(&r, 4))
-        .unwrap_or_else(|| v.to_string())
-}
-
-fn ordinal(n: u32) -> String {
-    let suffix = match (n % 10, n % 100) {
-        (_, 11..=13) => "th",
-        (1, _) => "st",
-        (2, _) => "nd",
-        (3, _) => "rd",
-        _ => "th",
-    };
-    format!("{n}{suffix}")
+    crate::exact::format_sig_f64(v, 4)
 }
 
 fn wrong_beyond(d: &Degeneracy) -> String {
     match d.trusted_digits() {
         0 => "wrong already in the first significant digit".into(),
-        n => format!("wrong beyond about the {} significant digit", ordinal(n)),
+        n => format!(
+            "wrong beyond about the {} significant digit",
+            crate::exact::ordinal(n.into())
+        ),
     }
 }
 
@@ -885,7 +875,11 @@ pub fn degeneracy_warnings<'a>(
             if quantum.len() > 1 {
                 line.push_str(&match best.1.trusted_digits() {
                     0 => format!(" and at T = {} K", best.0),
-                    n => format!(" and beyond about the {} at T = {} K", ordinal(n), best.0),
+                    n => format!(
+                        " and beyond about the {} at T = {} K",
+                        crate::exact::ordinal(n.into()),
+                        best.0
+                    ),
                 });
             }
             line.push_str(&format!(
