@@ -14,6 +14,16 @@ use zsum::spectrum::{Budget, Spectrum, State};
 use zsum::sum::{thermo, Temperature};
 use zsum::units::EnergyUnit;
 
+/// The per-particle values of every `sum`/`thermo` JSON row.
+const VALUE_KEYS: [&str; 6] = [
+    "q",
+    "ln_q",
+    "U_over_kT",
+    "Cv_over_k",
+    "S_over_k",
+    "F_over_kT",
+];
+
 /// A decimal string as (negative, significant digits, decimal exponent of
 /// the first digit), so `0.00123` and `1.23e-3` compare alike.
 fn normal(s: &str) -> (bool, String, i64) {
@@ -166,14 +176,7 @@ fn every_model_is_certified_from_the_cold_end_to_the_hot_end() {
             .zip(b["rows"].as_array().unwrap())
         {
             assert_eq!(ra["certified"], true, "{m:?} at T = {}", ra["T"]);
-            for key in [
-                "q",
-                "ln_q",
-                "U_over_kT",
-                "Cv_over_k",
-                "S_over_k",
-                "F_over_kT",
-            ] {
+            for key in VALUE_KEYS {
                 let (sa, sb) = (ra[key].as_str().unwrap(), rb[key].as_str().unwrap());
                 assert!(!sa.ends_with('*'), "{m:?} {key} at T = {}: {sa}", ra["T"]);
                 let wide = normal(sb);
@@ -240,14 +243,7 @@ fn vibrating_rotor_recipe_prints_exactly_the_digits_asked_for() {
     ]);
     for row in v["rows"].as_array().unwrap() {
         assert_eq!(row["certified"], true, "{row}");
-        for key in [
-            "q",
-            "ln_q",
-            "U_over_kT",
-            "Cv_over_k",
-            "S_over_k",
-            "F_over_kT",
-        ] {
+        for key in VALUE_KEYS {
             let (_, ds, _) = normal(row[key].as_str().unwrap());
             assert_eq!(ds.len(), 10, "{key} = {} at T = {}", row[key], row["T"]);
         }
