@@ -19,12 +19,15 @@
 //! only runs zsum as a program; it shares no code with zsum.
 //!
 //! Each test runs one oracle case, so failures are reported separately, with
-//! the command, zsum's value and the oracle's value. Python 3 with mpmath is
-//! required: without it these tests fail (they do not skip).
+//! the command, zsum's value and the oracle's value. `.ci/setup` installs
+//! Python 3 with mpmath; only where it truly cannot be had do these tests
+//! skip, saying so on the terminal (`common::mpmath_available`).
 //!
 //! The last test checks a refusal directly: a rotor with B in joules at
 //! 300 K has its first excitation ~4.6e21 kT up, beyond any sum, and must be
 //! refused with that size stated rather than answered with q = 0.
+
+mod common;
 
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output};
@@ -47,38 +50,25 @@ fn oracle_path() -> PathBuf {
         .join("cold_oracle.py")
 }
 
-/// Panics with instructions unless `python3` runs and imports mpmath.
-fn require_mpmath() {
-    match Command::new("python3")
-        .args(["-c", "import mpmath"])
-        .output()
-    {
-        Ok(out) if out.status.success() => {}
-        Ok(out) => panic!(
-            "the cold-end oracle needs Python's mpmath, which `python3 -c \"import mpmath\"` \
-             could not import ({}): run `pip install mpmath` (or `python3 -m pip install mpmath`)",
-            String::from_utf8_lossy(&out.stderr).trim()
-        ),
-        Err(e) => panic!(
-            "could not start python3 ({e}): the cold-end oracle needs python3 with mpmath; \
-             install Python 3 and run `pip install mpmath`"
-        ),
+/// Runs the oracle, or `None` (after saying so) where mpmath cannot be had.
+fn python(test: &str, args: &[&str]) -> Option<Output> {
+    if !common::mpmath_available(test) {
+        return None;
     }
-}
-
-fn python(args: &[&str]) -> Output {
-    require_mpmath();
     Command::new("python3")
         .arg(oracle_path())
         .args(args)
         .output()
+        .map(Some)
         .expect("failed to start python3 on tests/crosscheck/cold_oracle.py")
 }
 
 /// Runs one oracle case against the zsum binary: the oracle must exit 0 and
 /// print exactly one verdict line, `PASS  <case>: ...`.
 fn oracle_case(case: &str) {
-    let out = python(&[env!("CARGO_BIN_EXE_zsum"), case]);
+    let Some(out) = python(case, &[env!("CARGO_BIN_EXE_zsum"), case]) else {
+        return;
+    };
     let stdout = String::from_utf8_lossy(&out.stdout);
     let stderr = String::from_utf8_lossy(&out.stderr);
     assert!(
@@ -106,7 +96,9 @@ fn oracle_case(case: &str) {
 
 #[test]
 fn every_oracle_case_has_a_test_here() {
-    let out = python(&["--list"]);
+    let Some(out) = python("every_oracle_case_has_a_test_here", &["--list"]) else {
+        return;
+    };
     assert!(
         out.status.success(),
         "{}",

@@ -115,3 +115,33 @@ pub fn sig4(x: f64) -> String {
         format!("{x:.3e}")
     }
 }
+
+/// Whether Python 3 with mpmath is here for the independent cross-checks.
+/// `.ci/setup` installs it (pip where allowed, else Debian's
+/// `python3-mpmath`); only where that truly failed does a cross-check skip,
+/// and then it says so on the terminal (written past the test harness's
+/// capture, so the skip is never silent) with what to install.
+pub fn mpmath_available(test: &str) -> bool {
+    use std::io::Write;
+    let why = match std::process::Command::new("python3")
+        .args(["-c", "import mpmath"])
+        .output()
+    {
+        Ok(out) if out.status.success() => return true,
+        Ok(out) => format!(
+            "python3 cannot import mpmath ({})",
+            String::from_utf8_lossy(&out.stderr)
+                .lines()
+                .last()
+                .unwrap_or("")
+                .trim()
+        ),
+        Err(e) => format!("python3 cannot be started ({e})"),
+    };
+    let _ = writeln!(
+        std::io::stderr(),
+        "SKIPPED {test}: {why}; run `bash .ci/setup` (it installs python3 and mpmath by pip \
+         or Debian's python3-mpmath) to run this independent cross-check"
+    );
+    false
+}
