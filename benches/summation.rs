@@ -27,7 +27,7 @@ fn sums(c: &mut Criterion) {
     });
     let cube = ParticleInBox::cube(3).unwrap();
     for kt in ["1e3", "1e16"] {
-        let t = Temperature::Reduced(r(kt));
+        let t = Temperature::ThermalEnergy(r(kt));
         g.bench_function(format!("cube_kT_{kt}_30_digits"), |b| {
             b.iter(|| black_box(thermo(&cube, &t, 30).unwrap()))
         });

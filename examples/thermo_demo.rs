@@ -27,7 +27,7 @@ fn main() -> Result<(), zsum::Error> {
     );
     let cube = ParticleInBox::cube(3)?;
     for kt in ["1000", "1e16"] {
-        let p = thermo(&cube, &Temperature::Reduced(r(kt)), 30)?;
+        let p = thermo(&cube, &Temperature::ThermalEnergy(r(kt)), 30)?;
         println!(
             "cube kT={kt}: ln q={} U/kT={} Cv/k={}",
             p.ln_q, p.u_over_kt, p.cv_over_k

@@ -260,7 +260,7 @@ impl ThermoReport {
             let temp = if kelvin {
                 Temperature::Kelvin(t.clone())
             } else {
-                Temperature::Reduced(t.clone())
+                Temperature::ThermalEnergy(t.clone())
             };
             // The physical values are the engine's balls times exact
             // constants; where one straddles a rounding boundary, the point

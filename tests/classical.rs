@@ -109,7 +109,7 @@ fn oscillator_orders_converge() {
 fn rotor_heat_capacity_peak_matches_mpmath() {
     let rot = LinearRotor::rigid(r("1"), EnergyUnit::Kelvin).unwrap();
     let cv = |x: f64| -> f64 {
-        let t = Temperature::Reduced(BigRational::from_float(x).unwrap());
+        let t = Temperature::ThermalEnergy(BigRational::from_float(x).unwrap());
         thermo(&rot, &t, 25)
             .unwrap()
             .cv_over_k

@@ -866,7 +866,7 @@ fn assert_close(got: f64, want: f64, what: &str) {
 #[test]
 fn helium_in_a_10nm_box_in_kelvin() {
     let levels = physical(&[
-        "levels", "box", "--mass", "4.0026u", "--side", "10nm", "--unit", "K", "--up-to", "6",
+        "levels", "box", "--mass", "4.0026u", "--side", "10nm", "--also", "K", "--up-to", "6",
         "--format", "json",
     ]);
     let unit_k = box_unit_joules(4.0026 * M_U, 10e-9) / K_B;
@@ -890,7 +890,7 @@ fn physical_energies_in_every_unit() {
     ];
     for (unit, per_box_unit) in cases {
         let levels = physical(&[
-            "levels", "box", "--mass", "4.0026u", "--side", "10nm", "--unit", unit, "--up-to",
+            "levels", "box", "--mass", "4.0026u", "--side", "10nm", "--also", unit, "--up-to",
             "14", "--format", "json",
         ]);
         assert_eq!(levels.len(), 6, "unit {unit}");
@@ -945,7 +945,7 @@ fn mass_and_length_units_are_converted() {
 #[test]
 fn digits_sets_significant_digits_correctly_rounded() {
     let v = ok_json(&[
-        "levels", "box", "--mass", "4.0026u", "--side", "10nm", "--unit", "cm-1", "--digits", "5",
+        "levels", "box", "--mass", "4.0026u", "--side", "10nm", "--also", "cm-1", "--digits", "5",
         "--up-to", "3", "--format", "json",
     ]);
     let text = s(&levels_of(&v)[0], "energy_physical");
@@ -1018,7 +1018,7 @@ fn bad_physical_parameters_are_refused() {
         a
     };
     fails_naming(
-        &with(&["--mass", "4.0026u", "--side", "10nm", "--unit", "furlong"]),
+        &with(&["--mass", "4.0026u", "--side", "10nm", "--also", "furlong"]),
         "furlong",
     );
     fails_naming(&with(&["--mass", "4.0026", "--side", "10nm"]), "4.0026");

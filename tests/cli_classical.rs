@@ -8,6 +8,7 @@ use common::{json, refused, run};
 /// The rotor's classical Cv crosses 1% three times (mpmath 1.3.0, 40
 /// digits, findroot of |1/Cv − 1| = 0.01 on the direct sum: T/θ =
 /// 0.600571001676, 0.61648276109, 1.92063600093); with B = 2 K, T doubles.
+/// The default 10 certified digits are those values correctly rounded.
 #[test]
 fn crossover_json_lists_every_crossing() {
     let v = json(&[
@@ -44,9 +45,9 @@ fn crossover_json_lists_every_crossing() {
     assert_eq!(
         got,
         [
-            ("1.20114", "0.600571"),
-            ("1.23297", "0.616483"),
-            ("3.84127", "1.92064")
+            ("1.201142003", "0.6005710017"),
+            ("1.232965522", "0.6164827611"),
+            ("3.841272002", "1.920636001")
         ]
     );
     assert_eq!(c[0]["exceeds_below"], true);

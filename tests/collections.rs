@@ -347,7 +347,8 @@ fn high_temperature_approaches_boltzmann_counting() {
     for stats in [Statistics::Bose, Statistics::Fermi] {
         let mut last = f64::INFINITY;
         for kt in ["100", "1000", "10000"] {
-            let p = ensemble_point(&cube, 6, stats, &Temperature::Reduced(r(kt)), 10).unwrap();
+            let p =
+                ensemble_point(&cube, 6, stats, &Temperature::ThermalEnergy(r(kt)), 10).unwrap();
             let e: f64 = p.boltzmann_error_q.parse().unwrap();
             assert!(e.abs() < last, "{stats:?} kT = {kt}: {e}");
             last = e.abs();

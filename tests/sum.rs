@@ -107,14 +107,14 @@ fn box_theta_path_matches_the_direct_sum() {
     for kt in [
         "10000", "1000", "100", "10", "2", "1", "0.999", "0.5", "0.1",
     ] {
-        let t = Temperature::Reduced(r(kt));
+        let t = Temperature::ThermalEnergy(r(kt));
         let a = thermo(&seg, &t, 30).unwrap();
         let d = thermo_with(&seg, &t, 30, Path::Direct).unwrap();
         same_digits(&a, &d);
     }
     // 2D and 3D boxes are products of axes; the direct lattice sum agrees.
     let sq = ParticleInBox::new(vec![r("1"), r("3/2")]).unwrap();
-    let t = Temperature::Reduced(r("40"));
+    let t = Temperature::ThermalEnergy(r("40"));
     same_digits(
         &thermo(&sq, &t, 20).unwrap(),
         &thermo_with(&sq, &t, 20, Path::Direct).unwrap(),
@@ -129,8 +129,8 @@ fn asking_for_more_digits_extends_the_same_digits() {
     let cases: Vec<(&dyn Spectrum, Temperature)> = vec![
         (&rot, kelvin("298.15")),
         (&rot, kelvin("3.7")),
-        (&cube, Temperature::Reduced(r("1e16"))),
-        (&cube, Temperature::Reduced(r("2.5"))),
+        (&cube, Temperature::ThermalEnergy(r("1e16"))),
+        (&cube, Temperature::ThermalEnergy(r("2.5"))),
     ];
     for (s, t) in cases {
         let p30 = thermo(s, &t, 30).unwrap();
@@ -178,7 +178,7 @@ fn extreme_temperatures_behave() {
     assert!((f(&thermo(&rot, &kelvin("1e6"), 20).unwrap().cv_over_k) - 1.0).abs() < 1e-12);
     assert!((f(&thermo(&ho, &kelvin("1e6"), 20).unwrap().cv_over_k) - 1.0).abs() < 1e-11);
     let cube = ParticleInBox::cube(3).unwrap();
-    let p = thermo(&cube, &Temperature::Reduced(r("1e16")), 20).unwrap();
+    let p = thermo(&cube, &Temperature::ThermalEnergy(r("1e16")), 20).unwrap();
     assert!((f(&p.cv_over_k) - 1.5).abs() < 1e-8);
 }
 

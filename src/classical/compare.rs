@@ -155,7 +155,7 @@ pub fn compare(
         let temp = if kelvin {
             Temperature::Kelvin(grid[g].clone())
         } else {
-            Temperature::Reduced(grid[g].clone())
+            Temperature::ThermalEnergy(grid[g].clone())
         };
         let exact = cc.exact(&temp)?;
         let x = cc.reduced(&temp)?;

@@ -686,7 +686,7 @@ impl<'a> Classical<'a> {
 
     /// A temperature at `x` = T/θ, exact (kT in the spectrum's unit).
     pub fn at_reduced(&self, x: &BigRational) -> Temperature {
-        Temperature::Reduced(x * self.theta())
+        Temperature::ThermalEnergy(x * self.theta())
     }
 
     /// T/θ for a temperature.

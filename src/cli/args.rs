@@ -151,8 +151,9 @@ pub struct ListArgs {
     #[arg(long, value_name = "UNIT")]
     pub also: Option<String>,
 
-    /// Significant digits of the --also energies (correctly rounded).
-    #[arg(long, value_name = "N", default_value_t = 10, requires = "also")]
+    /// Significant digits of the --also energies, correctly rounded, so
+    /// every digit is right (1 to 60).
+    #[arg(long, value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS, requires = "also")]
     pub digits: u32,
 
     /// Refuse listings estimated to need more memory than this.
@@ -188,8 +189,9 @@ pub struct SystemLevels {
     #[arg(long, value_name = "UNIT", requires = "system")]
     pub also: Option<String>,
 
-    /// Significant digits of the --also energies.
-    #[arg(long, value_name = "N", default_value_t = 10, requires = "also")]
+    /// Significant digits of the --also energies, correctly rounded, so
+    /// every digit is right (1 to 60).
+    #[arg(long, value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS, requires = "also")]
     pub digits: u32,
 
     /// Refuse listings estimated to need more memory than this.
@@ -575,8 +577,8 @@ pub struct SpeciesThermo {
     /// More species from a file in zsum's species format.
     #[arg(long, value_name = "FILE")]
     pub species_file: Option<PathBuf>,
-    /// Significant digits.
-    #[arg(long, value_name = "N", default_value_t = 10)]
+    /// Significant digits of every printed value, each certified (1 to 60).
+    #[arg(long, value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS)]
     pub digits: u32,
     /// Output options.
     #[command(flatten)]
@@ -624,8 +626,8 @@ pub struct HydrogenArgs {
     /// rovib (default) or rrho.
     #[arg(long, value_name = "MODEL", default_value = "rovib")]
     pub model: String,
-    /// Significant digits.
-    #[arg(long, value_name = "N", default_value_t = 10)]
+    /// Significant digits of every printed value, each certified (1 to 60).
+    #[arg(long, value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS)]
     pub digits: u32,
     /// Output options.
     #[command(flatten)]
@@ -651,8 +653,8 @@ pub struct TempArgs {
     #[arg(long = "kT", value_name = "KT", allow_hyphen_values = true)]
     pub kt: Option<String>,
 
-    /// Significant digits of every printed value, each certified.
-    #[arg(long, value_name = "N", default_value_t = 15)]
+    /// Significant digits of every printed value, each certified (1 to 996).
+    #[arg(long, value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS)]
     pub digits: u32,
 
     /// Effort limit: the most working bits spent on one temperature before
@@ -710,8 +712,8 @@ pub struct SystemThermo {
         requires = "system"
     )]
     pub t: Option<String>,
-    /// Significant digits.
-    #[arg(long, value_name = "N", default_value_t = 15)]
+    /// Significant digits of every printed value, each certified (1 to 996).
+    #[arg(long, value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS)]
     pub digits: u32,
     /// Effort limit in working bits (as for the models).
     #[arg(long = "max-bits", value_name = "BITS", default_value_t = zsum::sum::DEFAULT_MAX_BITS)]
@@ -782,8 +784,8 @@ pub struct CrossoverArgs {
         allow_hyphen_values = true
     )]
     pub range: String,
-    /// Significant digits of each crossing (1 to 12).
-    #[arg(long, value_name = "N", default_value_t = 6, global = true)]
+    /// Significant digits of each crossing, each certified (1 to 12).
+    #[arg(long, value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS, global = true)]
     pub digits: u32,
     /// Output format.
     #[arg(long, value_enum, default_value_t = FormatArg::Table, global = true)]
@@ -826,8 +828,9 @@ pub struct CompareArgs {
     /// Approximations to compare, comma-separated. Default: all the model has.
     #[arg(long, value_name = "NAMES", global = true)]
     pub approx: Option<String>,
-    /// Significant digits of the values (1 to 30).
-    #[arg(long, value_name = "N", default_value_t = 8, global = true)]
+    /// Significant digits of the exact values and the approximations' values,
+    /// each certified (1 to 30); relative errors print to 4 digits.
+    #[arg(long, value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS, global = true)]
     pub digits: u32,
     /// Also plot this quantity against T and its relative errors (SVG).
     #[arg(long, value_name = "FILE.svg", global = true)]
@@ -930,13 +933,15 @@ pub struct BoxLevels {
     )]
     pub side: Option<String>,
 
-    /// Unit of the physical energies: K, cm-1, meV, eV, J or kJ/mol.
-    /// Needs --mass and --side. [default: K]
+    /// Also show each energy in this physical unit: K, cm-1, meV, eV, J or
+    /// kJ/mol (as `--also` in the other listings; `--unit` is always the
+    /// unit of typed constants). Needs --mass and --side. [default: K]
     #[arg(long, value_name = "UNIT", requires = "mass")]
-    pub unit: Option<String>,
+    pub also: Option<String>,
 
-    /// Significant digits of the physical energies (correctly rounded).
-    /// Needs --mass and --side. [default: 10]
+    /// Significant digits of the physical energies, correctly rounded, so
+    /// every digit is right (1 to 60). Needs --mass and --side.
+    /// [default: 10]
     #[arg(long, value_name = "N", requires = "mass")]
     pub digits: Option<u32>,
 
@@ -1005,8 +1010,9 @@ pub struct MicrostatesArgs {
     /// Number of energies at which to compare with the canonical ensemble.
     #[arg(long, value_name = "K", default_value_t = 8)]
     pub compare: usize,
-    /// Significant digits of S/k, kT and the canonical values.
-    #[arg(long, value_name = "N", default_value_t = 12)]
+    /// Significant digits of S/k, kT and the canonical values, each
+    /// certified (1 to 60).
+    #[arg(long, value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS)]
     pub digits: u32,
     /// Refuse tables estimated to need more memory than this.
     #[arg(long, value_name = "SIZE", default_value = "2GiB")]
@@ -1041,8 +1047,8 @@ pub struct EnsembleArgs {
     /// Instead of --T: kT in the system's energy unit (same grid forms).
     #[arg(long = "kT", value_name = "KT", allow_hyphen_values = true)]
     pub kt: Option<String>,
-    /// Significant digits of every exact value, each certified.
-    #[arg(long, value_name = "N", default_value_t = 10)]
+    /// Significant digits of every exact value, each certified (1 to 60).
+    #[arg(long, value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS)]
     pub digits: u32,
     /// Tolerance on the relative error of q^N/N! in Q for the breakdown
     /// search, e.g. 1% or 0.01 (`--tol`, as in crossover and compare;

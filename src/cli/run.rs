@@ -171,8 +171,8 @@ fn levels_box(a: BoxLevels) -> Result<Option<String>> {
             mass_kg: parse_mass_kg(m)?,
             side_text: s.clone(),
             side_m: parse_length_m(s)?,
-            unit: EnergyUnit::parse(a.unit.as_deref().unwrap_or("K"))?,
-            digits: check_digits(a.digits.unwrap_or(10))?,
+            unit: EnergyUnit::parse(a.also.as_deref().unwrap_or("K"))?,
+            digits: check_digits(a.digits.unwrap_or(zsum::report::DEFAULT_DIGITS))?,
         }),
         _ => None,
     };

@@ -381,7 +381,9 @@ pub fn ensemble_point(
     let beta = temperature.beta(&spectrum.unit())?;
     let c = canonical_at(spectrum, n, stats, &beta, digits)?;
     let t_text = match temperature {
-        Temperature::Kelvin(t) | Temperature::Reduced(t) => crate::exact::exact_decimal(t, 40),
+        Temperature::Kelvin(t) | Temperature::ThermalEnergy(t) => {
+            crate::exact::exact_decimal(t, 40)
+        }
     };
     Ok(point_from(&c, n, t_text, digits))
 }

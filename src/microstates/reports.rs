@@ -310,7 +310,7 @@ impl EnsembleReport {
             if kelvin {
                 Temperature::Kelvin(t.clone())
             } else {
-                Temperature::Reduced(t.clone())
+                Temperature::ThermalEnergy(t.clone())
             }
         };
         let tol_f = exact_float(tol, 64);

@@ -111,15 +111,16 @@ pub enum Shape<'a> {
 pub enum Temperature {
     /// T in kelvin.
     Kelvin(BigRational),
-    /// kT in the spectrum's unit.
-    Reduced(BigRational),
+    /// kT, the thermal energy, in the spectrum's own unit (not T/θ: the
+    /// CLI's `--reduced` grid is converted to kT with the model's θ).
+    ThermalEnergy(BigRational),
 }
 
 impl Temperature {
     /// 1/kT in the spectrum's energy unit, exactly.
     pub fn beta(&self, unit: &EnergyUnit) -> Result<BigRational> {
         let t = match self {
-            Temperature::Kelvin(t) | Temperature::Reduced(t) => t,
+            Temperature::Kelvin(t) | Temperature::ThermalEnergy(t) => t,
         };
         if !t.is_positive() {
             return Err(Error::invalid(
@@ -129,7 +130,7 @@ impl Temperature {
             ));
         }
         match self {
-            Temperature::Reduced(kt) => Ok(kt.recip()),
+            Temperature::ThermalEnergy(kt) => Ok(kt.recip()),
             Temperature::Kelvin(t) => {
                 let f = unit.factor_to(&EnergyUnit::Kelvin).map_err(|_| {
                     Error::new(
@@ -475,7 +476,9 @@ pub fn thermo_limited(
     check_request(digits, max_bits)?;
     let beta = temperature.beta(&spectrum.unit())?;
     let t_text = match temperature {
-        Temperature::Kelvin(t) | Temperature::Reduced(t) => crate::exact::exact_decimal(t, 40),
+        Temperature::Kelvin(t) | Temperature::ThermalEnergy(t) => {
+            crate::exact::exact_decimal(t, 40)
+        }
     };
     let mut prec = precision_for(digits);
     // Retries at higher precision reuse the level listings.
