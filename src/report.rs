@@ -4,7 +4,7 @@
 
 use crate::error::{Error, Result};
 use crate::exact::{exact_decimal, format_sig, parse_rational, rational_string};
-use crate::export::Tabular;
+use crate::export::{units_block, Column, Tabular};
 use crate::models::particle_box::{Origin, ParticleInBox};
 use crate::spectrum::{Budget, Spectrum, State};
 use crate::units::{box_unit_joules, constants, EnergyUnit};
@@ -102,9 +102,25 @@ pub struct LevelsReport {
     pub level_count: usize,
     /// Total number of states listed.
     pub total_states: String,
+    /// The unit of every energy field, from the table's columns.
+    pub units: serde_json::Map<String, serde_json::Value>,
 }
 
 impl LevelsReport {
+    /// The columns of a box listing: energies in box units and, with a
+    /// scale, in `physical`; the states' quantum numbers when listed.
+    fn columns_for(unit: &str, physical: Option<&str>, states: Option<&[String]>) -> Vec<Column> {
+        let mut c = vec![Column::with_unit("E", unit).key("energy")];
+        if let Some(u) = physical {
+            c.push(Column::with_unit("E", u).key("energy_physical"));
+        }
+        c.extend(["degeneracy", "families", "origin"].map(Column::plain));
+        if let Some(q) = states {
+            c.push(Column::plain(&format!("states ({})", q.join(","))));
+        }
+        c
+    }
+
     /// Lists the levels of `model` up to `cutoff`, with their states if
     /// `with_states`, and physical energies if `scale` is given.
     ///
@@ -174,18 +190,25 @@ impl LevelsReport {
             }),
             _ => None,
         };
+        let unit = model.unit().symbol().to_string();
+        let units = units_block(&Self::columns_for(
+            &unit,
+            physical.as_ref().map(|p| p.unit.as_str()),
+            None,
+        ));
         Ok(LevelsReport {
             model: "box".into(),
             description: model.describe(),
             dims: model.dims(),
             sides: model.sides().iter().map(rational_string).collect(),
-            unit: model.unit().symbol().to_string(),
+            unit,
             quantum_numbers: model.quantum_numbers(),
             up_to: rational_string(cutoff),
             physical,
             level_count: levels.len(),
             levels,
             total_states: total.to_string(),
+            units,
         })
     }
 }
@@ -210,16 +233,15 @@ impl Tabular for LevelsReport {
         p
     }
 
-    fn columns(&self) -> Vec<String> {
-        let mut c = vec!["E".to_string()];
-        if let Some(ph) = &self.physical {
-            c.push(format!("E [{}]", ph.unit));
-        }
-        c.extend(["degeneracy", "families", "origin"].map(String::from));
-        if self.levels.first().is_some_and(|l| l.states.is_some()) {
-            c.push(format!("states ({})", self.quantum_numbers.join(",")));
-        }
-        c
+    fn columns(&self) -> Vec<Column> {
+        Self::columns_for(
+            &self.unit,
+            self.physical.as_ref().map(|p| p.unit.as_str()),
+            self.levels
+                .first()
+                .is_some_and(|l| l.states.is_some())
+                .then_some(self.quantum_numbers.as_slice()),
+        )
     }
 
     fn rows(&self) -> Vec<Vec<String>> {
@@ -279,6 +301,19 @@ pub struct CountReport {
     pub weyl_estimate: String,
     /// (Weyl estimate − exact)/exact.
     pub weyl_relative_gap: String,
+    /// The unit of `up_to`, from the table's columns.
+    pub units: serde_json::Map<String, serde_json::Value>,
+}
+
+impl CountReport {
+    fn columns_for(unit: &str) -> Vec<Column> {
+        vec![
+            Column::with_unit("E up to", unit).key("up_to"),
+            Column::plain("states"),
+            Column::plain("Weyl estimate"),
+            Column::plain("Weyl relative gap"),
+        ]
+    }
 }
 
 impl CountReport {
@@ -293,12 +328,14 @@ impl CountReport {
         } else {
             "undefined (no states)".into()
         };
+        let unit = model.unit().symbol().to_string();
         Ok(CountReport {
+            units: units_block(&Self::columns_for(&unit)),
             model: "box".into(),
             description: model.describe(),
             dims: model.dims(),
             sides: model.sides().iter().map(rational_string).collect(),
-            unit: model.unit().symbol().to_string(),
+            unit,
             up_to: rational_string(cutoff),
             states: n.to_string(),
             weyl_estimate: format!("{weyl:.9e}"),
@@ -314,10 +351,8 @@ impl Tabular for CountReport {
             self.description, self.up_to, self.unit
         )]
     }
-    fn columns(&self) -> Vec<String> {
-        ["up_to", "states", "weyl_estimate", "weyl_relative_gap"]
-            .map(String::from)
-            .to_vec()
+    fn columns(&self) -> Vec<Column> {
+        Self::columns_for(&self.unit)
     }
     fn rows(&self) -> Vec<Vec<String>> {
         vec![vec![
@@ -390,6 +425,11 @@ pub struct SpectrumLevelRow {
     /// Labels of the level (from a level file), if any.
     #[serde(skip_serializing_if = "Vec::is_empty")]
     pub labels: Vec<String>,
+    /// The terms at this energy, each as its named quantum numbers (e.g.
+    /// `{"J": 3}`), for models that label levels (see
+    /// [`Spectrum::term_numbers`]).
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub terms: Vec<serde_json::Map<String, serde_json::Value>>,
     /// The states, each as named quantum numbers, when asked for.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub states: Option<Vec<serde_json::Map<String, serde_json::Value>>>,
@@ -409,6 +449,10 @@ pub struct SpectrumLevelsReport {
     pub converted_unit: Option<String>,
     /// Quantum-number names, in the order states list them.
     pub quantum_numbers: Vec<String>,
+    /// Names of the quantum numbers that label a level (its term), in the
+    /// order `terms` list them; empty where the model has none.
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub term_numbers: Vec<String>,
     /// The cutoff, exact, in `unit`.
     pub up_to: String,
     /// Warnings, e.g. that levels end before the cutoff.
@@ -419,6 +463,8 @@ pub struct SpectrumLevelsReport {
     pub level_count: usize,
     /// Total number of states listed.
     pub total_states: String,
+    /// The unit of every energy field, from the table's columns.
+    pub units: serde_json::Map<String, serde_json::Value>,
 }
 
 /// A quantum number as JSON: an integer, or a half-integer (stored doubled)
@@ -482,6 +528,20 @@ impl SpectrumLevelsReport {
             .transpose()?;
         let names = spectrum.quantum_numbers();
         let doubled = spectrum.doubled_numbers();
+        let term_names = spectrum.term_numbers();
+        let mut terms: std::collections::BTreeMap<BigRational, Vec<Vec<i64>>> = Default::default();
+        if !term_names.is_empty() {
+            for (e, t) in spectrum.terms_within(cutoff, &opts.budget)? {
+                terms.entry(e).or_default().push(t);
+            }
+        }
+        let term_json = |values: &[i64]| -> serde_json::Map<String, serde_json::Value> {
+            term_names
+                .iter()
+                .zip(values)
+                .map(|(n, v)| (n.clone(), serde_json::Value::from(*v)))
+                .collect()
+        };
         let mut levels = Vec::with_capacity(list.len());
         for l in list.iter() {
             let states = if opts.with_states {
@@ -508,21 +568,43 @@ impl SpectrumLevelsReport {
                     .map(|f| format_sig(&(&l.energy * f), opts.digits)),
                 degeneracy: l.degeneracy.to_string(),
                 labels: spectrum.labels_at(&l.energy),
+                terms: terms
+                    .get_mut(&l.energy)
+                    .map(|t| {
+                        t.sort();
+                        t.iter().map(|v| term_json(v)).collect()
+                    })
+                    .unwrap_or_default(),
                 states,
             });
         }
+        let unit = spectrum.unit().symbol().to_string();
+        let converted_unit = opts.convert_to.as_ref().map(|u| u.symbol().to_string());
         Ok(SpectrumLevelsReport {
             model: model.to_string(),
             description: spectrum.describe(),
-            unit: spectrum.unit().symbol().to_string(),
-            converted_unit: opts.convert_to.as_ref().map(|u| u.symbol().to_string()),
+            units: units_block(&Self::energy_columns(&unit, converted_unit.as_deref())),
+            unit,
+            converted_unit,
             quantum_numbers: names,
+            term_numbers: term_names.clone(),
             up_to: rational_string(cutoff),
             warnings: spectrum.warnings(cutoff),
             level_count: levels.len(),
             total_states: list.total_states().to_string(),
             levels,
         })
+    }
+}
+
+impl SpectrumLevelsReport {
+    /// The energy columns: in the spectrum's unit and, if asked, another.
+    fn energy_columns(unit: &str, converted: Option<&str>) -> Vec<Column> {
+        let mut c = vec![Column::with_unit("E", unit).key("energy")];
+        if let Some(u) = converted {
+            c.push(Column::with_unit("E", u).key("energy_converted"));
+        }
+        c
     }
 }
 
@@ -538,17 +620,20 @@ impl Tabular for SpectrumLevelsReport {
         p
     }
 
-    fn columns(&self) -> Vec<String> {
-        let mut c = vec![format!("E [{}]", self.unit)];
-        if let Some(u) = &self.converted_unit {
-            c.push(format!("E [{u}]"));
+    fn columns(&self) -> Vec<Column> {
+        let mut c = Self::energy_columns(&self.unit, self.converted_unit.as_deref());
+        if !self.term_numbers.is_empty() {
+            c.push(Column::plain(&self.term_numbers.join(",")));
         }
-        c.push("degeneracy".into());
+        c.push(Column::plain("degeneracy"));
         if self.levels.iter().any(|l| !l.labels.is_empty()) {
-            c.push("label".into());
+            c.push(Column::plain("label"));
         }
         if self.levels.first().is_some_and(|l| l.states.is_some()) {
-            c.push(format!("states ({})", self.quantum_numbers.join(",")));
+            c.push(Column::plain(&format!(
+                "states ({})",
+                self.quantum_numbers.join(",")
+            )));
         }
         c
     }
@@ -573,6 +658,21 @@ impl Tabular for SpectrumLevelsReport {
                 }];
                 if let Some(e) = &l.energy_converted {
                     r.push(e.clone());
+                }
+                if !self.term_numbers.is_empty() {
+                    let cells: Vec<String> = l
+                        .terms
+                        .iter()
+                        .map(|m| m.values().map(|x| x.to_string()).collect::<Vec<_>>())
+                        .map(|v| {
+                            if v.len() == 1 {
+                                v[0].clone()
+                            } else {
+                                format!("({})", v.join(","))
+                            }
+                        })
+                        .collect();
+                    r.push(cells.join(" "));
                 }
                 r.push(l.degeneracy.clone());
                 if with_labels {

@@ -131,6 +131,26 @@ pub trait Spectrum {
         Vec::new()
     }
 
+    /// Names of the quantum numbers that label a level as a whole (its
+    /// term), without the sublevels that share its energy: `J` for a linear
+    /// rotor, `v`, `J` for a vibrating rotor, `v` for an anharmonic
+    /// oscillator. Default: none (the level listing then has no term
+    /// column).
+    fn term_numbers(&self) -> Vec<String> {
+        Vec::new()
+    }
+
+    /// Every term with energy at most `cutoff`, as `(energy, values of
+    /// [`Spectrum::term_numbers`])`, in any order, found without listing
+    /// sublevels; several terms may share an energy. Default: none.
+    fn terms_within(
+        &self,
+        _cutoff: &BigRational,
+        _budget: &Budget,
+    ) -> Result<Vec<(BigRational, Vec<i64>)>> {
+        Ok(Vec::new())
+    }
+
     /// How the engine may organise this spectrum's sums (independent parts,
     /// square ladders, harmonic modes); default: list levels and sum them.
     fn shape(&self) -> crate::sum::Shape<'_> {

@@ -8,7 +8,7 @@
 
 use crate::error::{Error, Result};
 use crate::exact::{exact_decimal, parse_rational};
-use crate::export::Tabular;
+use crate::export::{units_block, Column, Tabular};
 use crate::spectrum::Spectrum;
 use crate::sum::{reformat, scaled_decimal, thermo_limited, Path, Temperature, ThermoPoint};
 use crate::units::constants;
@@ -198,9 +198,15 @@ pub struct ThermoReport {
     pub description: String,
     /// What the temperatures are: `K` or `kT in <unit>`.
     pub temperature_unit: String,
-    /// Units of U, Cv, S, F when given.
-    #[serde(skip_serializing_if = "Option::is_none")]
-    pub units: Option<serde_json::Value>,
+    /// The unit of every field that has one (T, and U, Cv, S, F when
+    /// given), from the table's columns.
+    pub units: serde_json::Map<String, serde_json::Value>,
+    /// The physical units asked for, if any.
+    #[serde(skip)]
+    pub per: Option<Per>,
+    /// The spectrum's energy unit (of kT when the grid is kT).
+    #[serde(skip)]
+    pub energy_unit: String,
     /// Whether the table carries U, Cv, S and F (thermo) or only q (sum).
     #[serde(skip)]
     pub functions: bool,
@@ -295,13 +301,8 @@ impl ThermoReport {
             progress(count + 1);
         }
         rows.extend(done.into_iter().flatten());
-        let units = per.map(|p| {
-            let (e, c) = match p {
-                Per::Mole => ("J/mol", "J/(mol K)"),
-                Per::Particle => ("J", "J/K"),
-            };
-            serde_json::json!({"U": e, "Cv": c, "S": c, "F": e})
-        });
+        let energy_unit = spectrum.unit().symbol().to_string();
+        let units = units_block(&Self::columns_for(kelvin, &energy_unit, functions, per));
         Ok(ThermoReport {
             model: model.into(),
             description: spectrum.describe(),
@@ -311,9 +312,42 @@ impl ThermoReport {
                 format!("kT in {}", spectrum.unit())
             },
             units,
+            per,
+            energy_unit,
             functions,
             rows,
         })
+    }
+
+    /// The columns of a `sum` (q only) or `thermo` table: T in K or kT in
+    /// the spectrum's unit, the dimensionless functions, and U, Cv, S, F in
+    /// the physical units asked for.
+    fn columns_for(
+        kelvin: bool,
+        energy_unit: &str,
+        functions: bool,
+        per: Option<Per>,
+    ) -> Vec<Column> {
+        let mut c = vec![if kelvin {
+            Column::with_unit("T", "K").key("T")
+        } else {
+            Column::with_unit("kT", energy_unit).key("T")
+        }];
+        c.extend(["q", "ln q", "rel bound"].map(Column::plain));
+        if functions {
+            c.extend(["U/kT", "Cv/k", "S/k", "F/kT"].map(Column::plain));
+            if let Some(p) = per {
+                let (e, k) = match p {
+                    Per::Mole => ("J/mol", "J/(mol K)"),
+                    Per::Particle => ("J", "J/K"),
+                };
+                c.push(Column::with_unit("U", e).key("U"));
+                c.push(Column::with_unit("Cv", k).key("Cv"));
+                c.push(Column::with_unit("S", k).key("S"));
+                c.push(Column::with_unit("F", e).key("F"));
+            }
+        }
+        c
     }
 }
 
@@ -334,7 +368,7 @@ impl Tabular for ThermoReport {
                 crate::sum::shortfall_text(worst.point.certified_digits, worst.point.max_bits)
             ));
         }
-        if self.units.is_some() {
+        if self.per.is_some() {
             p.push(
                 "ideal model values; design decisions follow certified property data, local \
                  codes and licensed engineering practice"
@@ -344,17 +378,13 @@ impl Tabular for ThermoReport {
         p
     }
 
-    fn columns(&self) -> Vec<String> {
-        let mut c: Vec<String> = vec!["T".into(), "q".into(), "ln q".into(), "rel bound".into()];
-        if self.functions {
-            c.extend(["U/kT", "Cv/k", "S/k", "F/kT"].map(String::from));
-            if let Some(u) = &self.units {
-                for key in ["U", "Cv", "S", "F"] {
-                    c.push(format!("{key} [{}]", u[key].as_str().unwrap_or("")));
-                }
-            }
-        }
-        c
+    fn columns(&self) -> Vec<Column> {
+        Self::columns_for(
+            self.temperature_unit == "K",
+            &self.energy_unit,
+            self.functions,
+            self.per,
+        )
     }
 
     fn rows(&self) -> Vec<Vec<String>> {
@@ -374,7 +404,7 @@ impl Tabular for ThermoReport {
                     v.extend(
                         [&p.u_over_kt, &p.cv_over_k, &p.s_over_k, &p.f_over_kt].map(|s| mark(s)),
                     );
-                    if self.units.is_some() {
+                    if self.per.is_some() {
                         for x in [&r.u, &r.cv, &r.s, &r.f] {
                             v.push(mark(x.as_deref().unwrap_or("")));
                         }

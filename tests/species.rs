@@ -86,8 +86,65 @@ fn hydrogen_conversion_at_the_boiling_point() {
     assert_eq!(row.ortho_fraction, "0.7500000000");
     // The ortho → para heat is close to R·E(J=1)/k with E(J=1) = 118.5 cm-1
     // (H2 J=1 term value, Huber–Herzberg, from memory) = 170.5 K R.
-    let o2p: f64 = row.ortho_to_para_heat.parse().unwrap();
+    assert_eq!(row.ground_isomer, "para");
+    let o2p: f64 = row.heat_to_ground_isomer.parse().unwrap();
     assert!((o2p - 8.314462618 * 170.5).abs() < 5.0, "{o2p}");
+}
+
+/// D2's ground level J = 0 belongs to ortho (nuclear spin 1, even J weight
+/// 6): the conversion to the ground isomer is para → ortho and releases
+/// heat, about R·E(J=1)/k with E(J=1) = 2 B = 59.8 cm-1 for D2 (B_e about
+/// 30.4 cm-1, Huber–Herzberg, from memory) = 86 K R, at low T.
+#[test]
+fn deuterium_converts_para_to_ortho_with_heat_released() {
+    let db = Database::builtin().unwrap();
+    let d2 = db.find("D2").unwrap();
+    let t = HydrogenTable::build(
+        d2,
+        &[parse_rational("20").unwrap()],
+        &Isomer::Normal,
+        &MolarOptions::default(),
+    )
+    .unwrap();
+    let row = &t.rows[0];
+    assert_eq!(row.ground_isomer, "ortho");
+    let heat: f64 = row.heat_to_ground_isomer.parse().unwrap();
+    assert!(heat > 0.0, "{heat}");
+    assert!((heat / (8.314462618 * 86.0) - 1.0).abs() < 0.03, "{heat}");
+    // Normal D2 is frozen at 2/3 ortho; converting it to equilibrium
+    // releases heat too.
+    assert_eq!(row.ortho_fraction, "0.6666666667");
+    assert!(row.conversion_heat.parse::<f64>().unwrap() > 0.0);
+}
+
+/// A frozen mixture keeps each isomer's own lowest level as H0: for normal
+/// hydrogen at 20 K almost every molecule sits in its isomer's lowest
+/// level, so H − H0 is close to the translational 5/2 RT = 415.7 J/mol
+/// (standard result), −(G − H0)/T is positive, and the table says which
+/// reference it uses. The equilibrium mixture is measured from para J = 0.
+#[test]
+fn normal_hydrogen_is_measured_from_each_isomers_lowest_level() {
+    let db = Database::builtin().unwrap();
+    let h2 = db.find("H2").unwrap();
+    let t = parse_rational("20").unwrap();
+    let at = |iso: Isomer| {
+        let o = MolarOptions {
+            isomer: Some(iso),
+            ..MolarOptions::default()
+        };
+        molar(h2, &t, &o).unwrap()
+    };
+    let n = at(Isomer::Normal);
+    let h: f64 = n.h.parse().unwrap();
+    assert!((h / (2.5 * 8.314462618 * 20.0) - 1.0).abs() < 1e-3, "{h}");
+    assert!(n.g.parse::<f64>().unwrap() > 0.0, "{}", n.g);
+    assert!(n.reference.contains("own lowest level"), "{}", n.reference);
+    let e = at(Isomer::Equilibrium);
+    assert_eq!(e.reference, "H0 = the lowest level");
+    // The default state is normal.
+    let d = molar(h2, &t, &MolarOptions::default()).unwrap();
+    assert_eq!(d.isomer.as_deref(), Some("normal"));
+    assert_eq!(d.s, n.s);
 }
 
 /// Normal and equilibrium hydrogen agree at high temperature (the

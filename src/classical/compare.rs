@@ -3,7 +3,7 @@
 
 use super::{error_text, rational_text, value_text, Classical, Quantity, Values, PREC};
 use crate::error::Result;
-use crate::export::Tabular;
+use crate::export::{units_block, Column, Tabular};
 use crate::sum::{Cached, Temperature};
 use num_rational::BigRational;
 use rug::Float;
@@ -109,6 +109,8 @@ pub struct CompareReport {
     pub digits: u32,
     /// One row per temperature.
     pub rows: Vec<CompareRow>,
+    /// The unit of every field that has one, from the table's columns.
+    pub units: serde_json::Map<String, serde_json::Value>,
 }
 
 fn texts(v: &Values, digits: u32) -> [String; 4] {
@@ -216,10 +218,12 @@ pub fn compare(
         });
         observe(done + 1);
     }
+    let unit = c.spectrum().unit().to_string();
     Ok(CompareReport {
+        units: units_block(&CompareReport::columns_for(kelvin, &unit)),
         model: c.spectrum().describe(),
         kelvin,
-        unit: c.spectrum().unit().to_string(),
+        unit,
         theta: rational_text(&c.theta(), 15),
         theta_kelvin: c.theta_kelvin().map(|k| rational_text(&k, 15)),
         approximation_list: indices.iter().map(|&i| all[i].clone()).collect(),
@@ -229,6 +233,22 @@ pub fn compare(
 }
 
 impl CompareReport {
+    /// The columns: the temperature (T in K, or kT in the model's unit),
+    /// T/θ, the source, and each quantity with its relative error.
+    fn columns_for(kelvin: bool, unit: &str) -> Vec<Column> {
+        let t = if kelvin {
+            Column::with_unit("T", "K")
+        } else {
+            Column::with_unit("kT", unit)
+        };
+        let mut c = vec![t.key("T"), Column::plain("T/θ"), Column::plain("source")];
+        for q in Quantity::ALL {
+            c.push(Column::plain(q.column()));
+            c.push(Column::plain(&format!("err {}", q.name())));
+        }
+        c
+    }
+
     /// `(T, value)` of `quantity` for the exact sum (`None`) or
     /// approximation number `k` of the map, in grid order; T in kelvin or
     /// kT as the grid was given. Undefined points are left out.
@@ -290,18 +310,8 @@ impl Tabular for CompareReport {
         p
     }
 
-    fn columns(&self) -> Vec<String> {
-        let t = if self.kelvin {
-            "T (K)".to_string()
-        } else {
-            format!("kT ({})", self.unit)
-        };
-        let mut c = vec![t, "T/θ".into(), "source".into()];
-        for q in Quantity::ALL {
-            c.push(q.column().to_string());
-            c.push(format!("err {}", q.name()));
-        }
-        c
+    fn columns(&self) -> Vec<Column> {
+        Self::columns_for(self.kelvin, &self.unit)
     }
 
     fn rows(&self) -> Vec<Vec<String>> {

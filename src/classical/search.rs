@@ -13,7 +13,7 @@
 use super::{error_text, rational_text, Classical, Quantity, PREC};
 use crate::error::{Error, Result};
 use crate::exact::{exact_decimal, format_sig, parse_rational};
-use crate::export::Tabular;
+use crate::export::{units_block, Column, Tabular};
 use crate::sum::Cached;
 use num_rational::BigRational;
 use num_traits::{Signed, ToPrimitive};
@@ -109,6 +109,20 @@ pub struct CrossoverReport {
     pub error_at_ends: [String; 2],
     /// A sentence saying what was found.
     pub verdict: String,
+    /// The unit of every field that has one, from the table's columns.
+    pub units: serde_json::Map<String, serde_json::Value>,
+}
+
+impl CrossoverReport {
+    /// The columns of the crossings' table.
+    fn columns_for(unit: &str) -> Vec<Column> {
+        vec![
+            Column::plain("T/θ"),
+            Column::with_unit("T", "K").key("T"),
+            Column::with_unit("kT", unit).key("kT"),
+            Column::plain("tolerance exceeded"),
+        ]
+    }
 }
 
 /// State of `|error| > tol` at T/θ = x: true when the tolerance is exceeded
@@ -336,6 +350,9 @@ pub fn crossovers(
         )
     };
     Ok(CrossoverReport {
+        units: units_block(&CrossoverReport::columns_for(
+            &c.spectrum().unit().to_string(),
+        )),
         model: c.spectrum().describe(),
         quantity,
         approximation: approximation.name.clone(),
@@ -373,13 +390,8 @@ impl Tabular for CrossoverReport {
         p
     }
 
-    fn columns(&self) -> Vec<String> {
-        vec![
-            "T/θ".into(),
-            "T (K)".into(),
-            format!("kT ({})", self.unit),
-            "tolerance exceeded".into(),
-        ]
+    fn columns(&self) -> Vec<Column> {
+        Self::columns_for(&self.unit)
     }
 
     fn rows(&self) -> Vec<Vec<String>> {

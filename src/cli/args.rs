@@ -539,7 +539,8 @@ pub enum ThermoModel {
     /// Zeeman multiplet.
     Zeeman(ZeemanThermo),
     /// A built-in species by name (e.g. `zsum thermo N2 --T 298.15`):
-    /// standard molar functions; see `zsum thermo N2 --help`.
+    /// ideal-gas functions per mole, kg or particle; its options are listed
+    /// at the end of `zsum thermo --help`.
     #[command(external_subcommand)]
     Species(Vec<String>),
 }
@@ -550,7 +551,9 @@ pub enum ThermoModel {
 pub struct SpeciesThermo {
     /// The species (zsum species list).
     pub species: String,
-    /// Temperature(s) in kelvin: T, START:STOP:STEP or log:START:STOP:COUNT.
+    /// Temperature(s) in kelvin: a value (298.15), a grid START:STOP:STEP
+    /// (10:300:5) or log:START:STOP:COUNT (log:1:1000:50), or a comma list
+    /// of these (20.28,77,300); exact decimals.
     #[arg(long = "T", value_name = "T", allow_hyphen_values = true)]
     pub t: String,
     /// Pressure: a number in Pa, or with a unit (Pa, kPa, MPa, bar, atm).
@@ -561,10 +564,15 @@ pub struct SpeciesThermo {
         allow_hyphen_values = true
     )]
     pub p: String,
-    /// Values per mole (the only choice for a species table).
-    #[arg(long, value_enum, default_value_t = PerArg::Mole)]
-    pub per: PerArg,
-    /// Spin isomers of H2, D2, N2: equilibrium, normal, ortho, para or fraction=X.
+    /// The amount the functions are given for: per mole (J/(mol K), J/mol),
+    /// per kg (J/(kg K), J/kg) or per particle (J/K, J).
+    #[arg(long, value_enum, default_value_t = BasisArg::Mole)]
+    pub per: BasisArg,
+    /// Spin-isomer state of H2, D2, N2: normal (frozen at the
+    /// high-temperature ortho fraction, as in a cylinder at room
+    /// temperature), equilibrium, ortho, para or fraction=X (ortho
+    /// fraction). For a frozen state H0 is each isomer's own lowest level.
+    /// Species without spin isomers refuse it. [default: normal]
     #[arg(long, value_name = "STATE")]
     pub isomer: Option<String>,
     /// rovib (vibrating rotor, default) or rrho (rigid rotor, harmonic oscillator).
@@ -583,6 +591,17 @@ pub struct SpeciesThermo {
     /// Output options.
     #[command(flatten)]
     pub out: Output,
+}
+
+/// The amount a species' functions are given for.
+#[derive(Debug, Clone, Copy, ValueEnum)]
+pub enum BasisArg {
+    /// Per mole: J/(mol K) and J/mol.
+    Mole,
+    /// Per kilogram: J/(kg K) and J/kg.
+    Kg,
+    /// Per molecule or atom: J/K and J.
+    Particle,
 }
 
 /// `zsum species`.
@@ -613,11 +632,15 @@ pub enum SpeciesCommand {
 /// `zsum hydrogen`.
 #[derive(Debug, Args)]
 pub struct HydrogenArgs {
-    /// Temperature(s) in kelvin: T, START:STOP:STEP or log:START:STOP:COUNT.
+    /// Temperature(s) in kelvin: a value (298.15), a grid START:STOP:STEP
+    /// (10:300:5) or log:START:STOP:COUNT (log:1:1000:50), or a comma list
+    /// of these (20.28,77,300); exact decimals.
     #[arg(long = "T", value_name = "T", allow_hyphen_values = true)]
     pub t: String,
-    /// The state whose Cp, S and H are shown: equilibrium, normal, ortho,
-    /// para or fraction=X (ortho fraction).
+    /// The state whose Cp, S and H are shown: normal (frozen at the
+    /// high-temperature ortho fraction), equilibrium, ortho, para or
+    /// fraction=X (ortho fraction), as in `thermo SPECIES`. For a frozen
+    /// state H0 is each isomer's own lowest level.
     #[arg(long, value_name = "STATE", default_value = "normal")]
     pub isomer: String,
     /// The species: H2 (default) or D2 (or N2).
@@ -637,9 +660,9 @@ pub struct HydrogenArgs {
 /// Temperatures, precision and output for `sum` and `thermo`.
 #[derive(Debug, Args)]
 pub struct TempArgs {
-    /// Temperature(s) in kelvin: one value (298.15), a linear grid
-    /// START:STOP:STEP (10:300:5), or a logarithmic grid log:START:STOP:COUNT
-    /// (log:1:1000:50). Exact decimals.
+    /// Temperature(s) in kelvin: a value (298.15), a grid START:STOP:STEP
+    /// (10:300:5) or log:START:STOP:COUNT (log:1:1000:50), or a comma list
+    /// of these (20.28,77,300); exact decimals.
     #[arg(
         long = "T",
         value_name = "T",
@@ -704,7 +727,9 @@ pub struct SystemThermo {
     /// A system file (TOML).
     #[arg(long, value_name = "FILE")]
     pub system: Option<PathBuf>,
-    /// Temperature(s) in kelvin, as for the models.
+    /// Temperature(s) in kelvin: a value (298.15), a grid START:STOP:STEP
+    /// (10:300:5) or log:START:STOP:COUNT (log:1:1000:50), or a comma list
+    /// of these (20.28,77,300); exact decimals.
     #[arg(
         long = "T",
         value_name = "T",
@@ -715,10 +740,11 @@ pub struct SystemThermo {
     /// Significant digits of every printed value, each certified (1 to 996).
     #[arg(long, value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS)]
     pub digits: u32,
-    /// Effort limit in working bits (as for the models).
+    /// Effort limit: the most working bits spent on one temperature before
+    /// a value is printed marked * (with the reason).
     #[arg(long = "max-bits", value_name = "BITS", default_value_t = zsum::sum::DEFAULT_MAX_BITS)]
     pub max_bits: u32,
-    /// Physical units.
+    /// Also give U, Cv, S, F in J/mol (per mole) or J (per particle).
     #[arg(long, value_enum)]
     pub per: Option<PerArg>,
     /// Output format.
@@ -801,7 +827,9 @@ pub struct CompareArgs {
     /// A system file (TOML) instead of a model.
     #[arg(long, value_name = "FILE", global = true)]
     pub system: Option<PathBuf>,
-    /// Temperatures in kelvin: T, START:STOP:STEP or log:START:STOP:COUNT.
+    /// Temperature(s) in kelvin: a value (298.15), a grid START:STOP:STEP
+    /// (10:300:5) or log:START:STOP:COUNT (log:1:1000:50), or a comma list
+    /// of these (20.28,77,300); exact decimals.
     #[arg(
         long = "T",
         value_name = "T",
@@ -1034,8 +1062,9 @@ pub struct EnsembleArgs {
     /// Statistics: bose, fermi or distinct (labelled).
     #[arg(long, value_name = "STATS")]
     pub stats: String,
-    /// Temperature(s) in kelvin: one value, START:STOP:STEP or
-    /// log:START:STOP:COUNT.
+    /// Temperature(s) in kelvin: a value (298.15), a grid START:STOP:STEP
+    /// (10:300:5) or log:START:STOP:COUNT (log:1:1000:50), or a comma list
+    /// of these (20.28,77,300); exact decimals.
     #[arg(
         long = "T",
         value_name = "T",

@@ -5,12 +5,35 @@
 mod args;
 mod run;
 
-use clap::Parser;
+use clap::{CommandFactory, FromArgMatches};
 use std::io::Write;
+
+/// The whole command line, with `thermo --help` ending in the options of
+/// `thermo SPECIES` (a species name is taken as an external subcommand,
+/// which clap's help would not show).
+pub fn command() -> clap::Command {
+    let species = args::SpeciesThermo::command()
+        .override_usage("zsum thermo SPECIES --T <T> [OPTIONS]")
+        .render_long_help()
+        .to_string();
+    args::Cli::command().mut_subcommand("thermo", |t| {
+        t.after_help(
+            "A built-in species instead of a model: zsum thermo SPECIES --T <T> [--p P] \
+             [--per mole|kg|particle] [--isomer STATE] [--model rovib|rrho] [--digits N] \
+             (zsum species list names them; --help lists every option)",
+        )
+        .after_long_help(format!(
+            "A built-in species instead of a model (zsum species list names them):\n\n{species}"
+        ))
+    })
+}
 
 /// Runs the command line and returns the process exit status.
 pub fn main() -> i32 {
-    let cli = match args::Cli::try_parse() {
+    let parsed = command()
+        .try_get_matches()
+        .and_then(|m| args::Cli::from_arg_matches(&m));
+    let cli = match parsed {
         Ok(cli) => cli,
         Err(e) if !e.use_stderr() => {
             // --help and --version: print and succeed.

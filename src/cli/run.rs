@@ -1,12 +1,12 @@
 //! Validates raw arguments into library objects, runs the library, renders.
 
 use super::args::{
-    BoxCount, BoxLevels, BoxPhysical, BoxShape, ClassicalModel, Cli, Command, CompareArgs,
-    CountModel, CrossoverArgs, DiatomicLevels, DiatomicModel, EnsembleArgs, FileLevels, FileModel,
-    FormatArg, HydrogenArgs, LevelsModel, ListArgs, MicrostatesArgs, OnlyArg, OscillatorLevels,
-    OscillatorModel, Output, PerArg, RotorLevels, RotorModel, SpeciesCommand, SpeciesThermo,
-    SpinArgs, SystemLevels, SystemThermo, TempArgs, ThermoModel, TopLevels, TopModel, VibsumArgs,
-    ZeemanLevels, ZeemanModel,
+    BasisArg, BoxCount, BoxLevels, BoxPhysical, BoxShape, ClassicalModel, Cli, Command,
+    CompareArgs, CountModel, CrossoverArgs, DiatomicLevels, DiatomicModel, EnsembleArgs,
+    FileLevels, FileModel, FormatArg, HydrogenArgs, LevelsModel, ListArgs, MicrostatesArgs,
+    OnlyArg, OscillatorLevels, OscillatorModel, Output, PerArg, RotorLevels, RotorModel,
+    SpeciesCommand, SpeciesThermo, SpinArgs, SystemLevels, SystemThermo, TempArgs, ThermoModel,
+    TopLevels, TopModel, VibsumArgs, ZeemanLevels, ZeemanModel,
 };
 use num_rational::BigRational;
 use num_traits::Zero;
@@ -23,7 +23,7 @@ use zsum::models::ParticleInBox;
 use zsum::report::{check_digits, BoxScale, CountReport, LevelsReport};
 use zsum::report::{ListOptions, SpectrumLevelsReport};
 use zsum::species::hydrogen::HydrogenTable;
-use zsum::species::{Database, Isomer, MolarOptions, MolarTable, Translation, VibModel};
+use zsum::species::{Basis, Database, Isomer, MolarOptions, MolarTable, Translation, VibModel};
 use zsum::spectrum::Budget;
 use zsum::spectrum::Spectrum;
 use zsum::system::{parse_energy, parse_twice_spin, parse_weights, restrict_weights, System};
@@ -735,13 +735,6 @@ fn species_thermo(args: &[String]) -> Result<Option<String>> {
             ))
         }
     };
-    if let PerArg::Particle = a.per {
-        return Err(Error::invalid(
-            "--per",
-            "particle",
-            "species tables are per mole; use a model (zsum thermo rotor ...) per particle",
-        ));
-    }
     let db = database(&a.species_file)?;
     let sp = db.find(&a.species)?;
     let options = MolarOptions {
@@ -753,6 +746,11 @@ fn species_thermo(args: &[String]) -> Result<Option<String>> {
         },
         isomer: a.isomer.as_deref().map(Isomer::parse).transpose()?,
         digits: a.digits,
+        basis: match a.per {
+            BasisArg::Mole => Basis::Mole,
+            BasisArg::Kg => Basis::Kilogram,
+            BasisArg::Particle => Basis::Particle,
+        },
     };
     let grid = parse_grid("--T", &a.t)?;
     let table = MolarTable::build(sp, &grid, &options)?;

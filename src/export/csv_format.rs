@@ -7,7 +7,8 @@ use crate::error::{Error, ErrorKind, Result};
 pub fn to_csv<T: Tabular>(result: &T) -> Result<String> {
     let err = |e: csv::Error| Error::new(ErrorKind::Io, format!("cannot write CSV: {e}"));
     let mut w = csv::Writer::from_writer(Vec::new());
-    w.write_record(result.columns()).map_err(err)?;
+    w.write_record(super::headings(&result.columns()))
+        .map_err(err)?;
     for row in result.rows() {
         w.write_record(row).map_err(err)?;
     }

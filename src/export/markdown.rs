@@ -14,7 +14,7 @@ pub fn to_markdown<T: Tabular>(result: &T) -> String {
         out.push_str("  \n");
     }
     out.push('\n');
-    let cols = result.columns();
+    let cols = super::headings(&result.columns());
     out.push_str(&format!(
         "| {} |\n",
         cols.iter().map(|c| cell(c)).collect::<Vec<_>>().join(" | ")
@@ -43,8 +43,11 @@ mod tests {
         fn preamble(&self) -> Vec<String> {
             vec!["what".into()]
         }
-        fn columns(&self) -> Vec<String> {
-            vec!["a".into(), "b|c".into()]
+        fn columns(&self) -> Vec<crate::export::Column> {
+            vec![
+                crate::export::Column::plain("a"),
+                crate::export::Column::plain("b|c"),
+            ]
         }
         fn rows(&self) -> Vec<Vec<String>> {
             vec![vec!["1".into(), "2".into()]]

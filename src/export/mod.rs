@@ -16,13 +16,83 @@ pub use json::to_json;
 pub use markdown::to_markdown;
 pub use table::to_table;
 
+/// One column of a result: the quantity's name, its unit, and the JSON
+/// field that carries the same value. Table, CSV and Markdown headings and
+/// every JSON `units` block are made from this one description, so a unit is
+/// written in one place.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct Column {
+    /// The quantity as a reader knows it: `T`, `Cp`, `H-H0`, `ln q`.
+    pub name: String,
+    /// Its unit; `None` for labels, counts and quantities that are pure
+    /// numbers by construction (q, ln q, U/kT, a fraction).
+    pub unit: Option<String>,
+    /// The JSON field holding this column's value, where there is one.
+    pub key: Option<String>,
+}
+
+impl Column {
+    /// A column without a unit (a label, a count, a pure number).
+    pub fn plain(name: &str) -> Self {
+        Column {
+            name: name.into(),
+            unit: None,
+            key: None,
+        }
+    }
+
+    /// A column of a quantity in `unit`.
+    pub fn with_unit(name: &str, unit: &str) -> Self {
+        Column {
+            name: name.into(),
+            unit: Some(unit.into()),
+            key: None,
+        }
+    }
+
+    /// The same column, its value carried in JSON field `key`.
+    pub fn key(mut self, key: &str) -> Self {
+        self.key = Some(key.into());
+        self
+    }
+
+    /// The heading printed above the column: `name (unit)` or `name`.
+    ///
+    /// ```
+    /// use zsum::export::Column;
+    /// assert_eq!(Column::with_unit("Cp", "J/(mol K)").heading(), "Cp (J/(mol K))");
+    /// assert_eq!(Column::plain("ln q").heading(), "ln q");
+    /// ```
+    pub fn heading(&self) -> String {
+        match &self.unit {
+            Some(u) => format!("{} ({u})", self.name),
+            None => self.name.clone(),
+        }
+    }
+}
+
+/// The JSON `units` block of a result: JSON field → unit, for every column
+/// that has both, in column order.
+pub fn units_block(columns: &[Column]) -> serde_json::Map<String, serde_json::Value> {
+    columns
+        .iter()
+        .filter_map(|c| Some((c.key.clone()?, serde_json::Value::from(c.unit.clone()?))))
+        .collect()
+}
+
+/// The headings of `columns`, as printed.
+pub fn headings(columns: &[Column]) -> Vec<String> {
+    columns.iter().map(Column::heading).collect()
+}
+
 /// A result that can be laid out as rows and columns.
 pub trait Tabular {
     /// Lines printed above a table (as `#` comments): what was computed and
     /// in which units.
     fn preamble(&self) -> Vec<String>;
-    /// Column headings.
-    fn columns(&self) -> Vec<String>;
+    /// The columns: each quantity with its unit (the headings are made from
+    /// them).
+    fn columns(&self) -> Vec<Column>;
     /// The rows, each as long as `columns()`.
     fn rows(&self) -> Vec<Vec<String>>;
     /// Lines printed below a table (as `#` comments).

@@ -5,7 +5,7 @@ use super::Tabular;
 
 /// Lays out a result as an aligned text table.
 pub fn to_table<T: Tabular>(result: &T) -> String {
-    let cols = result.columns();
+    let cols = super::headings(&result.columns());
     let rows = result.rows();
     let mut width: Vec<usize> = cols.iter().map(|c| c.chars().count()).collect();
     for r in &rows {

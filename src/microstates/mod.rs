@@ -375,12 +375,13 @@ impl crate::export::Tabular for VibsumReport {
         }))
         .collect()
     }
-    fn columns(&self) -> Vec<String> {
+    fn columns(&self) -> Vec<crate::export::Column> {
+        use crate::export::Column;
         vec![
-            format!("E ({})", self.unit),
-            "count".into(),
-            "sum".into(),
-            format!("density (per {})", self.unit),
+            Column::with_unit("E", &self.unit),
+            Column::plain("count"),
+            Column::plain("sum"),
+            Column::with_unit("density", &format!("1/{}", self.unit)),
         ]
     }
     fn rows(&self) -> Vec<Vec<String>> {

@@ -5,7 +5,7 @@ use super::ensemble::{boltzmann_log_ratio, canonical_at, point_from, EnsemblePoi
 use crate::classical::{bisect, value_text};
 use crate::error::Result;
 use crate::exact::{exact_decimal, format_sig, parse_rational};
-use crate::export::Tabular;
+use crate::export::{units_block, Column, Tabular};
 use crate::spectrum::Spectrum;
 use crate::sum::{float_to_decimal, to_rug, Temperature};
 use num_rational::BigRational;
@@ -57,6 +57,8 @@ pub struct MicroReport {
     pub up_to: String,
     /// Rows with Ω > 0.
     pub rows: Vec<MicroRow>,
+    /// The unit of every field that has one, from the table's columns.
+    pub units: serde_json::Map<String, serde_json::Value>,
 }
 
 fn exact_float(r: &BigRational, prec: u32) -> Float {
@@ -161,7 +163,21 @@ impl MicroReport {
             base: exact_decimal(&omega.energy(0), 40),
             up_to: exact_decimal(up_to, 40),
             rows,
+            units: units_block(&Self::columns_for(&spectrum.unit().to_string())),
         })
+    }
+
+    /// The columns of the counting table, energies in `unit`.
+    fn columns_for(unit: &str) -> Vec<Column> {
+        vec![
+            Column::with_unit("E", unit).key("energy"),
+            Column::plain("steps"),
+            Column::plain("Omega"),
+            Column::plain("S/k"),
+            Column::with_unit("kT", unit).key("kt"),
+            Column::with_unit("U canonical", unit).key("canonical_u"),
+            Column::plain("S/k canonical"),
+        ]
     }
 }
 
@@ -199,16 +215,8 @@ impl Tabular for MicroReport {
                 .into(),
         ]
     }
-    fn columns(&self) -> Vec<String> {
-        vec![
-            format!("E ({})", self.unit),
-            "steps".into(),
-            "Omega".into(),
-            "S/k".into(),
-            format!("kT ({})", self.unit),
-            format!("U canonical ({})", self.unit),
-            "S/k canonical".into(),
-        ]
+    fn columns(&self) -> Vec<Column> {
+        Self::columns_for(&self.unit)
     }
     fn rows(&self) -> Vec<Vec<String>> {
         let o = |x: &Option<String>| x.clone().unwrap_or_default();
@@ -256,6 +264,11 @@ pub struct EnsembleReport {
     pub rows: Vec<EnsemblePoint>,
     /// Where |q^N/N! / Q − 1| crosses the tolerance, coldest first.
     pub crossings: Vec<BoltzmannCrossing>,
+    /// The unit of every field that has one, from the table's columns.
+    pub units: serde_json::Map<String, serde_json::Value>,
+    /// The spectrum's energy unit (of kT when the grid is kT).
+    #[serde(skip)]
+    energy_unit: String,
 }
 
 impl EnsembleReport {
@@ -352,7 +365,10 @@ impl EnsembleReport {
             });
         }
         let percent = tol * BigRational::from_integer(100.into());
+        let energy_unit = spectrum.unit().to_string();
         Ok(EnsembleReport {
+            units: units_block(&Self::columns_for(kelvin, &energy_unit)),
+            energy_unit,
             system: spectrum.describe(),
             statistics: stats,
             particles: n,
@@ -368,6 +384,35 @@ impl EnsembleReport {
     }
 }
 
+impl EnsembleReport {
+    /// The columns: T in K (or kT in the spectrum's unit), the exact
+    /// functions, the errors of the shortcuts, the working precision.
+    fn columns_for(kelvin: bool, unit: &str) -> Vec<Column> {
+        let t = if kelvin {
+            Column::with_unit("T", "K")
+        } else {
+            Column::with_unit("kT", unit)
+        };
+        let mut c = vec![t.key("T")];
+        c.extend(
+            [
+                "ln Q",
+                "U/kT",
+                "Cv/k",
+                "S/k",
+                "err Q",
+                "err U",
+                "err Cv",
+                "dS/k",
+                "q^N err Q",
+            ]
+            .map(Column::plain),
+        );
+        c.push(Column::with_unit("precision", "bits").key("precision_bits"));
+        c
+    }
+}
+
 impl Tabular for EnsembleReport {
     fn preamble(&self) -> Vec<String> {
         vec![
@@ -380,8 +425,8 @@ impl Tabular for EnsembleReport {
             ),
             format!(
                 "T column: {}; err = relative error of q^N/N! (Boltzmann counting) against the \
-                 exact Q_N; dS/k = its S/k minus the exact; q^N err = labelled counting; bits = \
-                 working precision",
+                 exact Q_N; dS/k = its S/k minus the exact; q^N err = labelled counting; \
+                 precision = working precision",
                 if self.temperature == "K" {
                     "T in K".to_string()
                 } else {
@@ -390,23 +435,8 @@ impl Tabular for EnsembleReport {
             ),
         ]
     }
-    fn columns(&self) -> Vec<String> {
-        [
-            "T",
-            "ln Q",
-            "U/kT",
-            "Cv/k",
-            "S/k",
-            "err Q",
-            "err U",
-            "err Cv",
-            "dS/k",
-            "q^N err Q",
-            "bits",
-        ]
-        .iter()
-        .map(|s| s.to_string())
-        .collect()
+    fn columns(&self) -> Vec<Column> {
+        Self::columns_for(self.temperature == "K", &self.energy_unit)
     }
     fn rows(&self) -> Vec<Vec<String>> {
         self.rows

@@ -304,16 +304,18 @@ impl Tabular for WrReport {
             ),
         ]
     }
-    fn columns(&self) -> Vec<String> {
+    fn columns(&self) -> Vec<crate::export::Column> {
+        use crate::export::Column;
+        let per = format!("1/{}", self.unit);
         vec![
-            format!("E ({})", self.unit),
-            "E/E_z".into(),
-            "W exact".into(),
-            "W WR".into(),
-            "err W".into(),
-            "rho exact".into(),
-            "rho WR".into(),
-            "err rho".into(),
+            Column::with_unit("E", &self.unit),
+            Column::plain("E/E_z"),
+            Column::plain("W exact"),
+            Column::plain("W WR"),
+            Column::plain("err W"),
+            Column::with_unit("rho exact", &per),
+            Column::with_unit("rho WR", &per),
+            Column::plain("err rho"),
         ]
     }
     fn rows(&self) -> Vec<Vec<String>> {

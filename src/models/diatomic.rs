@@ -611,6 +611,28 @@ impl Spectrum for RovibDiatomic {
         Ok(LevelList::new(self.unit(), levels))
     }
 
+    fn term_numbers(&self) -> Vec<String> {
+        vec!["v".into(), "J".into()]
+    }
+
+    fn terms_within(
+        &self,
+        cutoff: &BigRational,
+        budget: &Budget,
+    ) -> Result<Vec<(BigRational, Vec<i64>)>> {
+        check_cutoff(self, cutoff)?;
+        let what = format!("listing the rovibrational terms up to {}", show(cutoff));
+        let mut out = Vec::new();
+        for (v, top) in self.ladders(cutoff, budget, &what)? {
+            for j in 0..=top {
+                if !self.weights.weight(j).is_zero() {
+                    out.push((self.energy(v, j), vec![v as i64, j as i64]));
+                }
+            }
+        }
+        Ok(out)
+    }
+
     fn states_at(&self, energy: &BigRational) -> Result<Vec<State>> {
         if energy < &self.ground {
             return Ok(Vec::new());

@@ -434,6 +434,30 @@ impl HarmonicModes {
             .collect()
     }
 
+    /// Every tuple of mode quanta with excitation at most `rem` (from mode
+    /// `cur.len()` on), pushed with its energy `e` plus that excitation.
+    fn every_tuple(
+        &self,
+        rem: &BigRational,
+        e: &BigRational,
+        cur: &mut Vec<i64>,
+        out: &mut Vec<(BigRational, Vec<i64>)>,
+    ) {
+        let Some((w, _)) = self.modes.get(cur.len()) else {
+            out.push((e.clone(), cur.clone()));
+            return;
+        };
+        let mut v = 0;
+        let mut used = BigRational::zero();
+        while &used <= rem {
+            cur.push(v);
+            self.every_tuple(&(rem - &used), &(e + &used), cur, out);
+            cur.pop();
+            v += 1;
+            used += w;
+        }
+    }
+
     /// Finds every tuple of mode quanta whose excitation energy is exactly
     /// `rem` (from mode `j` on), using `suffix[j+1]` (the energies reachable
     /// by the later modes) to prune: every branch followed ends in a tuple.
@@ -576,6 +600,35 @@ impl Spectrum for HarmonicModes {
             acc = acc.product_up_to(&self.mode_list(i, top), &x)?;
         }
         Ok(acc.shifted(&e0))
+    }
+
+    /// `v1`, `v2`, …: the quanta in each mode (a degenerate mode's total
+    /// over its components).
+    fn term_numbers(&self) -> Vec<String> {
+        (1..=self.modes.len()).map(|i| format!("v{i}")).collect()
+    }
+
+    fn terms_within(
+        &self,
+        cutoff: &BigRational,
+        budget: &Budget,
+    ) -> Result<Vec<(BigRational, Vec<i64>)>> {
+        check_cutoff(self, cutoff)?;
+        let e0 = self.ground_energy();
+        let x = cutoff - &e0;
+        let what = format!("listing the vibrational terms up to {}", show(cutoff));
+        self.prepare(&x, budget, &what)?;
+        // Each term holds at least one state, so the state bound bounds them.
+        let terms = self.count_bound(cutoff).to_f64().unwrap_or(f64::INFINITY);
+        budget.check(
+            &what,
+            terms * (STATE_BYTES + 8.0 * self.modes.len() as f64),
+            "give a lower cutoff",
+        )?;
+        let mut out = Vec::new();
+        let mut cur = Vec::with_capacity(self.modes.len());
+        self.every_tuple(&x, &e0, &mut cur, &mut out);
+        Ok(out)
     }
 
     fn states_at(&self, energy: &BigRational) -> Result<Vec<State>> {
@@ -979,6 +1032,22 @@ impl Spectrum for AnharmonicOscillator {
             .map(|v| Level::new(self.term_value(v), 1u32))
             .collect();
         Ok(LevelList::new(self.unit.clone(), levels))
+    }
+
+    fn term_numbers(&self) -> Vec<String> {
+        vec!["v".into()]
+    }
+
+    fn terms_within(
+        &self,
+        cutoff: &BigRational,
+        budget: &Budget,
+    ) -> Result<Vec<(BigRational, Vec<i64>)>> {
+        // Bound levels only, one per v (the listing's own count and budget).
+        let n = self.levels_within(cutoff, budget)?.len() as u64;
+        Ok((0..n)
+            .map(|v| (self.term_value(v), vec![v as i64]))
+            .collect())
     }
 
     fn states_at(&self, energy: &BigRational) -> Result<Vec<State>> {

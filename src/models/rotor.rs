@@ -410,6 +410,23 @@ impl Spectrum for LinearRotor {
         }
     }
 
+    fn term_numbers(&self) -> Vec<String> {
+        vec!["J".into()]
+    }
+
+    fn terms_within(
+        &self,
+        cutoff: &BigRational,
+        budget: &Budget,
+    ) -> Result<Vec<(BigRational, Vec<i64>)>> {
+        let (rungs, _) = self.rungs(cutoff, budget)?;
+        Ok(rungs
+            .into_iter()
+            .filter(|(j, _)| !self.weights.weight(*j).is_zero())
+            .map(|(j, e)| (e, vec![j as i64]))
+            .collect())
+    }
+
     fn highest_energy(&self) -> Option<BigRational> {
         turnover_poly(&self.b, &self.d, &self.h)
     }
@@ -746,6 +763,23 @@ impl Spectrum for SymmetricTop {
         Ok(out)
     }
 
+    /// `J` and `K` ≥ 0: one term stands for the ±K pair.
+    fn term_numbers(&self) -> Vec<String> {
+        vec!["J".into(), "K".into()]
+    }
+
+    fn terms_within(
+        &self,
+        cutoff: &BigRational,
+        budget: &Budget,
+    ) -> Result<Vec<(BigRational, Vec<i64>)>> {
+        let (rows, _) = self.rows(cutoff, budget)?;
+        Ok(rows
+            .into_iter()
+            .map(|(j, k, e)| (e, vec![j as i64, k as i64]))
+            .collect())
+    }
+
     fn growth_exponent(&self) -> Option<f64> {
         Some(1.5)
     }
@@ -854,6 +888,22 @@ impl Spectrum for SphericalTop {
             }
             _ => Ok(Vec::new()),
         }
+    }
+
+    fn term_numbers(&self) -> Vec<String> {
+        vec!["J".into()]
+    }
+
+    fn terms_within(
+        &self,
+        cutoff: &BigRational,
+        budget: &Budget,
+    ) -> Result<Vec<(BigRational, Vec<i64>)>> {
+        let (rungs, _) = self.rungs(cutoff, budget)?;
+        Ok(rungs
+            .into_iter()
+            .map(|(j, e)| (e, vec![j as i64]))
+            .collect())
     }
 
     fn highest_energy(&self) -> Option<BigRational> {

@@ -2,22 +2,30 @@
 //! spin): ortho fraction, heat capacities of each state, and the heat of
 //! ortho–para conversion.
 //!
-//! With the common energy zero at the lowest level (para J = 0 for H2) and
-//! the molar enthalpies H_o, H_p of the pure isomers:
+//! With the common energy zero at the lowest level (para J = 0 for H2,
+//! ortho J = 0 for D2) and the molar enthalpies H_o, H_p of the pure
+//! isomers:
 //! - equilibrium ortho fraction `x_eq = q_o/(q_o + q_p)`, the isomers' sums
 //!   with their nuclear-spin weights;
-//! - heat of ortho → para conversion `H_o − H_p` per mole converted;
+//! - heat released converting one mole of the upper isomer (the one whose
+//!   lowest level lies above the common zero: ortho for H2, para for D2)
+//!   into the ground isomer, `H_upper − H_ground`: positive wherever the
+//!   gas is cold;
 //! - heat released when normal hydrogen (frozen at the high-temperature
 //!   fraction x_n, 3/4 for H2) converts to equilibrium at T:
 //!   `x_n H_o + (1 − x_n) H_p − H_eq`, per mole and per kilogram.
+//!
+//! The chosen state's S, Cp and H − H0 are those of [`super::molar`]: H0 is
+//! the lowest level for the equilibrium mixture and each isomer's own lowest
+//! level for a frozen composition (normal, ortho, para, a fraction).
 
 use super::molar::{
-    degeneracy, degeneracy_cells, degeneracy_note, degeneracy_warnings, isomer_parts, molar_with,
-    prec, Degeneracy, Isomer, MolarOptions, Spectra, Units, FLAG_HEADER, N_LAMBDA3_HEADER,
+    degeneracy, degeneracy_cells, degeneracy_columns, degeneracy_note, degeneracy_warnings,
+    isomer_parts, molar_with, prec, Basis, Degeneracy, Isomer, MolarOptions, Spectra,
 };
 use super::Species;
 use crate::error::Result;
-use crate::export::Tabular;
+use crate::export::{units_block, Column, Tabular};
 use crate::sum::float_to_decimal;
 use crate::units::constants;
 use num_rational::BigRational;
@@ -42,15 +50,21 @@ pub struct HydrogenRow {
     /// Conventional S of the chosen state, J/(mol K).
     #[serde(rename = "S")]
     pub s: String,
-    /// H − H0 of the chosen state, J/mol.
+    /// H − H0 of the chosen state, J/mol, with H0 as `reference` says.
     #[serde(rename = "H_minus_H0")]
     pub h: String,
+    /// What H0 is for the chosen state.
+    pub reference: String,
     /// Heat released per mole converting normal to equilibrium at T, J/mol.
     pub conversion_heat: String,
     /// The same per kilogram, kJ/kg.
     pub conversion_heat_per_kg: String,
-    /// Heat of converting one mole of ortho to para at T, J/mol.
-    pub ortho_to_para_heat: String,
+    /// The isomer that holds the lowest level (`para` for H2, `ortho` for
+    /// D2); the other is the upper isomer.
+    pub ground_isomer: String,
+    /// Heat released converting one mole of the upper isomer into the
+    /// ground isomer at T, J/mol.
+    pub heat_to_ground_isomer: String,
     /// Cp of normal, equilibrium and para, J/(mol K) (the curves of the report).
     #[serde(rename = "Cp_normal")]
     pub cp_normal: String,
@@ -65,8 +79,8 @@ pub struct HydrogenRow {
     /// internal only and do not depend on it.
     #[serde(flatten)]
     pub degeneracy: Degeneracy,
-    /// Units.
-    pub units: Units,
+    /// The unit of every field that has one, from the table's columns.
+    pub units: serde_json::Map<String, serde_json::Value>,
     #[serde(skip)]
     pub(crate) raw: [f64; 7],
 }
@@ -81,11 +95,13 @@ pub struct HydrogenTable {
     species: String,
     #[serde(skip)]
     pressure: String,
+    #[serde(skip)]
+    ground_isomer: String,
 }
 
 impl HydrogenTable {
     /// Builds the table for `sp` (H2, D2, ...) over `grid` (K) for the
-    /// chosen `isomer` state.
+    /// chosen `isomer` state; values per mole whatever `o.basis` says.
     ///
     /// ```
     /// use zsum::species::{Database, MolarOptions, Isomer};
@@ -106,6 +122,10 @@ impl HydrogenTable {
         isomer: &Isomer,
         o: &MolarOptions,
     ) -> Result<Self> {
+        let o = &MolarOptions {
+            basis: Basis::Mole,
+            ..o.clone()
+        };
         let mut rows = Vec::with_capacity(grid.len());
         let digits = o.digits;
         let p = prec(digits);
@@ -121,6 +141,7 @@ impl HydrogenTable {
         let mut order: Vec<usize> = (0..grid.len()).collect();
         order.sort_by(|a, b| grid[*b].cmp(&grid[*a]));
         let mut slots: Vec<Option<HydrogenRow>> = vec![None; grid.len()];
+        let mut ground = "para";
         for gi in order {
             let t = &grid[gi];
             let at = |iso: Isomer| {
@@ -146,7 +167,15 @@ impl HydrogenTable {
                 + Float::with_val(p, Float::with_val(p, 1u32 - &xn) * &ip.para.h);
             let conv = Float::with_val(p, &h_n - &ip.eq.h) * &rt;
             let per_kg = Float::with_val(p, &conv / &kg) / 1000u32;
-            let o2p = Float::with_val(p, &ip.ortho.h - &ip.para.h) * &rt;
+            // The upper isomer's lowest level lies above the common zero.
+            let ortho_upper = ip.ortho_zero.is_sign_positive() && !ip.ortho_zero.is_zero();
+            ground = if ortho_upper { "para" } else { "ortho" };
+            let (upper, lower) = if ortho_upper {
+                (&ip.ortho.h, &ip.para.h)
+            } else {
+                (&ip.para.h, &ip.ortho.h)
+            };
+            let to_ground = Float::with_val(p, upper - lower) * &rt;
             let show = |v: &Float| float_to_decimal(v, 0.0, 0.0, digits).0;
             let f = |s: &str| s.parse::<f64>().unwrap_or(f64::NAN);
             slots[gi] = Some(HydrogenRow {
@@ -157,9 +186,11 @@ impl HydrogenTable {
                 cp: chosen.cp.clone(),
                 s: chosen.s.clone(),
                 h: chosen.h.clone(),
+                reference: chosen.reference.clone(),
                 conversion_heat: show(&conv),
                 conversion_heat_per_kg: show(&per_kg),
-                ortho_to_para_heat: show(&o2p),
+                ground_isomer: ground.into(),
+                heat_to_ground_isomer: show(&to_ground),
                 raw: [
                     f(&chosen.t),
                     f(&normal.cp),
@@ -167,13 +198,13 @@ impl HydrogenTable {
                     f(&para.cp),
                     f(eq.ortho_fraction.as_deref().unwrap_or("")),
                     conv.to_f64(),
-                    o2p.to_f64(),
+                    to_ground.to_f64(),
                 ],
                 cp_normal: normal.cp,
                 cp_equilibrium: eq.cp,
                 cp_para: para.cp,
                 degeneracy: chosen.degeneracy,
-                units: chosen.units,
+                units: units_block(&Self::columns_for(ground)),
             });
         }
         rows.extend(slots.into_iter().flatten());
@@ -181,12 +212,37 @@ impl HydrogenTable {
             rows,
             species: sp.name.clone(),
             pressure: crate::exact::exact_decimal(&o.pressure, 30),
+            ground_isomer: ground.into(),
         })
     }
 
+    /// The columns, with the conversion to the `ground` isomer named by its
+    /// direction; the same list names every JSON row's `units`.
+    fn columns_for(ground: &str) -> Vec<Column> {
+        let upper = if ground == "para" { "ortho" } else { "para" };
+        let mut c = vec![
+            Column::with_unit("T", "K").key("T"),
+            Column::plain("isomer"),
+            Column::plain("ortho fraction"),
+            Column::plain("eq. ortho fraction"),
+            Column::with_unit("Cp", "J/(mol K)").key("Cp"),
+            Column::with_unit("S", "J/(mol K)").key("S"),
+            Column::with_unit("H-H0", "J/mol").key("H_minus_H0"),
+            Column::with_unit("normal->eq. heat", "J/mol").key("conversion_heat"),
+            Column::with_unit("normal->eq. heat", "kJ/kg").key("conversion_heat_per_kg"),
+            Column::with_unit(&format!("{upper}->{ground} heat"), "J/mol")
+                .key("heat_to_ground_isomer"),
+            Column::with_unit("Cp normal", "J/(mol K)").key("Cp_normal"),
+            Column::with_unit("Cp equilibrium", "J/(mol K)").key("Cp_equilibrium"),
+            Column::with_unit("Cp para", "J/(mol K)").key("Cp_para"),
+        ];
+        c.extend(degeneracy_columns());
+        c
+    }
+
     /// `(T, value)` series: 0 Cp normal, 1 Cp equilibrium, 2 Cp para,
-    /// 3 equilibrium ortho fraction, 4 conversion heat (J/mol), 5 ortho →
-    /// para heat (J/mol).
+    /// 3 equilibrium ortho fraction, 4 conversion heat (J/mol), 5 heat of
+    /// converting the upper isomer to the ground isomer (J/mol).
     pub fn series(&self, which: usize) -> Vec<(f64, f64)> {
         self.rows
             .iter()
@@ -208,13 +264,36 @@ impl HydrogenTable {
     }
 }
 
+impl HydrogenTable {
+    /// The name of the upper-to-ground conversion, e.g. `ortho->para heat`.
+    fn to_ground_name(&self) -> String {
+        Self::columns_for(&self.ground_isomer)[9].name.clone()
+    }
+}
+
 impl Tabular for HydrogenTable {
     fn preamble(&self) -> Vec<String> {
         let mut lines = vec![
             format!(
-                "{}: spin isomers from exact rovibrational sums; conversion heat = heat \
-                 released per mole when normal converts to equilibrium at T",
-                self.species
+                "{}: spin isomers from exact rovibrational sums; normal->eq. heat = heat \
+                 released per mole when normal converts to equilibrium at T; {} = heat \
+                 released per mole of {} converted to {} (the isomer holding the lowest level)",
+                self.species,
+                self.to_ground_name(),
+                if self.ground_isomer == "para" {
+                    "ortho"
+                } else {
+                    "para"
+                },
+                self.ground_isomer,
+            ),
+            format!(
+                "Cp, S and H-H0 of the {} state, per mole; {}",
+                self.rows.first().map(|r| r.isomer.as_str()).unwrap_or(""),
+                self.rows
+                    .first()
+                    .map(|r| r.reference.as_str())
+                    .unwrap_or("")
             ),
             format!(
                 "ideal gas at p = {} Pa; S, Cp and H-H0 with Sackur–Tetrode translation; the \
@@ -235,23 +314,8 @@ impl Tabular for HydrogenTable {
         lines
     }
 
-    fn columns(&self) -> Vec<String> {
-        [
-            "T (K)",
-            "isomer",
-            "ortho fraction",
-            "eq. ortho fraction",
-            "Cp (J/(mol K))",
-            "S (J/(mol K))",
-            "H-H0 (J/mol)",
-            "conversion heat (J/mol)",
-            "(kJ/kg)",
-            "ortho->para heat (J/mol)",
-            N_LAMBDA3_HEADER,
-            FLAG_HEADER,
-        ]
-        .map(String::from)
-        .to_vec()
+    fn columns(&self) -> Vec<Column> {
+        Self::columns_for(&self.ground_isomer)
     }
 
     fn rows(&self) -> Vec<Vec<String>> {
@@ -268,7 +332,10 @@ impl Tabular for HydrogenTable {
                     r.h.clone(),
                     r.conversion_heat.clone(),
                     r.conversion_heat_per_kg.clone(),
-                    r.ortho_to_para_heat.clone(),
+                    r.heat_to_ground_isomer.clone(),
+                    r.cp_normal.clone(),
+                    r.cp_equilibrium.clone(),
+                    r.cp_para.clone(),
                 ]
                 .into_iter()
                 .chain(degeneracy_cells(&r.degeneracy))

@@ -11,13 +11,12 @@
 
 use super::hydrogen::HydrogenTable;
 use super::molar::{
-    degeneracy_cells, degeneracy_note, tables, Isomer, MolarOptions, MolarTable, FLAG_HEADER,
-    N_LAMBDA3_HEADER,
+    degeneracy_cells, degeneracy_note, tables, Basis, Isomer, MolarOptions, MolarTable,
 };
 use super::Database;
 use crate::error::{Error, ErrorKind, Result};
 use crate::exact::parse_rational;
-use crate::export::{to_csv, write_atomic, Tabular};
+use crate::export::{to_csv, write_atomic, Column, Tabular};
 use crate::plot::{render_svg, Panel, Series};
 use crate::thermo::parse_grid;
 use std::path::{Path, PathBuf};
@@ -56,7 +55,7 @@ fn esc(s: &str) -> String {
 fn html_table<T: Tabular>(t: &T) -> String {
     let mut out = String::from("<table>\n<thead><tr>");
     for c in t.columns() {
-        out.push_str(&format!("<th>{}</th>", esc(&c)));
+        out.push_str(&format!("<th>{}</th>", esc(&c.heading())));
     }
     out.push_str("</tr></thead>\n<tbody>\n");
     for r in t.rows() {
@@ -176,15 +175,17 @@ pub fn build_report() -> Result<Vec<(String, String)>> {
         ],
     )])?;
 
-    let mut sources = String::new();
-    let mut seen = std::collections::BTreeSet::new();
-    for sp in db.all() {
-        for c in sp.show().constants {
-            if seen.insert(c.source.clone()) {
-                sources.push_str(&format!("<li>{}</li>\n", esc(&c.source)));
-            }
-        }
-    }
+    let sources = html_table(&SourceRows(
+        db.all()
+            .iter()
+            .flat_map(|sp| {
+                sp.show()
+                    .constants
+                    .into_iter()
+                    .map(move |c| [sp.name.clone(), c.quantity, c.value, c.unit, c.source])
+            })
+            .collect(),
+    ));
     let html = format!(
         r#"<!DOCTYPE html>
 <html lang="en">
@@ -251,15 +252,16 @@ by exact sums over the vibrating-rotor levels (anharmonic G(v), B<sub>v</sub> = 
 Every printed digit of every sum is certified by zsum's engine; where the
 first quantum-statistics correction to Sackur–Tetrode translation exceeds the printed
 tolerance, the row is marked * (see above).</li>
-<li>Conventions: energies from the lowest level (H0); conventional entropy S excludes
+<li>Conventions: H0 is the lowest level; for a frozen spin-isomer mixture (normal
+hydrogen, the state of freshly liquefied gas) each isomer keeps its own lowest level as
+its H0, so that H − H0 and −(G − H0)/T start from zero; conventional entropy S excludes
 nuclear spin as the standard tables do; S_total includes it.</li>
 <li>Constants: SI 2019 exact defining constants; atomic mass constant CODATA 2018.</li>
 <li>Comparison values: Woolley, Scott and Brickwedde (1948), from memory; liquid density
 and latent heat: common practice, from memory.</li>
-<li>Species constants:
-<ul>
-{sources}</ul></li>
 </ul>
+<h3>Every constant of every species, with its unit and source</h3>
+{sources}
 <p>Files: <a href="hydrogen.csv">hydrogen.csv</a>, <a href="species_298K.csv">species_298K.csv</a>.</p>
 </body>
 </html>
@@ -324,20 +326,14 @@ impl Tabular for SpeciesRows<'_> {
     fn preamble(&self) -> Vec<String> {
         self.0.preamble()
     }
-    fn columns(&self) -> Vec<String> {
-        [
-            "species",
-            "T (K)",
-            "S (J/(mol K))",
-            "S_total (J/(mol K))",
-            "Cp (J/(mol K))",
-            "H-H0 (J/mol)",
-            "-(G-H0)/T (J/(mol K))",
-            N_LAMBDA3_HEADER,
-            FLAG_HEADER,
-        ]
-        .map(String::from)
-        .to_vec()
+    fn columns(&self) -> Vec<Column> {
+        std::iter::once(Column::plain("species"))
+            .chain(
+                MolarTable::columns_for(false, Basis::Mole)
+                    .into_iter()
+                    .filter(|c| c.name != "Cv"),
+            )
+            .collect()
     }
     fn rows(&self) -> Vec<Vec<String>> {
         self.0
@@ -358,6 +354,23 @@ impl Tabular for SpeciesRows<'_> {
                 .collect()
             })
             .collect()
+    }
+}
+
+/// Every species constant with its unit and source, one row each.
+struct SourceRows(Vec<[String; 5]>);
+
+impl Tabular for SourceRows {
+    fn preamble(&self) -> Vec<String> {
+        Vec::new()
+    }
+    fn columns(&self) -> Vec<Column> {
+        ["species", "constant", "value", "unit", "source"]
+            .map(Column::plain)
+            .to_vec()
+    }
+    fn rows(&self) -> Vec<Vec<String>> {
+        self.0.iter().map(|r| r.to_vec()).collect()
     }
 }
 

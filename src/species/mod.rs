@@ -56,8 +56,8 @@ use serde::{Deserialize, Serialize};
 use std::path::Path;
 
 pub use molar::{
-    degeneracy_warnings, molar, tables, Degeneracy, Isomer, MolarOptions, MolarPoint, MolarTable,
-    Translation, VibModel, DEGENERACY_G,
+    degeneracy_warnings, molar, reference_text, tables, Basis, Degeneracy, Isomer, MolarOptions,
+    MolarPoint, MolarTable, Translation, VibModel, DEGENERACY_G,
 };
 
 /// The built-in database text.
@@ -549,9 +549,9 @@ impl crate::export::Tabular for SpeciesCard {
     fn preamble(&self) -> Vec<String> {
         vec![format!("{}: {}", self.name, self.description)]
     }
-    fn columns(&self) -> Vec<String> {
+    fn columns(&self) -> Vec<crate::export::Column> {
         ["quantity", "value", "unit", "source"]
-            .map(String::from)
+            .map(crate::export::Column::plain)
             .to_vec()
     }
     fn rows(&self) -> Vec<Vec<String>> {
@@ -704,6 +704,21 @@ fn distance(a: &str, b: &str) -> usize {
 pub struct SpeciesList {
     /// One row per species.
     pub species: Vec<SpeciesSummary>,
+    /// The unit of every field that has one, from the table's columns.
+    pub units: serde_json::Map<String, serde_json::Value>,
+}
+
+impl SpeciesList {
+    fn columns_for() -> Vec<crate::export::Column> {
+        use crate::export::Column;
+        vec![
+            Column::plain("name"),
+            Column::plain("kind"),
+            Column::with_unit("mass", "u").key("mass"),
+            Column::plain("ortho/para"),
+            Column::plain("description"),
+        ]
+    }
 }
 
 /// One row of `zsum species list`.
@@ -713,7 +728,8 @@ pub struct SpeciesSummary {
     pub name: String,
     /// Atom or linear.
     pub kind: Kind,
-    /// Mass with unit, as given.
+    /// Mass in u (unified atomic mass units), exact as given or converted
+    /// exactly, to 12 significant digits where longer.
     pub mass: String,
     /// Ortho/para statistics.
     pub spin_isomers: bool,
@@ -731,11 +747,15 @@ impl Database {
                 .map(|s| SpeciesSummary {
                     name: s.name.clone(),
                     kind: s.kind,
-                    mass: format!("{} {}", s.raw.mass.value, s.raw.mass.unit),
+                    mass: crate::classical::rational_text(
+                        &(&s.mass_kg / crate::units::constants::atomic_mass_constant()),
+                        12,
+                    ),
                     spin_isomers: s.has_spin_isomers(),
                     description: s.description.clone(),
                 })
                 .collect(),
+            units: crate::export::units_block(&SpeciesList::columns_for()),
         }
     }
 }
@@ -747,10 +767,8 @@ impl crate::export::Tabular for SpeciesList {
             self.species.len()
         )]
     }
-    fn columns(&self) -> Vec<String> {
-        ["name", "kind", "mass", "ortho/para", "description"]
-            .map(String::from)
-            .to_vec()
+    fn columns(&self) -> Vec<crate::export::Column> {
+        Self::columns_for()
     }
     fn rows(&self) -> Vec<Vec<String>> {
         self.species

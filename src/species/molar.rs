@@ -3,7 +3,7 @@
 use super::Species;
 use crate::error::{Error, ErrorKind, Result};
 use crate::exact::{exact_decimal, rational_string};
-use crate::export::Tabular;
+use crate::export::{units_block, Column, Tabular};
 use crate::models::diatomic::ParityWeights;
 use crate::models::ParticleInBox;
 use crate::spectrum::Spectrum;
@@ -32,12 +32,16 @@ pub enum Translation {
     Box(BigRational),
 }
 
-/// Which spin-isomer state of a homonuclear molecule.
-#[derive(Debug, Clone, PartialEq, Eq)]
+/// Which spin-isomer state of a homonuclear molecule. The default, in the
+/// library and in every command, is [`Isomer::Normal`]: the gas as it comes
+/// from room temperature, its ortho fraction frozen at the high-temperature
+/// value.
+#[derive(Debug, Clone, PartialEq, Eq, Default)]
 pub enum Isomer {
     /// Ortho and para in equilibrium at every temperature.
     Equilibrium,
     /// Frozen at the high-temperature ratio (3:1 ortho:para for H2).
+    #[default]
     Normal,
     /// Only the ortho modification.
     Ortho,
@@ -74,6 +78,12 @@ impl Isomer {
         })
     }
 
+    /// Whether the composition is frozen (every state but equilibrium):
+    /// each isomer then keeps its own lowest level as its energy zero.
+    pub fn is_frozen(&self) -> bool {
+        !matches!(self, Isomer::Equilibrium)
+    }
+
     /// Its name in output.
     pub fn name(&self) -> String {
         match self {
@@ -82,6 +92,49 @@ impl Isomer {
             Isomer::Ortho => "ortho".into(),
             Isomer::Para => "para".into(),
             Isomer::Fraction(x) => format!("fraction={}", exact_decimal(x, 20)),
+        }
+    }
+}
+
+/// The amount the functions are given for.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub enum Basis {
+    /// Per mole: J/(mol K) and J/mol.
+    #[default]
+    Mole,
+    /// Per kilogram: J/(kg K) and J/kg.
+    Kilogram,
+    /// Per molecule (or atom): J/K and J.
+    Particle,
+}
+
+impl Basis {
+    /// The units of an entropy or heat capacity and of an energy.
+    pub fn units(self) -> (&'static str, &'static str) {
+        match self {
+            Basis::Mole => ("J/(mol K)", "J/mol"),
+            Basis::Kilogram => ("J/(kg K)", "J/kg"),
+            Basis::Particle => ("J/K", "J"),
+        }
+    }
+
+    /// Its name in output: `mole`, `kg` or `particle`.
+    pub fn name(self) -> &'static str {
+        match self {
+            Basis::Mole => "mole",
+            Basis::Kilogram => "kg",
+            Basis::Particle => "particle",
+        }
+    }
+
+    /// The factor that turns a value per k (S/k, Cp/k) into this basis:
+    /// R = k N_A per mole, R/M per kilogram, k per particle; exact.
+    fn per_k(self, sp: &Species) -> BigRational {
+        let k = constants::boltzmann();
+        match self {
+            Basis::Mole => k * constants::avogadro(),
+            Basis::Kilogram => k / &sp.mass_kg,
+            Basis::Particle => k,
         }
     }
 }
@@ -95,11 +148,13 @@ pub struct MolarOptions {
     pub model: VibModel,
     /// Translation.
     pub translation: Translation,
-    /// Spin isomers (homonuclear molecules with nuclear spin only); None
-    /// means equilibrium.
+    /// Spin isomers (homonuclear molecules with nuclear spin only); `None`
+    /// means the default, [`Isomer::Normal`].
     pub isomer: Option<Isomer>,
     /// Significant digits of every value.
     pub digits: u32,
+    /// Per mole, per kilogram or per particle.
+    pub basis: Basis,
 }
 
 impl Default for MolarOptions {
@@ -109,7 +164,8 @@ impl Default for MolarOptions {
             model: VibModel::Rovib,
             translation: Translation::SackurTetrode,
             isomer: None,
-            digits: 10,
+            digits: crate::report::DEFAULT_DIGITS,
+            basis: Basis::Mole,
         }
     }
 }
@@ -128,31 +184,36 @@ pub struct MolarPoint {
     pub isomer: Option<String>,
     /// The ortho fraction, for species with spin isomers.
     pub ortho_fraction: Option<String>,
-    /// Conventional entropy (nuclear spin excluded), J/(mol K).
+    /// Conventional entropy (nuclear spin excluded), in `units["S"]`.
     #[serde(rename = "S")]
     pub s: String,
-    /// Entropy including nuclear spin (and isomer mixing), J/(mol K);
-    /// equal to S where no nuclear-spin statistics are modelled.
+    /// Entropy including nuclear spin (and isomer mixing); equal to S where
+    /// no nuclear-spin statistics are modelled.
     #[serde(rename = "S_total")]
     pub s_total: String,
-    /// Cp, J/(mol K).
+    /// Cp.
     #[serde(rename = "Cp")]
     pub cp: String,
-    /// Cv, J/(mol K).
+    /// Cv.
     #[serde(rename = "Cv")]
     pub cv: String,
-    /// H(T) − H(0), J/mol.
+    /// H(T) − H0, with H0 as [`MolarPoint::reference`] says.
     #[serde(rename = "H_minus_H0")]
     pub h: String,
-    /// −(G(T) − H(0))/T, J/(mol K).
+    /// −(G(T) − H0)/T.
     #[serde(rename = "minus_G_minus_H0_over_T")]
     pub g: String,
+    /// What H0 is: the lowest level, or for a frozen spin-isomer mixture
+    /// each isomer's own lowest level.
+    pub reference: String,
+    /// The basis: `mole`, `kg` or `particle`.
+    pub per: String,
     /// How far the gas is from quantum degeneracy at this T and p, and
     /// whether the classical translation is flagged.
     #[serde(flatten)]
     pub degeneracy: Degeneracy,
-    /// Units of every value.
-    pub units: Units,
+    /// The unit of every field that has one, from the table's columns.
+    pub units: serde_json::Map<String, serde_json::Value>,
 }
 
 /// The degeneracy g that divides nΛ³ in the ideal-gas quantum correction.
@@ -274,40 +335,6 @@ pub(crate) fn degeneracy(sp: &Species, t: &BigRational, o: &MolarOptions) -> Res
     })
 }
 
-/// The units of a molar point.
-#[derive(Debug, Clone, Serialize)]
-pub struct Units {
-    /// Of S.
-    #[serde(rename = "S")]
-    pub s: &'static str,
-    /// Of Cp and Cv.
-    #[serde(rename = "Cp")]
-    pub cp: &'static str,
-    /// Of H − H0.
-    #[serde(rename = "H_minus_H0")]
-    pub h: &'static str,
-    /// Of −(G − H0)/T.
-    #[serde(rename = "minus_G_minus_H0_over_T")]
-    pub g: &'static str,
-    /// Of T.
-    #[serde(rename = "T")]
-    pub t: &'static str,
-    /// Of p.
-    pub p: &'static str,
-    /// Of nΛ³.
-    pub n_lambda3: &'static str,
-}
-
-const UNITS: Units = Units {
-    s: "J/(mol K)",
-    cp: "J/(mol K)",
-    h: "J/mol",
-    g: "J/(mol K)",
-    t: "K",
-    p: "Pa",
-    n_lambda3: "dimensionless",
-};
-
 /// Per-R values of one contribution.
 #[derive(Debug, Clone)]
 pub(crate) struct Part {
@@ -341,6 +368,12 @@ fn parse(prec: u32, s: &str) -> Result<Float> {
         .map_err(|_| Error::invalid("engine output", s, "a decimal number"))
 }
 
+/// hc/k in K per cm⁻¹ (the second radiation constant in m K, × 100),
+/// exact: an energy in cm⁻¹ times this over T is E/kT.
+fn c2_per_cm() -> BigRational {
+    constants::second_radiation_constant() * BigRational::from_integer(100.into())
+}
+
 /// The internal contribution of `s` at T, energies from `zero` (cm⁻¹).
 pub(crate) fn internal_part(
     s: &dyn Spectrum,
@@ -353,9 +386,7 @@ pub(crate) fn internal_part(
     let ln_q = parse(p, &point.ln_q)?;
     let u = parse(p, &point.u_over_kt)?;
     let cv = parse(p, &point.cv_over_k)?;
-    // E0/kT with E0 in cm-1: hc/k exact (second radiation constant, in m K) × 100.
-    let c2 = constants::second_radiation_constant() * BigRational::from_integer(100.into());
-    let e0 = fl(p, &(zero * c2 / t));
+    let e0 = fl(p, &(zero * c2_per_cm() / t));
     Ok(Part {
         s: Float::with_val(p, &ln_q + &u),
         h: Float::with_val(p, &u - &e0),
@@ -441,6 +472,11 @@ pub(crate) struct IsomerParts {
     /// Spin weights of the ortho and para parities.
     pub w_ortho: u64,
     pub w_para: u64,
+    /// Each isomer's lowest level above the common zero, in units of kT:
+    /// subtracted from its H/RT when the composition is frozen, so that
+    /// each isomer keeps its own lowest level as its energy zero.
+    pub ortho_zero: Float,
+    pub para_zero: Float,
 }
 
 /// A species' internal spectra: the whole and, for species with spin
@@ -509,10 +545,12 @@ pub(crate) fn isomer_parts(
     let zero = c.full.ground_energy();
     let ortho = internal_part(o, t, &zero, digits)?;
     let para = internal_part(p, t, &zero, digits)?;
+    let prec = ortho.ln_q.prec();
+    let above = |s: &Cached| fl(prec, &((s.ground_energy() - &zero) * c2_per_cm() / t));
+    let (ortho_zero, para_zero) = (above(o), above(p));
     // The equilibrium mixture from its two isomers (q = q_o + q_p): with
     // x = q_o/q, U and Cv are the mixture's mean and variance of E/kT,
     // Cv = x Cv_o + (1 − x) Cv_p + x(1 − x)(U_o − U_p)², from absolute U/kT.
-    let prec = ortho.ln_q.prec();
     let d = Float::with_val(prec, &para.ln_q - &ortho.ln_q);
     let x = (Float::with_val(prec, d.exp_ref()) + 1u32).recip();
     let one_x = Float::with_val(prec, 1u32 - &x);
@@ -539,6 +577,8 @@ pub(crate) fn isomer_parts(
         para,
         w_ortho: *wo,
         w_para: *wp,
+        ortho_zero,
+        para_zero,
     })
 }
 
@@ -594,68 +634,73 @@ pub(crate) fn molar_with(
     let p = prec(o.digits);
     let mut degeneracy = degeneracy(sp, t, o)?;
     let tr = translation(&sp.mass_kg, t, o)?;
-    let (int_s, int_s_total, int_h, int_cv, ortho) =
-        match (&o.isomer, sp.has_spin_isomers()) {
-            (Some(_), false) => return Err(Error::invalid(
+    let (int_s, int_s_total, int_h, int_cv, ortho) = match (&o.isomer, sp.has_spin_isomers()) {
+        (Some(_), false) => {
+            return Err(Error::invalid(
                 "isomer",
                 &sp.name,
                 "only homonuclear molecules with nuclear spin (H2, D2, N2) have ortho and para \
                  forms",
-            )),
-            (None, false) => {
-                let s = &cached.full;
-                let part = internal_part(s, t, &s.ground_energy(), o.digits)?;
-                let g = Float::with_val(p, sp.spin_states()).ln();
-                let conv = Float::with_val(p, &part.s - &g);
-                (conv, part.s, part.h, part.cv, None)
-            }
-            (iso, true) => {
-                let ip = isomer_parts(sp, cached, t, o.digits)?;
-                // Equilibrium ortho fraction q_o/q.
-                let d = Float::with_val(p, &ip.para.ln_q - &ip.ortho.ln_q);
-                let x_eq = Float::with_val(p, d.exp() + 1u32).recip();
-                let (wo, wp) = (ip.w_ortho, ip.w_para);
-                let frozen = |x: Float| {
-                    let one_x = Float::with_val(p, 1u32 - &x);
-                    let mix = Float::with_val(p, xlnx(&x) + xlnx(&one_x));
-                    let total = Float::with_val(p, &x * &ip.ortho.s)
-                        + Float::with_val(p, &one_x * &ip.para.s)
-                        - &mix;
-                    let so = Float::with_val(p, &ip.ortho.s - Float::with_val(p, wo).ln());
-                    let spp = Float::with_val(p, &ip.para.s - Float::with_val(p, wp).ln());
-                    let conv = Float::with_val(p, &x * &so) + Float::with_val(p, &one_x * &spp);
-                    let h = Float::with_val(p, &x * &ip.ortho.h)
-                        + Float::with_val(p, &one_x * &ip.para.h);
-                    let cv = Float::with_val(p, &x * &ip.ortho.cv)
-                        + Float::with_val(p, &one_x * &ip.para.cv);
-                    (conv, total, h, cv, Some(x))
-                };
-                match iso.clone().unwrap_or(Isomer::Equilibrium) {
-                    Isomer::Equilibrium => {
-                        let g = Float::with_val(p, sp.spin_states()).ln();
-                        let conv = Float::with_val(p, &ip.eq.s - &g);
-                        (
-                            conv,
-                            ip.eq.s.clone(),
-                            ip.eq.h.clone(),
-                            ip.eq.cv.clone(),
-                            Some(x_eq),
-                        )
-                    }
-                    Isomer::Normal => frozen(Float::with_val(p, wo) / Float::with_val(p, wo + wp)),
-                    Isomer::Ortho => frozen(Float::with_val(p, 1u32)),
-                    Isomer::Para => frozen(Float::with_val(p, 0u32)),
-                    Isomer::Fraction(x) => frozen(fl(p, &x)),
+            ))
+        }
+        (None, false) => {
+            let s = &cached.full;
+            let part = internal_part(s, t, &s.ground_energy(), o.digits)?;
+            let g = Float::with_val(p, sp.spin_states()).ln();
+            let conv = Float::with_val(p, &part.s - &g);
+            (conv, part.s, part.h, part.cv, None)
+        }
+        (iso, true) => {
+            let ip = isomer_parts(sp, cached, t, o.digits)?;
+            // Equilibrium ortho fraction q_o/q.
+            let d = Float::with_val(p, &ip.para.ln_q - &ip.ortho.ln_q);
+            let x_eq = Float::with_val(p, d.exp() + 1u32).recip();
+            let (wo, wp) = (ip.w_ortho, ip.w_para);
+            let frozen = |x: Float| {
+                let one_x = Float::with_val(p, 1u32 - &x);
+                let mix = Float::with_val(p, xlnx(&x) + xlnx(&one_x));
+                let total = Float::with_val(p, &x * &ip.ortho.s)
+                    + Float::with_val(p, &one_x * &ip.para.s)
+                    - &mix;
+                let so = Float::with_val(p, &ip.ortho.s - Float::with_val(p, wo).ln());
+                let spp = Float::with_val(p, &ip.para.s - Float::with_val(p, wp).ln());
+                let conv = Float::with_val(p, &x * &so) + Float::with_val(p, &one_x * &spp);
+                // Frozen: each isomer from its own lowest level.
+                let h = Float::with_val(p, &x * Float::with_val(p, &ip.ortho.h - &ip.ortho_zero))
+                    + Float::with_val(p, &one_x * Float::with_val(p, &ip.para.h - &ip.para_zero));
+                let cv = Float::with_val(p, &x * &ip.ortho.cv)
+                    + Float::with_val(p, &one_x * &ip.para.cv);
+                (conv, total, h, cv, Some(x))
+            };
+            match iso.clone().unwrap_or_default() {
+                Isomer::Equilibrium => {
+                    let g = Float::with_val(p, sp.spin_states()).ln();
+                    let conv = Float::with_val(p, &ip.eq.s - &g);
+                    (
+                        conv,
+                        ip.eq.s.clone(),
+                        ip.eq.h.clone(),
+                        ip.eq.cv.clone(),
+                        Some(x_eq),
+                    )
                 }
+                Isomer::Normal => frozen(Float::with_val(p, wo) / Float::with_val(p, wo + wp)),
+                Isomer::Ortho => frozen(Float::with_val(p, 1u32)),
+                Isomer::Para => frozen(Float::with_val(p, 0u32)),
+                Isomer::Fraction(x) => frozen(fl(p, &x)),
             }
-        };
+        }
+    };
     let s = Float::with_val(p, &tr.s + &int_s);
     let s_total = Float::with_val(p, &tr.s + &int_s_total);
     let h = Float::with_val(p, &tr.h + &int_h);
     let cv = Float::with_val(p, &tr.cv + &int_cv);
-    let r = fl(p, &(constants::boltzmann() * constants::avogadro()));
+    let r = fl(p, &o.basis.per_k(sp));
     let rt = Float::with_val(p, &r * fl(p, t));
     let show = |v: Float| float_to_decimal(&v, 0.0, 0.0, o.digits).0;
+    let isomer = sp
+        .has_spin_isomers()
+        .then(|| o.isomer.clone().unwrap_or_default());
     let cp = Float::with_val(p, &cv + 1u32);
     let g = Float::with_val(p, &s - &h);
     // A negative entropy is never printed unflagged.
@@ -669,9 +714,10 @@ pub(crate) fn molar_with(
         species: sp.name.clone(),
         t: exact_decimal(t, 30),
         p: exact_decimal(&o.pressure, 30),
-        isomer: sp
-            .has_spin_isomers()
-            .then(|| o.isomer.clone().unwrap_or(Isomer::Equilibrium).name()),
+        reference: reference_text(isomer.as_ref()).into(),
+        per: o.basis.name().into(),
+        units: units_block(&MolarTable::columns_for(isomer.is_some(), o.basis)),
+        isomer: isomer.map(|i| i.name()),
         ortho_fraction: ortho.as_ref().map(|x| show(x.clone())),
         s: show(Float::with_val(p, &s * &r)),
         s_total: show(Float::with_val(p, &s_total * &r)),
@@ -680,8 +726,18 @@ pub(crate) fn molar_with(
         h: show(Float::with_val(p, &h * &rt)),
         g: show(Float::with_val(p, &g * &r)),
         degeneracy,
-        units: UNITS,
     })
+}
+
+/// What H0 is, for a species with spin isomers in state `isomer` (or
+/// without them, `None`).
+pub fn reference_text(isomer: Option<&Isomer>) -> &'static str {
+    match isomer {
+        Some(i) if i.is_frozen() => {
+            "H0 = each spin isomer at its own lowest level (composition frozen)"
+        }
+        _ => "H0 = the lowest level",
+    }
 }
 
 /// A property table: one species over a temperature grid.
@@ -773,11 +829,14 @@ impl MolarTable {
     }
 }
 
-/// The header of the nΛ³ column in every table, CSV included.
-pub(crate) const N_LAMBDA3_HEADER: &str = "nLambda^3 (dimensionless)";
-
-/// The header of the flag column: `*` marks a flagged row.
-pub(crate) const FLAG_HEADER: &str = "flag";
+/// The nΛ³ and flag columns of every gas table, CSV included: a `*` flag
+/// marks a row whose classical translation is not right to its digits.
+pub(crate) fn degeneracy_columns() -> [Column; 2] {
+    [
+        Column::with_unit("nLambda^3", "dimensionless").key("n_lambda3"),
+        Column::plain("flag"),
+    ]
+}
 
 /// The text of a row's nΛ³ (4 significant digits) and flag cells.
 pub(crate) fn degeneracy_cells(d: &Degeneracy) -> [String; 2] {
@@ -909,18 +968,66 @@ pub fn degeneracy_warnings<'a>(
     out
 }
 
+impl MolarTable {
+    /// The columns of a property table (with the isomer columns where the
+    /// species has spin isomers) in `basis`'s units. The same list names
+    /// every JSON row's `units`.
+    pub(crate) fn columns_for(isomers: bool, basis: Basis) -> Vec<Column> {
+        let (k, e) = basis.units();
+        let mut c = vec![Column::with_unit("T", "K").key("T")];
+        if isomers {
+            c.push(Column::plain("isomer"));
+            c.push(Column::plain("ortho fraction"));
+        }
+        c.extend([
+            Column::with_unit("S", k).key("S"),
+            Column::with_unit("S_total", k).key("S_total"),
+            Column::with_unit("Cp", k).key("Cp"),
+            Column::with_unit("Cv", k).key("Cv"),
+            Column::with_unit("H-H0", e).key("H_minus_H0"),
+            Column::with_unit("-(G-H0)/T", k).key("minus_G_minus_H0_over_T"),
+        ]);
+        c.extend(degeneracy_columns());
+        c
+    }
+
+    /// The preamble line naming the reference H0 of every row (one line
+    /// for a one-species table; one clause per distinct reference
+    /// otherwise).
+    pub(crate) fn reference_line(&self) -> String {
+        let mut groups: Vec<(&str, Vec<&str>)> = Vec::new();
+        for r in &self.rows {
+            match groups.iter_mut().find(|g| g.0 == r.reference) {
+                Some(g) if !g.1.contains(&r.species.as_str()) => g.1.push(&r.species),
+                Some(_) => {}
+                None => groups.push((&r.reference, vec![&r.species])),
+            }
+        }
+        let clauses: Vec<String> = match groups.as_slice() {
+            [(only, _)] => vec![only.to_string()],
+            many => many
+                .iter()
+                .map(|(r, sp)| format!("{}: {r}", sp.join(", ")))
+                .collect(),
+        };
+        format!(
+            "{}; S conventional (nuclear spin excluded), S_total with it",
+            clauses.join("; ")
+        )
+    }
+}
+
 impl Tabular for MolarTable {
     fn preamble(&self) -> Vec<String> {
         let first = self.rows.first();
         let mut lines = vec![
             format!(
-                "{}: ideal-gas standard molar functions at p = {} Pa from exact sums",
+                "{}: ideal-gas thermodynamic functions per {} at p = {} Pa from exact sums",
                 first.map(|r| r.species.as_str()).unwrap_or(""),
+                first.map(|r| r.per.as_str()).unwrap_or("mole"),
                 first.map(|r| r.p.as_str()).unwrap_or("")
             ),
-            "S conventional (nuclear spin excluded); S_total with it; energies from the lowest \
-             level (H0)"
-                .into(),
+            self.reference_line(),
             degeneracy_note(first.map(|r| r.degeneracy.quantum_tolerance).unwrap_or(0.0)),
             "ideal-gas model values: design decisions follow certified property data, local \
              codes and licensed engineering practice"
@@ -930,25 +1037,13 @@ impl Tabular for MolarTable {
         lines
     }
 
-    fn columns(&self) -> Vec<String> {
-        let mut c = vec!["T (K)".to_string()];
-        if self.rows.iter().any(|r| r.isomer.is_some()) {
-            c.push("isomer".into());
-            c.push("ortho fraction".into());
-        }
-        for x in [
-            "S (J/(mol K))",
-            "S_total (J/(mol K))",
-            "Cp (J/(mol K))",
-            "Cv (J/(mol K))",
-            "H-H0 (J/mol)",
-            "-(G-H0)/T (J/(mol K))",
-            N_LAMBDA3_HEADER,
-            FLAG_HEADER,
-        ] {
-            c.push(x.into());
-        }
-        c
+    fn columns(&self) -> Vec<Column> {
+        let basis = match self.rows.first().map(|r| r.per.as_str()) {
+            Some("kg") => Basis::Kilogram,
+            Some("particle") => Basis::Particle,
+            _ => Basis::Mole,
+        };
+        Self::columns_for(self.rows.iter().any(|r| r.isomer.is_some()), basis)
     }
 
     fn rows(&self) -> Vec<Vec<String>> {
