@@ -57,7 +57,8 @@ fn has_field(v: &Value, key: &str) -> bool {
     match v {
         Value::Object(m) => m
             .iter()
-            .any(|(k, x)| (k == key && k != "units") || (k != "units" && has_field(x, key))),
+            .filter(|(k, _)| k.as_str() != "units")
+            .any(|(k, x)| k == key || has_field(x, key)),
         Value::Array(a) => a.iter().any(|x| has_field(x, key)),
         _ => false,
     }
