@@ -324,6 +324,19 @@ impl LinearRotor {
     }
 }
 
+/// The terms `(E, [J])` of a J ladder's rungs, keeping the J that `keep`
+/// allows (a nuclear-spin weight of zero removes a rung).
+fn rung_terms(
+    rungs: Vec<(u64, BigRational)>,
+    keep: impl Fn(u64) -> bool,
+) -> Vec<(BigRational, Vec<i64>)> {
+    rungs
+        .into_iter()
+        .filter(|(j, _)| keep(*j))
+        .map(|(j, e)| (e, vec![j as i64]))
+        .collect()
+}
+
 /// States (J, M[, s]) of one rung of a linear ladder.
 fn linear_states(j: u64, w: &BigUint, with_s: bool) -> Result<Vec<State>> {
     let w = w.to_u64().filter(|&w| w <= 1_000_000).ok_or_else(|| {
@@ -420,11 +433,7 @@ impl Spectrum for LinearRotor {
         budget: &Budget,
     ) -> Result<Vec<(BigRational, Vec<i64>)>> {
         let (rungs, _) = self.rungs(cutoff, budget)?;
-        Ok(rungs
-            .into_iter()
-            .filter(|(j, _)| !self.weights.weight(*j).is_zero())
-            .map(|(j, e)| (e, vec![j as i64]))
-            .collect())
+        Ok(rung_terms(rungs, |j| !self.weights.weight(j).is_zero()))
     }
 
     fn highest_energy(&self) -> Option<BigRational> {
@@ -900,10 +909,7 @@ impl Spectrum for SphericalTop {
         budget: &Budget,
     ) -> Result<Vec<(BigRational, Vec<i64>)>> {
         let (rungs, _) = self.rungs(cutoff, budget)?;
-        Ok(rungs
-            .into_iter()
-            .map(|(j, e)| (e, vec![j as i64]))
-            .collect())
+        Ok(rung_terms(rungs, |_| true))
     }
 
     fn highest_energy(&self) -> Option<BigRational> {
