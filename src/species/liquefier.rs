@@ -122,6 +122,7 @@ pub fn build_report() -> Result<Vec<(String, String)>> {
     let t298 = vec![parse_rational("298.15")?];
     let species_tables: Vec<MolarTable> = tables(&all, &t298, &o)?;
     let species_rows = MolarTable {
+        basis: o.basis,
         rows: species_tables
             .into_iter()
             .flat_map(|t| t.rows.into_iter())

@@ -746,6 +746,9 @@ pub fn reference_text(isomer: Option<&Isomer>) -> &'static str {
 pub struct MolarTable {
     /// The rows, in grid order.
     pub rows: Vec<MolarPoint>,
+    /// The amount every row is given for.
+    #[serde(skip)]
+    pub basis: Basis,
 }
 
 impl MolarTable {
@@ -766,6 +769,7 @@ impl MolarTable {
             rows[i] = Some(molar_with(sp, &cached, &grid[i], o)?);
         }
         Ok(MolarTable {
+            basis: o.basis,
             rows: rows.into_iter().flatten().collect(),
         })
     }
@@ -1024,7 +1028,7 @@ impl Tabular for MolarTable {
             format!(
                 "{}: ideal-gas thermodynamic functions per {} at p = {} Pa from exact sums",
                 first.map(|r| r.species.as_str()).unwrap_or(""),
-                first.map(|r| r.per.as_str()).unwrap_or("mole"),
+                self.basis.name(),
                 first.map(|r| r.p.as_str()).unwrap_or("")
             ),
             self.reference_line(),
@@ -1038,12 +1042,7 @@ impl Tabular for MolarTable {
     }
 
     fn columns(&self) -> Vec<Column> {
-        let basis = match self.rows.first().map(|r| r.per.as_str()) {
-            Some("kg") => Basis::Kilogram,
-            Some("particle") => Basis::Particle,
-            _ => Basis::Mole,
-        };
-        Self::columns_for(self.rows.iter().any(|r| r.isomer.is_some()), basis)
+        Self::columns_for(self.rows.iter().any(|r| r.isomer.is_some()), self.basis)
     }
 
     fn rows(&self) -> Vec<Vec<String>> {
