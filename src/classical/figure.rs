@@ -68,7 +68,7 @@ pub fn panels(report: &CompareReport, quantity: Quantity, tol: f64) -> Vec<Panel
             log_x: true,
             log_y: quantity == Quantity::Q,
             series: values,
-            hlines: Vec::new(),
+            ..Panel::default()
         },
         Panel {
             title: format!("relative error of {}", quantity.name()),
@@ -78,6 +78,7 @@ pub fn panels(report: &CompareReport, quantity: Quantity, tol: f64) -> Vec<Panel
             log_y: true,
             series: errors,
             hlines: vec![(format!("tolerance {percent}%"), tol)],
+            ..Panel::default()
         },
     ]
 }

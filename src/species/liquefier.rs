@@ -96,7 +96,7 @@ fn panel(title: &str, y: &str, log_x: bool, s: Vec<Series>) -> Panel {
         log_x,
         log_y: false,
         series: s,
-        hlines: Vec::new(),
+        ..Panel::default()
     }
 }
 
@@ -162,7 +162,7 @@ pub fn build_report() -> Result<Vec<(String, String)>> {
     )])?;
     let fraction_plot = inline_svg(&[panel(
         "equilibrium ortho fraction of H2",
-        "ortho fraction",
+        "equilibrium ortho fraction",
         false,
         vec![series("equilibrium ortho fraction", curves.series(3), 1)],
     )])?;
