@@ -1,7 +1,16 @@
 //! Figures: SVG well-formedness, labels and legends, typed errors, PNG;
-//! titles measured in pixels inside the frame; distinct colours.
+//! titles measured in pixels inside the frame; distinct colours; compare
+//! figures of every model kind, with error panels over the decades that
+//! matter.
 
+use num_rational::BigRational;
+use std::path::Path;
+use zsum::classical::figure::{self, PANEL_HEIGHT, WIDTH};
+use zsum::classical::{compare, Classical, CompareReport, Quantity, RESOLUTION};
+use zsum::exact::parse_rational;
 use zsum::plot::{render_png, render_rgb, render_svg, write_svg, Panel, Series};
+use zsum::spectrum::Spectrum;
+use zsum::thermo::parse_grid;
 use zsum::ErrorKind;
 
 /// Einstein-solid heat capacity per oscillator, Cv/k at t = T/θ.
@@ -652,4 +661,160 @@ fn fixed_ranges_cut_curves_and_bad_ones_are_typed_errors() {
             err.message()
         );
     }
+}
+
+// ---------------------------------------------------------------------------
+// The compare figures.
+
+fn r(s: &str) -> BigRational {
+    parse_rational(s).unwrap()
+}
+
+/// An error map of `spectrum` over `grid` (kelvin unless `kelvin` is
+/// false), Cv, every approximation.
+fn map(spectrum: &dyn Spectrum, grid: &str, kelvin: bool) -> CompareReport {
+    let c = Classical::new(spectrum).unwrap();
+    let all: Vec<usize> = (0..c.approximations().len()).collect();
+    compare(
+        &c,
+        &all,
+        &parse_grid("--T", grid).unwrap(),
+        kelvin,
+        8,
+        &mut |_| {},
+    )
+    .unwrap()
+}
+
+/// Renders the compare figure of `report` to a PNG with the CLI's writer
+/// and checks the file's size, then its title box in pixels.
+fn check_compare_figure(report: &CompareReport, dir: &Path, name: &str) {
+    let path = dir.join(format!("{name}.png"));
+    figure::write(report, Quantity::Cv, 0.01, &path).unwrap();
+    let bytes = std::fs::read(&path).unwrap();
+    assert_eq!(&bytes[..8], b"\x89PNG\r\n\x1a\n", "{name}");
+    let w = u32::from_be_bytes(bytes[16..20].try_into().unwrap());
+    let h = u32::from_be_bytes(bytes[20..24].try_into().unwrap());
+    assert_eq!((w, h), (WIDTH, 2 * PANEL_HEIGHT), "{name}");
+    let panels = figure::panels(report, Quantity::Cv, 0.01);
+    check_titles(&panels, WIDTH, PANEL_HEIGHT, name);
+    // One approximation keeps one colour across the two panels.
+    for (k, s) in panels[1].series.iter().enumerate() {
+        assert_eq!(panels[0].series[k + 1].colour, s.colour, "{name}");
+    }
+}
+
+#[test]
+fn compare_figures_of_every_model_kind_keep_their_titles_inside() {
+    use zsum::models::diatomic::{ParityWeights, RovibDiatomic};
+    use zsum::models::oscillator::{AnharmonicOscillator, HarmonicModes};
+    use zsum::models::rotor::{LinearRotor, SphericalTop, SymmetricTop, TopShape};
+    use zsum::models::ParticleInBox;
+    use zsum::units::EnergyUnit;
+    let dir = tempfile::tempdir().unwrap();
+    let cm = || EnergyUnit::parse("cm-1").unwrap();
+    let boxed = ParticleInBox::new(vec![r("1")]).unwrap();
+    check_compare_figure(&map(&boxed, "log:0.1:100:10", false), dir.path(), "box");
+    let rotor = LinearRotor::rigid(r("1"), cm()).unwrap();
+    check_compare_figure(&map(&rotor, "log:0.1:100:12", true), dir.path(), "rotor");
+    let top = SymmetricTop::rigid(TopShape::Prolate, r("5"), r("1"), EnergyUnit::Kelvin).unwrap();
+    check_compare_figure(&map(&top, "log:0.2:20:5", true), dir.path(), "top");
+    let sph = SphericalTop::new(r("1"), r("0"), EnergyUnit::Kelvin).unwrap();
+    check_compare_figure(&map(&sph, "log:0.1:100:8", true), dir.path(), "spherical");
+    // The long description that ran off both sides.
+    let ho = HarmonicModes::one_d(r("1000"), false, cm()).unwrap();
+    check_compare_figure(&map(&ho, "log:10:10000:12", true), dir.path(), "oscillator");
+    let modes = HarmonicModes::new(
+        vec![(r("1000"), 1), (r("667"), 2), (r("2349"), 1)],
+        true,
+        cm(),
+    )
+    .unwrap();
+    check_compare_figure(&map(&modes, "log:50:5000:6", true), dir.path(), "modes");
+    let vib = AnharmonicOscillator::new(r("4401"), r("121"), r("0"), cm()).unwrap();
+    let h2 = RovibDiatomic::new(
+        vib,
+        r("60.85"),
+        r("3.06"),
+        r("0"),
+        ParityWeights::from_nuclear_spin(1, false),
+    )
+    .unwrap();
+    check_compare_figure(&map(&h2, "log:50:2000:6", true), dir.path(), "diatomic");
+    let system = zsum::system::System::read(Path::new(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/examples/systems/nitrogen_rovib.toml"
+    )))
+    .unwrap();
+    check_compare_figure(
+        &map(&system.product, "log:20:200:5", true),
+        dir.path(),
+        "system",
+    );
+}
+
+/// A harmonic oscillator of θ = 1 K from 0.05 K to 10^9 K: errors from
+/// above 10^6 down to well below what 40 exact digits resolve.
+fn oscillator_map() -> CompareReport {
+    use zsum::models::oscillator::HarmonicModes;
+    let ho = HarmonicModes::one_d(r("1"), false, zsum::units::EnergyUnit::Kelvin).unwrap();
+    map(&ho, "log:0.05:1000000000:12", true)
+}
+
+#[test]
+fn error_panels_show_the_tolerance_and_not_the_noise_floor() {
+    let report = oscillator_map();
+    // The map has errors at the floor and far above 1.
+    let raw: Vec<f64> = (0..report.approximation_list.len())
+        .flat_map(|k| report.error_series(Quantity::Cv, k))
+        .map(|p| p.1)
+        .collect();
+    assert!(raw.iter().any(|e| *e <= RESOLUTION), "{raw:?}");
+    assert!(raw.iter().any(|e| *e > 1e6), "{raw:?}");
+    for tol in [0.01, 0.05, 1e-6, 1e-30] {
+        let panels = figure::panels(&report, Quantity::Cv, tol);
+        let errors = &panels[1];
+        let (lo, hi) = errors.y_range.unwrap();
+        assert!(lo < tol && tol < hi, "tol {tol}: [{lo:e}, {hi:e}]");
+        assert!(lo > RESOLUTION, "tol {tol}: [{lo:e}, {hi:e}]");
+        // At most 4 decades below the tolerance's decade, at least one
+        // below the tolerance; the top at most 10^3.
+        let tol_decade = 10f64.powf(tol.log10().floor());
+        assert!(
+            lo >= tol_decade * 0.99e-4 && lo <= tol / 9.99,
+            "tol {tol}: {lo:e}"
+        );
+        assert!(hi <= 1.0001e3, "tol {tol}: {hi:e}");
+        // No point at or below the floor is drawn.
+        for s in &errors.series {
+            assert!(
+                s.points.iter().all(|p| p.1.is_nan() || p.1 > RESOLUTION),
+                "{}",
+                s.name
+            );
+        }
+        // Both panels span the same temperatures.
+        assert_eq!(panels[0].x_range, Some((0.05, 1e9)));
+        assert_eq!(errors.x_range, panels[0].x_range);
+        check_titles(&panels, 640, 300, &format!("tol {tol}"));
+    }
+}
+
+#[test]
+fn an_error_panel_with_nothing_resolved_says_so() {
+    use zsum::models::oscillator::HarmonicModes;
+    let ho = HarmonicModes::one_d(r("1"), false, zsum::units::EnergyUnit::Kelvin).unwrap();
+    let c = Classical::new(&ho).unwrap();
+    let order4 = c.find("order4").unwrap();
+    let grid = parse_grid("--T", "log:100000000:1000000000:3").unwrap();
+    let report = compare(&c, &[order4], &grid, true, 8, &mut |_| {}).unwrap();
+    let panels = figure::panels(&report, Quantity::Cv, 0.01);
+    assert!(
+        panels[1].title.contains("none above 1e-37"),
+        "{}",
+        panels[1].title
+    );
+    assert_eq!(panels[1].series[0].name, "order4 (all at most 1e-37)");
+    let texts = texts(&render_svg(&panels, 640, 300).unwrap());
+    assert_eq!(count(&texts, "tolerance 1%"), 1, "{texts:?}");
 }
