@@ -1,7 +1,6 @@
 //! Figures: SVG well-formedness, labels and legends, typed errors, PNG;
-//! titles measured in pixels inside the frame; distinct colours; compare
-//! figures of every model kind, with error panels over the decades that
-//! matter.
+//! every figure zsum makes rendered to pixels with its title inside the
+//! frame; distinct colours; error panels over the decades that matter.
 
 use num_rational::BigRational;
 use std::path::Path;
@@ -817,4 +816,46 @@ fn an_error_panel_with_nothing_resolved_says_so() {
     assert_eq!(panels[1].series[0].name, "order4 (all at most 1e-37)");
     let texts = texts(&render_svg(&panels, 640, 300).unwrap());
     assert_eq!(count(&texts, "tolerance 1%"), 1, "{texts:?}");
+}
+
+// ---------------------------------------------------------------------------
+// The report's figures.
+
+#[test]
+fn report_figures_keep_their_titles_inside_and_mark_the_boiling_point() {
+    use zsum::species::liquefier::{figures, FIGURE_SIZE};
+    let dir = tempfile::tempdir().unwrap();
+    for (i, panels) in figures().unwrap().iter().enumerate() {
+        let what = format!("report figure {i}");
+        render_png(
+            panels,
+            FIGURE_SIZE.0,
+            FIGURE_SIZE.1,
+            &dir.path().join(format!("{i}.png")),
+        )
+        .unwrap();
+        check_titles(panels, FIGURE_SIZE.0, FIGURE_SIZE.1, &what);
+        let texts = texts(&render_svg(panels, FIGURE_SIZE.0, FIGURE_SIZE.1).unwrap());
+        assert_eq!(count(&texts, "n.b.p. 20.28 K"), 1, "{what}: {texts:?}");
+        for p in panels {
+            assert_eq!(p.vlines, [("n.b.p. 20.28 K".to_string(), 20.28)], "{what}");
+            // 10–30 K takes at least a quarter of the T axis.
+            let (lo, hi) = p.x_range.unwrap();
+            assert!(
+                p.log_x && lo <= 10.0 && (30.0f64 / lo).ln() / (hi / lo).ln() > 0.25,
+                "{what}"
+            );
+            // Points at least every 2 K between 10 and 30 K.
+            let near: Vec<f64> = p.series[0]
+                .points
+                .iter()
+                .map(|q| q.0)
+                .filter(|t| (10.0..=30.0).contains(t))
+                .collect();
+            assert!(
+                near.windows(2).all(|w| w[1] - w[0] <= 2.0) && near.len() >= 10,
+                "{what}: {near:?}"
+            );
+        }
+    }
 }
