@@ -69,8 +69,11 @@ fn html_table<T: Tabular>(t: &T) -> String {
     out
 }
 
+/// The size of each figure of the report, in pixels: width, panel height.
+pub const FIGURE_SIZE: (u32, u32) = (860, 380);
+
 fn inline_svg(panels: &[Panel]) -> Result<String> {
-    let svg = render_svg(panels, 860, 380)?;
+    let svg = render_svg(panels, FIGURE_SIZE.0, FIGURE_SIZE.1)?;
     let body = match svg.find("<svg") {
         Some(i) => &svg[i..],
         None => svg.as_str(),
@@ -87,16 +90,76 @@ fn series(name: &str, points: Vec<(f64, f64)>, colour: usize) -> Series {
     }
 }
 
-fn panel(title: &str, y: &str, log_x: bool, s: Vec<Series>) -> Panel {
+/// The normal boiling point of normal hydrogen at 1 atm, K (common
+/// practice, from memory), marked on every hydrogen figure.
+const BOILING_POINT_K: f64 = 20.28;
+
+/// The temperature range of the hydrogen figures, K.
+const FIGURE_T: (f64, f64) = (10.0, 400.0);
+/// How many temperatures of that range are computed, evenly spaced in log T.
+const FIGURE_POINTS: usize = 61;
+
+fn panel(title: &str, y: &str, s: Vec<Series>) -> Panel {
     Panel {
         title: title.into(),
         x_label: "T / K".into(),
         y_label: y.into(),
-        log_x,
-        log_y: false,
+        log_x: true,
         series: s,
-        hlines: Vec::new(),
+        vlines: vec![(format!("n.b.p. {BOILING_POINT_K} K"), BOILING_POINT_K)],
+        x_range: Some(FIGURE_T),
+        ..Panel::default()
     }
+}
+
+/// One hydrogen figure: title, y label, and per curve its name, its column
+/// of [`HydrogenTable::series`] and its colour slot.
+type FigureSpec = (
+    &'static str,
+    &'static str,
+    &'static [(&'static str, usize, usize)],
+);
+
+/// The report's hydrogen figures, each one panel: Cp of normal,
+/// equilibrium and para hydrogen; the equilibrium ortho fraction; the heats
+/// of conversion. All are drawn against a logarithmic T axis from 10 K to
+/// 400 K, so that 10–30 K around the boiling point is not squeezed, at 61
+/// temperatures evenly spaced in log T (closer than the table's 5 K steps
+/// below 75 K), with the normal boiling point marked. One state keeps one
+/// colour across them.
+pub fn figures() -> Result<[Vec<Panel>; 3]> {
+    let db = Database::builtin()?;
+    let o = MolarOptions {
+        digits: 8,
+        ..MolarOptions::default()
+    };
+    let (low, high) = FIGURE_T;
+    let grid = parse_grid("--T", &format!("log:{low}:{high}:{FIGURE_POINTS}"))?;
+    let curves = HydrogenTable::build(db.find("H2")?, &grid, &Isomer::Normal, &o)?;
+    let spec: [FigureSpec; 3] = [
+        (
+            "H2 heat capacity Cp: normal, equilibrium and para",
+            "Cp / (J/(mol K))",
+            &[("normal", 0, 0), ("equilibrium", 1, 1), ("para", 2, 2)],
+        ),
+        (
+            "equilibrium ortho fraction of H2",
+            "equilibrium ortho fraction",
+            &[("equilibrium ortho fraction", 3, 1)],
+        ),
+        (
+            "H2 heats of conversion",
+            "heat / (J/mol)",
+            &[("normal to equilibrium", 4, 3), ("ortho to para", 5, 4)],
+        ),
+    ];
+    Ok(spec.map(|(title, y, lines)| {
+        let s = lines
+            .iter()
+            .map(|&(name, column, colour)| series(name, curves.series(column), colour))
+            .collect();
+        vec![panel(title, y, s)]
+    }))
 }
 
 /// Builds the report's files in memory: `(file name, contents)`.
@@ -150,31 +213,10 @@ pub fn build_report() -> Result<Vec<(String, String)>> {
     let hydrogen_csv = to_csv(&curves)?;
     let species_csv = to_csv(&SpeciesRows(&species_rows))?;
 
-    let cp_plot = inline_svg(&[panel(
-        "H2 heat capacity Cp: normal, equilibrium and para",
-        "Cp / (J/(mol K))",
-        false,
-        vec![
-            series("normal", curves.series(0), 0),
-            series("equilibrium", curves.series(1), 1),
-            series("para", curves.series(2), 2),
-        ],
-    )])?;
-    let fraction_plot = inline_svg(&[panel(
-        "equilibrium ortho fraction of H2",
-        "ortho fraction",
-        false,
-        vec![series("equilibrium ortho fraction", curves.series(3), 1)],
-    )])?;
-    let heat_plot = inline_svg(&[panel(
-        "heat of conversion",
-        "heat / (J/mol)",
-        false,
-        vec![
-            series("normal to equilibrium", curves.series(4), 3),
-            series("ortho to para", curves.series(5), 4),
-        ],
-    )])?;
+    let [cp_plot, fraction_plot, heat_plot] = figures()?;
+    let cp_plot = inline_svg(&cp_plot)?;
+    let fraction_plot = inline_svg(&fraction_plot)?;
+    let heat_plot = inline_svg(&heat_plot)?;
 
     let sources = html_table(&SourceRows(
         db.all()
