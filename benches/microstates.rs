@@ -1,5 +1,5 @@
-//! Microstate speeds (README figures): Beyer–Swinehart for 30 modes up to
-//! 50 000 cm-1 at a 1 cm-1 grain; Ω(E, N) for 100 bosons in the 3D cube for
+//! Microstate speeds (README figures): the census count (Beyer–Swinehart)
+//! of 30 modes up to 50 000 cm-1 on a 1 cm-1 step; Ω(E, N) for 100 bosons in the 3D cube for
 //! every total energy up to 2000 box units; Q_N of 50 fermions in a 3D
 //! harmonic trap at one temperature. All counts exact.
 
@@ -17,12 +17,12 @@ fn bs(c: &mut Criterion) {
     // 30 invented mode frequencies from 300 to 3200 cm-1 (demo data).
     let freqs: Vec<String> = (0..30).map(|i| (300 + i * 100).to_string()).collect();
     let modes = parse_modes(&freqs.join(",")).unwrap();
-    let (grain, cutoff) = (
+    let (step, cutoff) = (
         parse_rational("1").unwrap(),
         parse_rational("50000").unwrap(),
     );
-    c.bench_function("beyer_swinehart_30_modes_50000_grains", |b| {
-        b.iter(|| black_box(beyer_swinehart(&modes, &grain, &cutoff, &Budget::default()).unwrap()))
+    c.bench_function("census_count_30_modes_50000_steps", |b| {
+        b.iter(|| black_box(beyer_swinehart(&modes, &step, &cutoff, &Budget::default()).unwrap()))
     });
 }
 

@@ -79,7 +79,7 @@ fn mixed_modes_match_brute_force() {
         }
     }
     go(0, 0, &freqs, cutoff, &mut brute);
-    // Frequencies in cm-1 on a 0.5 cm-1 grain: 1.5, 2.5 x2, 3.5, 5.5.
+    // Frequencies in cm-1 on a 0.5 cm-1 step: 1.5, 2.5 x2, 3.5, 5.5.
     let counts = beyer_swinehart(
         &parse_modes("1.5,2.5x2,3.5,5.5").unwrap(),
         &r("0.5"),
@@ -105,7 +105,7 @@ fn mixed_modes_match_brute_force() {
 fn bad_input_is_refused() {
     let m = parse_modes("1000").unwrap();
     let e = beyer_swinehart(&m, &r("0"), &r("10"), &Budget::default()).unwrap_err();
-    assert!(e.to_string().contains("grain"), "{e}");
+    assert!(e.to_string().contains("energy step 0"), "{e}");
     let e = beyer_swinehart(
         &parse_modes("0.2").unwrap(),
         &r("1"),
@@ -113,7 +113,7 @@ fn bad_input_is_refused() {
         &Budget::default(),
     )
     .unwrap_err();
-    assert!(e.to_string().contains("rounds to 0 grains"), "{e}");
+    assert!(e.to_string().contains("rounds to 0 steps"), "{e}");
     let e = beyer_swinehart(&m, &r("1"), &r("1e9"), &Budget::bytes(1 << 20)).unwrap_err();
     assert!(e.to_string().contains("memory budget"), "{e}");
     assert!(parse_modes("1000,x2").is_err());
@@ -121,11 +121,12 @@ fn bad_input_is_refused() {
     assert!(parse_modes("-5").is_err());
 }
 
-/// `zsum vibsum`: with modes 1000, 1500 (x2), 3000 cm-1 the bin at 3000 holds
-/// 5 states (3 quanta of 1000; 2 quanta shared by the 1500 pair in 3 ways;
-/// one of 3000), counted by hand.
+/// `zsum census`: with modes 1000, 1500 (x2), 3000 cm-1 the step at 3000
+/// holds 5 states (3 quanta of 1000; 2 quanta shared by the 1500 pair in 3
+/// ways; one of 3000), 12 states lie at or below it, counted by hand; the
+/// JSON names the units of its columns.
 #[test]
-fn vibsum_cli_counts_and_refuses() {
+fn census_cli_counts_and_refuses() {
     let run = |args: &[&str]| {
         std::process::Command::new(env!("CARGO_BIN_EXE_zsum"))
             .args(args)
@@ -133,12 +134,12 @@ fn vibsum_cli_counts_and_refuses() {
             .unwrap()
     };
     let out = run(&[
-        "vibsum",
+        "census",
         "--modes",
         "1000,1500x2,3000",
         "--unit",
         "cm-1",
-        "--grain",
+        "--step",
         "1",
         "--up-to",
         "3000",
@@ -149,16 +150,53 @@ fn vibsum_cli_counts_and_refuses() {
     let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
     let last = v["rows"].as_array().unwrap().last().unwrap().clone();
     assert_eq!(last["energy"], "3000");
-    assert_eq!(last["count"], "5");
-    assert_eq!(last["sum"], "12");
-    let bad = run(&["vibsum", "--modes", "1000", "--grain", "0", "--up-to", "10"]);
-    assert_eq!(bad.status.code(), Some(2));
-    assert!(String::from_utf8_lossy(&bad.stderr).contains("grain 0"));
+    assert_eq!(last["in_step"], "5");
+    assert_eq!(last["density"], "5");
+    assert_eq!(last["sum_of_states"], "12");
+    // log10 12 = 1.07918 (from memory: log10 2 = 0.30103, log10 3 = 0.47712).
+    assert_eq!(last["log10_sum"], "1.0792");
+    assert_eq!(v["units"]["energy"], "cm-1");
+    assert_eq!(v["units"]["density"], "1/cm-1");
+    assert_eq!(v["modes"][1]["frequency"], "1500");
+    assert_eq!(v["modes"][1]["degeneracy"], 2);
+    // A step of 2 cm-1 halves the density of the same 5 states.
+    let out = run(&[
+        "census",
+        "--modes",
+        "1000,1500x2,3000",
+        "--step",
+        "2",
+        "--up-to",
+        "3000",
+        "--format",
+        "json",
+    ]);
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(
+        v["rows"].as_array().unwrap().last().unwrap()["density"],
+        "2.5"
+    );
+    for (args, needle) in [
+        (vec!["--step", "0"], "energy step 0"),
+        (vec!["--step", "-1"], "energy step -1"),
+        (vec!["--step", "x"], "--step"),
+    ] {
+        let mut all = vec!["census", "--modes", "1000", "--up-to", "10"];
+        all.extend(args);
+        let bad = run(&all);
+        assert_eq!(bad.status.code(), Some(2));
+        assert!(bad.stdout.is_empty());
+        assert!(
+            String::from_utf8_lossy(&bad.stderr).contains(needle),
+            "{}",
+            String::from_utf8_lossy(&bad.stderr)
+        );
+    }
 }
 
-/// Stein–Rabinovitch against brute force: modes of 3 and 5 grains and an
+/// Stein–Rabinovitch against brute force: modes of 3 and 5 steps and an
 /// extra degree of freedom with levels at 0 (1 state), 2 (3) and 7 (2)
-/// grains; every combination (n1, n2, level) is enumerated.
+/// steps; every combination (n1, n2, level) is enumerated.
 #[test]
 fn stein_rabinovitch_matches_brute_force() {
     use zsum::level::{Level, LevelList};
@@ -196,7 +234,7 @@ fn stein_rabinovitch_matches_brute_force() {
     assert_eq!(got, brute);
 }
 
-/// A free internal rotor (E = B m², B = 1 grain, m = 0, ±1, ...) convolved
+/// A free internal rotor (E = B m², B = 1 step, m = 0, ±1, ...) convolved
 /// with a mode far above the cutoff: the sum of states up to E is the number
 /// of integers m with m² ≤ E, 2⌊√E⌋ + 1.
 #[test]
@@ -240,7 +278,7 @@ fn free_rotor_extra_counts_integer_points() {
 /// known behaviour, from memory).
 #[test]
 fn whitten_rabinovitch_is_consistent_and_close_above_half_the_zero_point() {
-    use zsum::microstates::{whitten_rabinovitch, WrReport};
+    use zsum::microstates::{whitten_rabinovitch, CensusErrorMap};
     let freqs: Vec<f64> = [
         3400.0, 3000.0, 3000.0, 1600.0, 1500.0, 1500.0, 1100.0, 1000.0, 1000.0, 900.0, 800.0,
         800.0, 400.0, 400.0, 400.0,
@@ -263,20 +301,60 @@ fn whitten_rabinovitch_is_consistent_and_close_above_half_the_zero_point() {
         &Budget::default(),
     )
     .unwrap();
-    let rep = WrReport::new(&c, "cm-1", 20).unwrap();
+    let rep = CensusErrorMap::new(&c, "cm-1", 20, 6).unwrap();
     let mut far = 0;
     for row in &rep.rows {
-        let ep: f64 = row.reduced.parse().unwrap();
-        let err: f64 = row.sum_error.parse().unwrap();
+        let ep: f64 = row.e_over_ez.parse().unwrap();
+        assert_eq!(row.extrapolated, !(0.1..=8.0).contains(&ep));
+        let err: f64 = row.sum_rel_error.parse().unwrap();
         if ep >= 0.5 {
             assert!(err.abs() < 0.06, "E' = {ep}: {err}");
             if ep >= 4.0 {
                 assert!(err.abs() < 0.015, "E' = {ep}: {err}");
                 far += 1;
             }
-            let derr: f64 = row.density_error.parse().unwrap();
+            let derr: f64 = row.density_rel_error.parse().unwrap();
             assert!(derr.abs() < 0.06, "E' = {ep}: density {derr}");
         }
     }
     assert!(far >= 5);
+}
+
+/// The census's log10 N(E) column: exact at powers of ten (one mode of one
+/// step has N(E) = E + 1 states up to E), and for C(2040, 40) states (forty
+/// modes of one step up to 2000: C(E + 40, 40), standard result) equal to
+/// Σ log10((2000 + i)/i), i = 1..40, summed here in f64 (error about 1e-13,
+/// far below the fourth decimal; the check asserts the value is not within
+/// 1e-9 of a rounding boundary).
+#[test]
+fn census_log10_column_is_correctly_rounded() {
+    use zsum::microstates::CensusReport;
+    let rows = |modes: &str, up_to: &str| {
+        let c = beyer_swinehart(
+            &parse_modes(modes).unwrap(),
+            &r("1"),
+            &r(up_to),
+            &Budget::default(),
+        )
+        .unwrap();
+        CensusReport::new(&c, "cm-1", &Budget::default())
+            .unwrap()
+            .rows
+    };
+    let one = rows("1", "999");
+    assert_eq!(one[0].log10_sum, "0.0000");
+    assert_eq!(one[1].log10_sum, "0.3010"); // log10 2 = 0.30103 (from memory)
+    assert_eq!(one[9].log10_sum, "1.0000");
+    assert_eq!(one[99].log10_sum, "2.0000");
+    assert_eq!(one[999].log10_sum, "3.0000");
+    let forty = rows("1x40", "2000");
+    let want: f64 = (1..=40)
+        .map(|i| ((2000 + i) as f64 / i as f64).log10())
+        .sum();
+    let scaled = want * 1e4;
+    assert!((scaled.fract() - 0.5).abs() > 1e-9);
+    assert_eq!(
+        forty.last().unwrap().log10_sum,
+        format!("{:.4}", (scaled.round()) / 1e4)
+    );
 }

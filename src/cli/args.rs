@@ -74,9 +74,11 @@ pub enum Command {
         #[command(flatten)]
         opts: CompareArgs,
     },
-    /// Exact sums and densities of vibrational states of harmonic modes
-    /// (Beyer–Swinehart) on an energy grain.
-    Vibsum(VibsumArgs),
+    /// A census of the vibrational states of harmonic modes: the exact sum
+    /// and density of states at every energy up to a cutoff
+    /// (Beyer–Swinehart), other degrees of freedom convolved in, or the
+    /// error map of the Whitten–Rabinovitch approximation.
+    Census(CensusArgs),
     /// Exact microstate counts Ω(E, N) of N particles (labelled, bosons or
     /// fermions) in one spectrum for every total energy up to a cutoff, with
     /// S = k ln Ω, the microcanonical temperature and the canonical
@@ -1094,36 +1096,45 @@ pub struct EnsembleArgs {
     pub out: Output,
 }
 
-/// `zsum vibsum`.
+/// `zsum census`.
 #[derive(Debug, Args)]
-pub struct VibsumArgs {
+pub struct CensusArgs {
     /// Frequencies, comma-separated, each optionally xN for N degenerate
     /// modes, e.g. 1000,1500x2,3000.
     #[arg(long, value_name = "LIST")]
     pub modes: String,
-    /// Unit of the frequencies, grain and cutoff (a name for the output).
+    /// Unit of the frequencies, the step and the cutoff (a name for the
+    /// output).
     #[arg(long, value_name = "UNIT", default_value = "cm-1")]
     pub unit: String,
-    /// The energy grain.
+    /// The energy step of the census: every frequency (and every level
+    /// given with --convolve) is rounded to a whole number of steps, and the
+    /// rounded values are reported.
     #[arg(
         long,
-        value_name = "G",
+        value_name = "STEP",
         default_value = "1",
         allow_hyphen_values = true
     )]
-    pub grain: String,
+    pub step: String,
     /// Highest energy counted.
     #[arg(long, value_name = "E", allow_hyphen_values = true)]
     pub up_to: String,
-    /// An extra degree of freedom (free or hindered internal rotor, low
+    /// Another degree of freedom (free or hindered internal rotor, low
     /// electronic levels) as a level file or a system file (.toml),
     /// convolved in by Stein–Rabinovitch; repeat for more.
     #[arg(long, value_name = "FILE")]
-    pub extra: Vec<PathBuf>,
-    /// Instead of the per-grain table, the Whitten–Rabinovitch error map
-    /// of the harmonic modes at this many energies up to the cutoff.
-    #[arg(long, value_name = "POINTS", conflicts_with = "extra")]
-    pub wr: Option<usize>,
+    pub convolve: Vec<PathBuf>,
+    /// Instead of the census, the error map of the Whitten–Rabinovitch
+    /// approximation against the exact count of the modes, at this many
+    /// energies spread up to the cutoff.
+    #[arg(long, value_name = "POINTS", conflicts_with = "convolve")]
+    pub error_map: Option<usize>,
+    /// With --error-map: significant digits of the approximation's values
+    /// and of the exact density (1 to 12). The approximation's values are
+    /// floating-point evaluations, not certified.
+    #[arg(long, value_name = "N", default_value_t = zsum::report::APPROX_DIGITS, requires = "error_map")]
+    pub digits: u32,
     /// Refuse grids estimated to need more memory than this.
     #[arg(long, value_name = "SIZE", default_value = "2GiB")]
     pub memory_budget: String,
