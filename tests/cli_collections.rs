@@ -26,8 +26,6 @@ fn einstein_solid_json_holds_exact_counts() {
         "300",
         "--up-to",
         "300",
-        "--compare",
-        "0",
         "--format",
         "json",
     ]);
@@ -44,7 +42,37 @@ fn einstein_solid_json_holds_exact_counts() {
         (ln / std::f64::consts::LN_10).floor() as usize + 1
     );
     assert_eq!(rows[2]["omega"], "45150"); // C(301, 2)
-    assert_eq!(v["statistics"], "distinct");
+    assert_eq!(rows[2]["quanta"], 2);
+    assert_eq!(v["oscillators"], 300);
+    // Every column is a count or a pure number: an empty units block.
+    assert_eq!(v["units"], serde_json::json!({}));
+    // q = 0: βħω = ψ(300) − ψ(1) = H_299 = 6.2793305... (the harmonic
+    // number, from the exact sum evaluated here in f64).
+    let h: f64 = (1..300).map(|k| 1.0 / k as f64).sum();
+    let beta: f64 = rows[0]["beta_hw"].as_str().unwrap().parse().unwrap();
+    assert!((beta / h - 1.0).abs() < 1e-9, "{beta} against {h}");
+    // The canonical comparison is on every row, so --compare is refused;
+    // so are bad counts and digits.
+    for (flag, value, needle) in [
+        ("--compare", "2", "--compare"),
+        ("--up-to", "-1", "--up-to -1"),
+        ("--digits", "0", "digits 0"),
+        ("--particles", "0", "--particles"),
+    ] {
+        let mut args = vec![
+            "microstates",
+            "--einstein",
+            "--particles",
+            "3",
+            "--up-to",
+            "3",
+        ];
+        match args.iter().position(|a| *a == flag) {
+            Some(i) => args[i + 1] = value,
+            None => args.extend([flag, value]),
+        }
+        refused(&args, needle);
+    }
 }
 
 #[test]

@@ -1,5 +1,7 @@
-//! Exact vibrational state counts and Einstein-solid microstates against
-//! binomial coefficients (Pascal's triangle, computed here) and brute force.
+//! Exact vibrational state counts (the census) and Einstein-solid
+//! microstates against binomial coefficients (Pascal's triangle, computed
+//! here) and brute force; the Einstein table's temperature against the exact
+//! harmonic sum, Stirling's form and the central difference.
 
 use num_bigint::BigUint;
 use zsum::exact::parse_rational;
@@ -357,4 +359,143 @@ fn census_log10_column_is_correctly_rounded() {
         forty.last().unwrap().log10_sum,
         format!("{:.4}", (scaled.round()) / 1e4)
     );
+}
+
+/// Σ_{k=q+1}^{q+N−1} 1/k, exactly: ψ(q + N) − ψ(q + 1) for whole q, since
+/// ψ(n + 1) = H_n − γ (standard result). Independent of the digamma
+/// function the report uses.
+fn harmonic_difference(n: u64, q: u64) -> num_rational::BigRational {
+    (q + 1..q + n).fold(num_rational::BigRational::from_integer(0.into()), |a, k| {
+        a + num_rational::BigRational::new(1.into(), k.into())
+    })
+}
+
+/// The Einstein table: Ω against Pascal's triangle, S/k = ln Ω against
+/// Σ ln((q + i)/i) in f64 (relative error about 1e-15, far below the 10th
+/// digit), and βħω = ψ(q + N) − ψ(q + 1) and kT/ħω digit for digit against
+/// the exact harmonic sum above, correctly rounded by `format_sig`.
+#[test]
+fn einstein_temperature_is_the_exact_harmonic_difference() {
+    use zsum::exact::format_sig;
+    use zsum::microstates::EinsteinReport;
+    let c = pascal(620);
+    for n in [2u64, 3, 7, 50, 300] {
+        for digits in [10u32, 25] {
+            let rep = EinsteinReport::build(n, &r("300"), digits, &Budget::default()).unwrap();
+            assert_eq!(rep.rows.len(), 301);
+            for q in [0u64, 1, 2, 17, 150, 299, 300] {
+                let row = &rep.rows[q as usize];
+                assert_eq!(row.quanta, q);
+                assert_eq!(row.omega, c[(q + n - 1) as usize][q as usize].to_string());
+                let h = harmonic_difference(n, q);
+                assert_eq!(row.beta_hw, format_sig(&h, digits), "N = {n}, q = {q}");
+                assert_eq!(row.kt_over_hw, format_sig(&h.recip(), digits));
+                let ln_omega: f64 = (1..n).map(|i| ((q + i) as f64 / i as f64).ln()).sum();
+                let s: f64 = row.s_over_k.parse().unwrap();
+                assert!(
+                    (s - ln_omega).abs() <= 1e-9 * ln_omega.max(1.0),
+                    "N = {n}, q = {q}: {s} against {ln_omega}"
+                );
+            }
+        }
+    }
+}
+
+/// Values exactly halfway between two roundings (βħω = 1/4 and 1/8 for two
+/// oscillators at q = 3 and 7, to one digit) are settled from the exact sum,
+/// half to even; one oscillator has a flat ln Ω and an infinite temperature.
+#[test]
+fn einstein_table_settles_halfway_values_and_one_oscillator() {
+    use zsum::microstates::EinsteinReport;
+    let rep = EinsteinReport::build(2, &r("7"), 1, &Budget::default()).unwrap();
+    assert_eq!(rep.rows[3].beta_hw, "0.2");
+    assert_eq!(rep.rows[3].kt_over_hw, "4");
+    assert_eq!(rep.rows[7].beta_hw, "0.1");
+    assert_eq!(rep.rows[7].kt_over_hw, "8");
+    let one = EinsteinReport::build(1, &r("5"), 10, &Budget::default()).unwrap();
+    assert!(one
+        .rows
+        .iter()
+        .all(|r| r.omega == "1" && r.beta_hw == "0" && r.kt_over_hw == "inf"));
+    for bad in ["-1", "1e30"] {
+        assert!(EinsteinReport::build(3, &r(bad), 10, &Budget::default()).is_err());
+    }
+    assert!(EinsteinReport::build(3, &r("5"), 0, &Budget::default()).is_err());
+    assert!(EinsteinReport::build(0, &r("5"), 10, &Budget::default()).is_err());
+}
+
+/// For many oscillators and quanta the exact derivative approaches
+/// Stirling's ln((q + N)/q): ψ(z) = ln(z − ½) + O(z⁻²) (standard asymptotic
+/// series, from memory) puts it at ln((q + N − ½)/(q + ½)), within 1/q of
+/// Stirling's. The central difference ½[ln Ω(q + 1) − ln Ω(q − 1)] of the
+/// exact count exceeds it by f‴/6 + f⁽⁵⁾/120 + ..., f = ln Γ(q + N) −
+/// ln Γ(q + 1), every term positive; to leading order
+/// f‴/6 ≈ (1/(q + 1)² − 1/(q + N)²)/6 (from −ψ″(z) = 1/z² + 1/z³ + ...),
+/// the neglected terms smaller by O(1/q) (about 1% at q = 100), so the gap
+/// agrees with that O(1/q²) estimate to within 2%.
+#[test]
+fn einstein_temperature_approaches_stirling_and_the_central_difference() {
+    use zsum::microstates::EinsteinReport;
+    let n = 1000u64;
+    let rep = EinsteinReport::build(n, &r("1001"), 15, &Budget::default()).unwrap();
+    let nf = n as f64;
+    for q in [100u64, 500, 1000] {
+        let x: f64 = rep.rows[q as usize].beta_hw.parse().unwrap();
+        let qf = q as f64;
+        assert!(((qf + nf) / qf).ln() - x > 0.0);
+        assert!(((qf + nf) / qf).ln() - x < 1.0 / qf, "q = {q}");
+        let central = 0.5 * ((qf + nf) * (qf + nf - 1.0) / (qf * (qf + 1.0))).ln();
+        let leading = (1.0 / (qf + 1.0).powi(2) - 1.0 / (qf + nf).powi(2)) / 6.0;
+        let gap = central - x;
+        assert!(gap > 0.0, "q = {q}");
+        assert!(
+            (gap / leading - 1.0).abs() < 0.02,
+            "q = {q}: {gap} against {leading}"
+        );
+    }
+}
+
+/// The canonical ensemble at the continuum temperature βħω = ln(1 + N/q)
+/// (the derivative of Stirling's ln Ω) holds exactly q quanta, N/(e^x − 1)
+/// = q, and its entropy is Stirling's ln Ω, N[(1 + n) ln(1 + n) − n ln n]
+/// with n = q/N (standard results). x is ln(1 + N/q) rounded at 300 bits,
+/// which moves U by about U·2⁻³⁰⁰, so all 10 certified digits of U read q;
+/// S is compared with the f64 closed form to 1e-9 relative (the 10th digit;
+/// f64 errs by about 1e-15). At the exact temperature ψ(q + N) − ψ(q + 1)
+/// the canonical U is instead N(q + ½)/(N − 1) to within the O(z⁻²) term of
+/// ψ's series: x moves by about 1/(24(q + ½)²), and U relatively by that
+/// times e^x/(e^x − 1) ≤ (q + N + 1)/(N − 1); the tolerance is half as much
+/// again, for the higher terms of the series.
+#[test]
+fn einstein_canonical_holds_q_quanta_at_the_continuum_temperature() {
+    use rug::Float;
+    use zsum::microstates::{einstein_canonical, EinsteinReport};
+    for (n, q) in [(300u64, 1000u64), (1000, 200), (2, 5)] {
+        let (nf, qf) = (n as f64, q as f64);
+        let x = Float::with_val(300, Float::with_val(300, n) / q).ln_1p();
+        let c = einstein_canonical(n, &x, 10).unwrap();
+        assert_eq!(
+            c.u_over_hw,
+            zsum::exact::format_sig(&r(&q.to_string()), 10),
+            "N = {n}, q = {q}"
+        );
+        let occ = qf / nf;
+        let stirling = nf * ((1.0 + occ) * (1.0 + occ).ln() - occ * occ.ln());
+        let s: f64 = c.s_over_k.parse().unwrap();
+        assert!((s / stirling - 1.0).abs() < 1e-9, "{s} against {stirling}");
+    }
+    let n = 1000u64;
+    let rep = EinsteinReport::build(n, &r("1000"), 12, &Budget::default()).unwrap();
+    let nf = n as f64;
+    for q in [200u64, 1000] {
+        let qf = q as f64;
+        let u: f64 = rep.rows[q as usize].canonical_u_over_hw.parse().unwrap();
+        let want = nf * (qf + 0.5) / (nf - 1.0);
+        let tol = 1.5 / (24.0 * (qf + 0.5).powi(2)) * (qf + nf + 1.0) / (nf - 1.0);
+        assert!((u / want - 1.0).abs() < tol, "q = {q}: {u} against {want}");
+    }
+    assert!(einstein_canonical(3, &Float::with_val(64, 0), 10).is_err());
+    // e^x beyond MPFR's exponent range: refused, not a panic or a hang.
+    assert!(einstein_canonical(3, &Float::with_val(64, 1e30), 10).is_err());
+    assert!(einstein_canonical(0, &Float::with_val(64, 1), 10).is_err());
 }

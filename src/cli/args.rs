@@ -1020,9 +1020,10 @@ pub struct MicrostatesArgs {
     /// A system file (TOML) giving the single-particle spectrum.
     #[arg(long, value_name = "FILE", required_unless_present = "einstein")]
     pub system: Option<PathBuf>,
-    /// An Einstein solid instead: N labelled oscillators, energies in
-    /// quanta ħω (--up-to is the number of quanta).
-    #[arg(long, conflicts_with_all = ["system", "stats", "grid"])]
+    /// An Einstein solid instead: N labelled oscillators (--particles)
+    /// sharing q = 0 up to --up-to quanta ħω, with the temperature from the
+    /// exact derivative of ln Ω and the canonical comparison on every row.
+    #[arg(long, conflicts_with_all = ["system", "stats", "grid", "compare"])]
     pub einstein: bool,
     /// Number of particles (1 to 1000).
     #[arg(long, value_name = "N")]
@@ -1037,7 +1038,8 @@ pub struct MicrostatesArgs {
     /// number of steps); default: the levels' common divisor.
     #[arg(long, value_name = "STEP", allow_hyphen_values = true)]
     pub grid: Option<String>,
-    /// Number of energies at which to compare with the canonical ensemble.
+    /// Number of energies at which to compare with the canonical ensemble
+    /// (--einstein compares on every row).
     #[arg(long, value_name = "K", default_value_t = 8)]
     pub compare: usize,
     /// Significant digits of S/k, kT and the canonical values, each

@@ -801,22 +801,22 @@ fn hydrogen(a: HydrogenArgs) -> Result<Option<String>> {
 }
 
 fn microstates_cmd(a: MicrostatesArgs) -> Result<Option<String>> {
-    use zsum::microstates::{microstates, MicroReport, Statistics};
-    let spectrum: Box<dyn Spectrum> = match &a.system {
-        Some(path) if !a.einstein => Box::new(System::read(path)?.product),
-        _ => Box::new(HarmonicModes::one_d(
-            BigRational::from_integer(1.into()),
-            false,
-            EnergyUnit::Natural {
+    use zsum::microstates::{microstates, EinsteinReport, MicroReport, Statistics};
+    let digits = check_digits(a.digits)?;
+    let budget = parse_budget(&a.memory_budget)?;
+    let (path, stats) = match (&a.system, &a.stats) {
+        (Some(path), Some(stats)) if !a.einstein => (path, Statistics::parse(stats)?),
+        _ => {
+            let quanta = EnergyUnit::Natural {
                 symbol: "ħω".into(),
                 joules: None,
-            },
-        )?),
+            };
+            let up_to = cutoff_in(&a.up_to, &quanta)?;
+            let report = EinsteinReport::build(a.particles, &up_to, digits, &budget)?;
+            return emit(render(&report, format(a.out.format))?, &a.out);
+        }
     };
-    let stats = match &a.stats {
-        Some(s) if !a.einstein => Statistics::parse(s)?,
-        _ => Statistics::Distinct,
-    };
+    let spectrum = System::read(path)?.product;
     let unit = spectrum.unit();
     let up_to = cutoff_in(&a.up_to, &unit)?;
     let step = a
@@ -824,33 +824,16 @@ fn microstates_cmd(a: MicrostatesArgs) -> Result<Option<String>> {
         .as_deref()
         .map(|g| cutoff_in(g, &unit).map_err(|_| Error::parse("--grid", g, "an energy step")))
         .transpose()?;
-    let digits = check_digits(a.digits)?;
-    let budget = parse_budget(&a.memory_budget)?;
-    let omega = if a.einstein {
-        let quanta = up_to.floor().to_integer();
-        let quanta = u64::try_from(&quanta).map_err(|_| {
-            Error::invalid(
-                "--up-to",
-                &a.up_to,
-                "an Einstein solid needs a number of quanta of zero or more",
-            )
-        })?;
-        zsum::microstates::einstein_omega(a.particles, quanta, unit.clone(), &budget)?
-    } else {
-        microstates(
-            &*spectrum,
-            a.particles,
-            stats,
-            &up_to,
-            step.as_ref(),
-            &budget,
-        )?
-    };
-    let cached = zsum::sum::Cached::new(&*spectrum);
-    let mut report = MicroReport::build(&cached, &omega, &up_to, a.compare, digits)?;
-    if a.einstein {
-        report.system = "an Einstein solid (labelled oscillators, energies in quanta ħω)".into();
-    }
+    let omega = microstates(
+        &spectrum,
+        a.particles,
+        stats,
+        &up_to,
+        step.as_ref(),
+        &budget,
+    )?;
+    let cached = zsum::sum::Cached::new(&spectrum);
+    let report = MicroReport::build(&cached, &omega, &up_to, a.compare, digits)?;
     emit(render(&report, format(a.out.format))?, &a.out)
 }
 

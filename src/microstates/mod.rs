@@ -11,7 +11,9 @@
 //! - [`beyer_swinehart`], [`stein_rabinovitch`], [`whitten_rabinovitch`]:
 //!   vibrational sums and densities of states, exactly and approximately;
 //!   [`CensusReport`] and [`CensusErrorMap`] lay them out (`zsum census`).
-//! - [`einstein_solid`]: C(q + N − 1, q).
+//! - [`einstein_solid`]: C(q + N − 1, q); [`EinsteinReport`] tabulates the
+//!   Einstein solid by number of quanta, with the microcanonical temperature
+//!   from the exact derivative ψ(q + N) − ψ(q + 1) of ln Ω.
 //!
 //! The Beyer–Swinehart algorithm counts the states of independent harmonic
 //! modes on an energy grid of width `step`: starting from one state at zero
@@ -24,6 +26,7 @@
 
 mod census;
 mod collection;
+mod einstein;
 mod ensemble;
 mod reports;
 mod vibration;
@@ -32,6 +35,7 @@ pub use collection::{
     check_particles, count_on_grid, count_seconds, einstein_omega, microstates, table_bytes, Grid,
     Omega, Statistics, MAX_PARTICLES, MAX_SECONDS,
 };
+pub use einstein::{einstein_canonical, EinsteinCanonical, EinsteinReport, EinsteinRow};
 pub use ensemble::{ensemble_point, EnsemblePoint};
 pub use reports::{BoltzmannCrossing, EnsembleReport, MicroReport, MicroRow};
 pub use vibration::{stein_rabinovitch, stein_rabinovitch_spectrum, whitten_rabinovitch};
