@@ -1119,7 +1119,7 @@ pub struct CensusArgs {
         allow_hyphen_values = true
     )]
     pub step: String,
-    /// Highest energy counted.
+    /// Highest energy counted, in --unit.
     #[arg(long, value_name = "E", allow_hyphen_values = true)]
     pub up_to: String,
     /// Another degree of freedom (free or hindered internal rotor, low
