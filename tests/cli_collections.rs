@@ -26,8 +26,6 @@ fn einstein_solid_json_holds_exact_counts() {
         "300",
         "--up-to",
         "300",
-        "--compare",
-        "0",
         "--format",
         "json",
     ]);
@@ -44,7 +42,37 @@ fn einstein_solid_json_holds_exact_counts() {
         (ln / std::f64::consts::LN_10).floor() as usize + 1
     );
     assert_eq!(rows[2]["omega"], "45150"); // C(301, 2)
-    assert_eq!(v["statistics"], "distinct");
+    assert_eq!(rows[2]["quanta"], 2);
+    assert_eq!(v["oscillators"], 300);
+    // Every column is a count or a pure number: an empty units block.
+    assert_eq!(v["units"], serde_json::json!({}));
+    // q = 0: βħω = ψ(300) − ψ(1) = H_299 = 6.2793305... (the harmonic
+    // number, from the exact sum evaluated here in f64).
+    let h: f64 = (1..300).map(|k| 1.0 / k as f64).sum();
+    let beta: f64 = rows[0]["beta_hw"].as_str().unwrap().parse().unwrap();
+    assert!((beta / h - 1.0).abs() < 1e-9, "{beta} against {h}");
+    // The canonical comparison is on every row, so --compare is refused;
+    // so are bad counts and digits.
+    for (flag, value, needle) in [
+        ("--compare", "2", "--compare"),
+        ("--up-to", "-1", "--up-to -1"),
+        ("--digits", "0", "digits 0"),
+        ("--particles", "0", "--particles"),
+    ] {
+        let mut args = vec![
+            "microstates",
+            "--einstein",
+            "--particles",
+            "3",
+            "--up-to",
+            "3",
+        ];
+        match args.iter().position(|a| *a == flag) {
+            Some(i) => args[i + 1] = value,
+            None => args.extend([flag, value]),
+        }
+        refused(&args, needle);
+    }
 }
 
 #[test]
@@ -289,42 +317,120 @@ fn bad_input_exits_2_and_writes_nothing() {
 }
 
 #[test]
-fn vibsum_extras_and_the_whitten_rabinovitch_map() {
+fn census_convolution_and_the_error_map() {
     // Modes 300 and 700 cm-1 with the demo free rotor (B = 5.5 cm-1): up to
-    // 20 cm-1 only m = 0, ±1 (at 5.5 → bin 6) fit, so the sum there is 3.
+    // 20 cm-1 only m = 0, ±1 (at 5.5 → step 6) fit, so the sum there is 3.
     let rotor = example("free_rotor.levels");
     let v = json(&[
-        "vibsum", "--modes", "300,700", "--up-to", "1000", "--extra", &rotor, "--format", "json",
+        "census",
+        "--modes",
+        "300,700",
+        "--up-to",
+        "1000",
+        "--convolve",
+        &rotor,
+        "--format",
+        "json",
     ]);
     let rows = v["rows"].as_array().unwrap();
     assert_eq!(rows[1]["energy"], "6");
-    assert_eq!(rows[1]["sum"], "3");
-    assert_eq!(v["extras"].as_array().unwrap().len(), 1);
+    assert_eq!(rows[1]["sum_of_states"], "3");
+    assert_eq!(rows[1]["in_step"], "2");
+    assert_eq!(v["convolved"].as_array().unwrap().len(), 1);
+    // Convolving the rotor twice is two independent rotors: m1² + m2² ≤ 4
+    // (in units of B) has 13 integer points, so 13 states up to 22 cm-1
+    // (4 B = 22), none from the modes.
     let v = json(&[
-        "vibsum", "--modes", "1000x3", "--up-to", "30000", "--wr", "10", "--format", "json",
+        "census",
+        "--modes",
+        "300,700",
+        "--up-to",
+        "22",
+        "--convolve",
+        &rotor,
+        "--convolve",
+        &rotor,
+        "--format",
+        "json",
     ]);
     let rows = v["rows"].as_array().unwrap();
+    assert_eq!(rows.last().unwrap()["energy"], "22");
+    assert_eq!(rows.last().unwrap()["sum_of_states"], "13");
+    // Three modes of 1000 cm-1 up to 30 000 cm-1 at 10 energies, with
+    // `more` options.
+    let map = |more: &[&str]| {
+        let mut args = vec![
+            "census",
+            "--modes",
+            "1000x3",
+            "--up-to",
+            "30000",
+            "--error-map",
+            "10",
+            "--format",
+            "json",
+        ];
+        args.extend(more);
+        json(&args)
+    };
+    let v = map(&[]);
+    let rows = v["rows"].as_array().unwrap();
     assert_eq!(rows.len(), 10);
-    // Three identical modes: the exact sum at E = 3000 k is C(k + 3, 3)
+    assert_eq!(v["units"]["density_exact"], "1/cm-1");
+    assert_eq!(v["digits"], 6);
+    // Three identical modes: the exact sum at E = 1000 k is C(k + 3, 3)
     // (standard result); the sampled energies are multiples of 2950.
     let e: u64 = rows[9]["energy"].as_str().unwrap().parse().unwrap();
     let k = e / 1000;
     let want = (k + 1) * (k + 2) * (k + 3) / 6;
     assert_eq!(rows[9]["sum_exact"].as_str().unwrap(), want.to_string());
-    refused(
-        &["vibsum", "--modes", "1000", "--up-to", "3000", "--wr", "0"],
-        "at least one energy",
+    // E/E_z = 29500/1500 = 19.67: beyond the formulas' range.
+    assert_eq!(rows[9]["e_over_ez"], "19.67");
+    assert_eq!(rows[9]["extrapolated"], true);
+    // --digits sets the approximation's digits: 3 significant digits.
+    let v = map(&["--digits", "3"]);
+    let approx = v["rows"][9]["sum_approx"].as_str().unwrap();
+    assert_eq!(
+        approx
+            .replace(['.', '-'], "")
+            .split('e')
+            .next()
+            .unwrap()
+            .len(),
+        3,
+        "{approx}"
     );
-    refused(
-        &[
-            "vibsum",
-            "--modes",
-            "1000",
-            "--up-to",
-            "3000",
-            "--extra",
-            "/nonexistent.levels",
-        ],
-        "nonexistent",
-    );
+    for (extra, needle) in [
+        (vec!["--error-map", "0"], "--error-map 0"),
+        (vec!["--error-map", "5000"], "at most 2500"),
+        (vec!["--error-map", "5", "--digits", "0"], "--digits 0"),
+        (
+            vec!["--error-map", "5", "--digits", "13"],
+            "between 1 and 12",
+        ),
+        (vec!["--digits", "4"], "--error-map"),
+        (vec!["--convolve", "/nonexistent.levels"], "nonexistent"),
+    ] {
+        let mut args = vec!["census", "--modes", "1000", "--up-to", "3000"];
+        args.extend(extra);
+        refused(&args, needle);
+    }
+    refused(&["census", "--modes", "", "--up-to", "3000"], "--modes");
+    refused(&["census", "--modes", "1000", "--up-to", "-5"], "cutoff -5");
+    // Nothing is written where a census is refused.
+    let dir = tempfile::tempdir().unwrap();
+    let target = dir.path().join("census.json");
+    let out = run(&[
+        "census",
+        "--modes",
+        "1000",
+        "--up-to",
+        "3000",
+        "--step",
+        "0",
+        "-o",
+        target.to_str().unwrap(),
+    ]);
+    assert_eq!(out.status.code(), Some(2));
+    assert!(std::fs::read_dir(dir.path()).unwrap().next().is_none());
 }

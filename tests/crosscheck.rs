@@ -48,21 +48,17 @@ fn zsum_agrees_with_the_mpmath_oracle_to_30_digits() {
     println!("{stdout}");
 }
 
-#[test]
-fn ensemble_agrees_with_an_mpmath_recursion_to_20_digits() {
-    // tests/crosscheck/ensemble_oracle.py: bosons and fermions (N = 10, 50)
-    // in an isotropic 3D harmonic trap, Q_N by the cycle recursion in mpmath
-    // at 80 digits; zsum's 20 printed digits must be correctly rounded.
-    if !common::mpmath_available("ensemble_agrees_with_an_mpmath_recursion_to_20_digits") {
-        return;
-    }
+/// Runs `tests/crosscheck/<script>` on the zsum binary with `args` (paths
+/// relative to the crate), requires it to succeed and to print `passes`
+/// PASS lines.
+fn oracle_passes(script: &str, args: &[&str], passes: usize) {
     let dir = Path::new(env!("CARGO_MANIFEST_DIR"));
     let out = Command::new("python3")
-        .arg(dir.join("tests/crosscheck/ensemble_oracle.py"))
+        .arg(dir.join("tests/crosscheck").join(script))
         .arg(env!("CARGO_BIN_EXE_zsum"))
-        .arg(dir.join("examples/systems/atom_trap.toml"))
+        .args(args.iter().map(|a| dir.join(a)))
         .output()
-        .expect("failed to start python3 on tests/crosscheck/ensemble_oracle.py");
+        .unwrap_or_else(|e| panic!("failed to start python3 on tests/crosscheck/{script}: {e}"));
     let stdout = String::from_utf8_lossy(&out.stdout);
     assert!(
         out.status.success(),
@@ -71,7 +67,34 @@ fn ensemble_agrees_with_an_mpmath_recursion_to_20_digits() {
     );
     assert_eq!(
         stdout.lines().filter(|l| l.starts_with("PASS")).count(),
-        12,
+        passes,
         "{stdout}"
     );
+}
+
+#[test]
+fn ensemble_agrees_with_an_mpmath_recursion_to_20_digits() {
+    // tests/crosscheck/ensemble_oracle.py: bosons and fermions (N = 10, 50)
+    // in an isotropic 3D harmonic trap, Q_N by the cycle recursion in mpmath
+    // at 80 digits; zsum's 20 printed digits must be correctly rounded.
+    if !common::mpmath_available("ensemble_agrees_with_an_mpmath_recursion_to_20_digits") {
+        return;
+    }
+    oracle_passes(
+        "ensemble_oracle.py",
+        &["examples/systems/atom_trap.toml"],
+        12,
+    );
+}
+
+#[test]
+fn einstein_table_agrees_with_mpmath_digamma_to_20_digits() {
+    // tests/crosscheck/einstein_oracle.py: Ω by Python's exact math.comb,
+    // ψ(q + N) − ψ(q + 1) by mpmath's digamma at 50 digits, and the
+    // canonical U and S from the occupation form; every row of five tables
+    // (N = 2 to 1000) must carry zsum's 20 digits correctly rounded.
+    if !common::mpmath_available("einstein_table_agrees_with_mpmath_digamma_to_20_digits") {
+        return;
+    }
+    oracle_passes("einstein_oracle.py", &[], 5);
 }

@@ -1,5 +1,7 @@
-//! Exact vibrational state counts and Einstein-solid microstates against
-//! binomial coefficients (Pascal's triangle, computed here) and brute force.
+//! Exact vibrational state counts (the census) and Einstein-solid
+//! microstates against binomial coefficients (Pascal's triangle, computed
+//! here) and brute force; the Einstein table's temperature against the exact
+//! harmonic sum, Stirling's form and the central difference.
 
 use num_bigint::BigUint;
 use zsum::exact::parse_rational;
@@ -79,7 +81,7 @@ fn mixed_modes_match_brute_force() {
         }
     }
     go(0, 0, &freqs, cutoff, &mut brute);
-    // Frequencies in cm-1 on a 0.5 cm-1 grain: 1.5, 2.5 x2, 3.5, 5.5.
+    // Frequencies in cm-1 on a 0.5 cm-1 step: 1.5, 2.5 x2, 3.5, 5.5.
     let counts = beyer_swinehart(
         &parse_modes("1.5,2.5x2,3.5,5.5").unwrap(),
         &r("0.5"),
@@ -105,7 +107,7 @@ fn mixed_modes_match_brute_force() {
 fn bad_input_is_refused() {
     let m = parse_modes("1000").unwrap();
     let e = beyer_swinehart(&m, &r("0"), &r("10"), &Budget::default()).unwrap_err();
-    assert!(e.to_string().contains("grain"), "{e}");
+    assert!(e.to_string().contains("energy step 0"), "{e}");
     let e = beyer_swinehart(
         &parse_modes("0.2").unwrap(),
         &r("1"),
@@ -113,7 +115,7 @@ fn bad_input_is_refused() {
         &Budget::default(),
     )
     .unwrap_err();
-    assert!(e.to_string().contains("rounds to 0 grains"), "{e}");
+    assert!(e.to_string().contains("rounds to 0 steps"), "{e}");
     let e = beyer_swinehart(&m, &r("1"), &r("1e9"), &Budget::bytes(1 << 20)).unwrap_err();
     assert!(e.to_string().contains("memory budget"), "{e}");
     assert!(parse_modes("1000,x2").is_err());
@@ -121,11 +123,12 @@ fn bad_input_is_refused() {
     assert!(parse_modes("-5").is_err());
 }
 
-/// `zsum vibsum`: with modes 1000, 1500 (x2), 3000 cm-1 the bin at 3000 holds
-/// 5 states (3 quanta of 1000; 2 quanta shared by the 1500 pair in 3 ways;
-/// one of 3000), counted by hand.
+/// `zsum census`: with modes 1000, 1500 (x2), 3000 cm-1 the step at 3000
+/// holds 5 states (3 quanta of 1000; 2 quanta shared by the 1500 pair in 3
+/// ways; one of 3000), 12 states lie at or below it, counted by hand; the
+/// JSON names the units of its columns.
 #[test]
-fn vibsum_cli_counts_and_refuses() {
+fn census_cli_counts_and_refuses() {
     let run = |args: &[&str]| {
         std::process::Command::new(env!("CARGO_BIN_EXE_zsum"))
             .args(args)
@@ -133,12 +136,12 @@ fn vibsum_cli_counts_and_refuses() {
             .unwrap()
     };
     let out = run(&[
-        "vibsum",
+        "census",
         "--modes",
         "1000,1500x2,3000",
         "--unit",
         "cm-1",
-        "--grain",
+        "--step",
         "1",
         "--up-to",
         "3000",
@@ -149,16 +152,53 @@ fn vibsum_cli_counts_and_refuses() {
     let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
     let last = v["rows"].as_array().unwrap().last().unwrap().clone();
     assert_eq!(last["energy"], "3000");
-    assert_eq!(last["count"], "5");
-    assert_eq!(last["sum"], "12");
-    let bad = run(&["vibsum", "--modes", "1000", "--grain", "0", "--up-to", "10"]);
-    assert_eq!(bad.status.code(), Some(2));
-    assert!(String::from_utf8_lossy(&bad.stderr).contains("grain 0"));
+    assert_eq!(last["in_step"], "5");
+    assert_eq!(last["density"], "5");
+    assert_eq!(last["sum_of_states"], "12");
+    // log10 12 = 1.07918 (from memory: log10 2 = 0.30103, log10 3 = 0.47712).
+    assert_eq!(last["log10_sum"], "1.0792");
+    assert_eq!(v["units"]["energy"], "cm-1");
+    assert_eq!(v["units"]["density"], "1/cm-1");
+    assert_eq!(v["modes"][1]["frequency"], "1500");
+    assert_eq!(v["modes"][1]["degeneracy"], 2);
+    // A step of 2 cm-1 halves the density of the same 5 states.
+    let out = run(&[
+        "census",
+        "--modes",
+        "1000,1500x2,3000",
+        "--step",
+        "2",
+        "--up-to",
+        "3000",
+        "--format",
+        "json",
+    ]);
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(
+        v["rows"].as_array().unwrap().last().unwrap()["density"],
+        "2.5"
+    );
+    for (args, needle) in [
+        (vec!["--step", "0"], "energy step 0"),
+        (vec!["--step", "-1"], "energy step -1"),
+        (vec!["--step", "x"], "--step"),
+    ] {
+        let mut all = vec!["census", "--modes", "1000", "--up-to", "10"];
+        all.extend(args);
+        let bad = run(&all);
+        assert_eq!(bad.status.code(), Some(2));
+        assert!(bad.stdout.is_empty());
+        assert!(
+            String::from_utf8_lossy(&bad.stderr).contains(needle),
+            "{}",
+            String::from_utf8_lossy(&bad.stderr)
+        );
+    }
 }
 
-/// Stein–Rabinovitch against brute force: modes of 3 and 5 grains and an
+/// Stein–Rabinovitch against brute force: modes of 3 and 5 steps and an
 /// extra degree of freedom with levels at 0 (1 state), 2 (3) and 7 (2)
-/// grains; every combination (n1, n2, level) is enumerated.
+/// steps; every combination (n1, n2, level) is enumerated.
 #[test]
 fn stein_rabinovitch_matches_brute_force() {
     use zsum::level::{Level, LevelList};
@@ -196,7 +236,7 @@ fn stein_rabinovitch_matches_brute_force() {
     assert_eq!(got, brute);
 }
 
-/// A free internal rotor (E = B m², B = 1 grain, m = 0, ±1, ...) convolved
+/// A free internal rotor (E = B m², B = 1 step, m = 0, ±1, ...) convolved
 /// with a mode far above the cutoff: the sum of states up to E is the number
 /// of integers m with m² ≤ E, 2⌊√E⌋ + 1.
 #[test]
@@ -240,7 +280,7 @@ fn free_rotor_extra_counts_integer_points() {
 /// known behaviour, from memory).
 #[test]
 fn whitten_rabinovitch_is_consistent_and_close_above_half_the_zero_point() {
-    use zsum::microstates::{whitten_rabinovitch, WrReport};
+    use zsum::microstates::{whitten_rabinovitch, CensusErrorMap};
     let freqs: Vec<f64> = [
         3400.0, 3000.0, 3000.0, 1600.0, 1500.0, 1500.0, 1100.0, 1000.0, 1000.0, 900.0, 800.0,
         800.0, 400.0, 400.0, 400.0,
@@ -263,20 +303,199 @@ fn whitten_rabinovitch_is_consistent_and_close_above_half_the_zero_point() {
         &Budget::default(),
     )
     .unwrap();
-    let rep = WrReport::new(&c, "cm-1", 20).unwrap();
+    let rep = CensusErrorMap::new(&c, "cm-1", 20, 6).unwrap();
     let mut far = 0;
     for row in &rep.rows {
-        let ep: f64 = row.reduced.parse().unwrap();
-        let err: f64 = row.sum_error.parse().unwrap();
+        let ep: f64 = row.e_over_ez.parse().unwrap();
+        assert_eq!(row.extrapolated, !(0.1..=8.0).contains(&ep));
+        let err: f64 = row.sum_rel_error.parse().unwrap();
         if ep >= 0.5 {
             assert!(err.abs() < 0.06, "E' = {ep}: {err}");
             if ep >= 4.0 {
                 assert!(err.abs() < 0.015, "E' = {ep}: {err}");
                 far += 1;
             }
-            let derr: f64 = row.density_error.parse().unwrap();
+            let derr: f64 = row.density_rel_error.parse().unwrap();
             assert!(derr.abs() < 0.06, "E' = {ep}: density {derr}");
         }
     }
     assert!(far >= 5);
+}
+
+/// The census's log10 N(E) column: exact at powers of ten (one mode of one
+/// step has N(E) = E + 1 states up to E), and for C(2040, 40) states (forty
+/// modes of one step up to 2000: C(E + 40, 40), standard result) equal to
+/// Σ log10((2000 + i)/i), i = 1..40, summed here in f64 (error about 1e-13,
+/// far below the fourth decimal; the check asserts the value is not within
+/// 1e-9 of a rounding boundary).
+#[test]
+fn census_log10_column_is_correctly_rounded() {
+    use zsum::microstates::CensusReport;
+    let rows = |modes: &str, up_to: &str| {
+        let c = beyer_swinehart(
+            &parse_modes(modes).unwrap(),
+            &r("1"),
+            &r(up_to),
+            &Budget::default(),
+        )
+        .unwrap();
+        CensusReport::new(&c, "cm-1", &Budget::default())
+            .unwrap()
+            .rows
+    };
+    let one = rows("1", "999");
+    assert_eq!(one[0].log10_sum, "0.0000");
+    assert_eq!(one[1].log10_sum, "0.3010"); // log10 2 = 0.30103 (from memory)
+    assert_eq!(one[9].log10_sum, "1.0000");
+    assert_eq!(one[99].log10_sum, "2.0000");
+    assert_eq!(one[999].log10_sum, "3.0000");
+    let forty = rows("1x40", "2000");
+    let want: f64 = (1..=40)
+        .map(|i| ((2000 + i) as f64 / i as f64).log10())
+        .sum();
+    let scaled = want * 1e4;
+    assert!((scaled.fract() - 0.5).abs() > 1e-9);
+    assert_eq!(
+        forty.last().unwrap().log10_sum,
+        format!("{:.4}", (scaled.round()) / 1e4)
+    );
+}
+
+/// Σ_{k=q+1}^{q+N−1} 1/k, exactly: ψ(q + N) − ψ(q + 1) for whole q, since
+/// ψ(n + 1) = H_n − γ (standard result). Independent of the digamma
+/// function the report uses.
+fn harmonic_difference(n: u64, q: u64) -> num_rational::BigRational {
+    (q + 1..q + n).fold(num_rational::BigRational::from_integer(0.into()), |a, k| {
+        a + num_rational::BigRational::new(1.into(), k.into())
+    })
+}
+
+/// The Einstein table: Ω against Pascal's triangle, S/k = ln Ω against
+/// Σ ln((q + i)/i) in f64 (relative error about 1e-15, far below the 10th
+/// digit), and βħω = ψ(q + N) − ψ(q + 1) and kT/ħω digit for digit against
+/// the exact harmonic sum above, correctly rounded by `format_sig`.
+#[test]
+fn einstein_temperature_is_the_exact_harmonic_difference() {
+    use zsum::exact::format_sig;
+    use zsum::microstates::EinsteinReport;
+    let c = pascal(620);
+    for n in [2u64, 3, 7, 50, 300] {
+        for digits in [10u32, 25] {
+            let rep = EinsteinReport::build(n, &r("300"), digits, &Budget::default()).unwrap();
+            assert_eq!(rep.rows.len(), 301);
+            for q in [0u64, 1, 2, 17, 150, 299, 300] {
+                let row = &rep.rows[q as usize];
+                assert_eq!(row.quanta, q);
+                assert_eq!(row.omega, c[(q + n - 1) as usize][q as usize].to_string());
+                let h = harmonic_difference(n, q);
+                assert_eq!(row.beta_hw, format_sig(&h, digits), "N = {n}, q = {q}");
+                assert_eq!(row.kt_over_hw, format_sig(&h.recip(), digits));
+                let ln_omega: f64 = (1..n).map(|i| ((q + i) as f64 / i as f64).ln()).sum();
+                let s: f64 = row.s_over_k.parse().unwrap();
+                assert!(
+                    (s - ln_omega).abs() <= 1e-9 * ln_omega.max(1.0),
+                    "N = {n}, q = {q}: {s} against {ln_omega}"
+                );
+            }
+        }
+    }
+}
+
+/// Values exactly halfway between two roundings (βħω = 1/4 and 1/8 for two
+/// oscillators at q = 3 and 7, to one digit) are settled from the exact sum,
+/// half to even; one oscillator has a flat ln Ω and an infinite temperature.
+#[test]
+fn einstein_table_settles_halfway_values_and_one_oscillator() {
+    use zsum::microstates::EinsteinReport;
+    let rep = EinsteinReport::build(2, &r("7"), 1, &Budget::default()).unwrap();
+    assert_eq!(rep.rows[3].beta_hw, "0.2");
+    assert_eq!(rep.rows[3].kt_over_hw, "4");
+    assert_eq!(rep.rows[7].beta_hw, "0.1");
+    assert_eq!(rep.rows[7].kt_over_hw, "8");
+    let one = EinsteinReport::build(1, &r("5"), 10, &Budget::default()).unwrap();
+    assert!(one
+        .rows
+        .iter()
+        .all(|r| r.omega == "1" && r.beta_hw == "0" && r.kt_over_hw == "inf"));
+    for bad in ["-1", "1e30"] {
+        assert!(EinsteinReport::build(3, &r(bad), 10, &Budget::default()).is_err());
+    }
+    assert!(EinsteinReport::build(3, &r("5"), 0, &Budget::default()).is_err());
+    assert!(EinsteinReport::build(0, &r("5"), 10, &Budget::default()).is_err());
+}
+
+/// For many oscillators and quanta the exact derivative approaches
+/// Stirling's ln((q + N)/q): ψ(z) = ln(z − ½) + O(z⁻²) (standard asymptotic
+/// series, from memory) puts it at ln((q + N − ½)/(q + ½)), within 1/q of
+/// Stirling's. The central difference ½[ln Ω(q + 1) − ln Ω(q − 1)] of the
+/// exact count exceeds it by f‴/6 + f⁽⁵⁾/120 + ..., f = ln Γ(q + N) −
+/// ln Γ(q + 1), every term positive; to leading order
+/// f‴/6 ≈ (1/(q + 1)² − 1/(q + N)²)/6 (from −ψ″(z) = 1/z² + 1/z³ + ...),
+/// the neglected terms smaller by O(1/q) (about 1% at q = 100), so the gap
+/// agrees with that O(1/q²) estimate to within 2%.
+#[test]
+fn einstein_temperature_approaches_stirling_and_the_central_difference() {
+    use zsum::microstates::EinsteinReport;
+    let n = 1000u64;
+    let rep = EinsteinReport::build(n, &r("1001"), 15, &Budget::default()).unwrap();
+    let nf = n as f64;
+    for q in [100u64, 500, 1000] {
+        let x: f64 = rep.rows[q as usize].beta_hw.parse().unwrap();
+        let qf = q as f64;
+        assert!(((qf + nf) / qf).ln() - x > 0.0);
+        assert!(((qf + nf) / qf).ln() - x < 1.0 / qf, "q = {q}");
+        let central = 0.5 * ((qf + nf) * (qf + nf - 1.0) / (qf * (qf + 1.0))).ln();
+        let leading = (1.0 / (qf + 1.0).powi(2) - 1.0 / (qf + nf).powi(2)) / 6.0;
+        let gap = central - x;
+        assert!(gap > 0.0, "q = {q}");
+        assert!(
+            (gap / leading - 1.0).abs() < 0.02,
+            "q = {q}: {gap} against {leading}"
+        );
+    }
+}
+
+/// The canonical ensemble at the continuum temperature βħω = ln(1 + N/q)
+/// (the derivative of Stirling's ln Ω) holds exactly q quanta, N/(e^x − 1)
+/// = q, and its entropy is Stirling's ln Ω, N[(1 + n) ln(1 + n) − n ln n]
+/// with n = q/N (standard results). x is ln(1 + N/q) rounded at 300 bits,
+/// which moves U by about U·2⁻³⁰⁰, so all 10 certified digits of U read q;
+/// S is compared with the f64 closed form to 1e-9 relative (the 10th digit;
+/// f64 errs by about 1e-15). At the exact temperature ψ(q + N) − ψ(q + 1)
+/// the canonical U is instead N(q + ½)/(N − 1) to within the O(z⁻²) term of
+/// ψ's series: x moves by about 1/(24(q + ½)²), and U relatively by that
+/// times e^x/(e^x − 1) ≤ (q + N + 1)/(N − 1); the tolerance is half as much
+/// again, for the higher terms of the series.
+#[test]
+fn einstein_canonical_holds_q_quanta_at_the_continuum_temperature() {
+    use rug::Float;
+    use zsum::microstates::{einstein_canonical, EinsteinReport};
+    for (n, q) in [(300u64, 1000u64), (1000, 200), (2, 5)] {
+        let (nf, qf) = (n as f64, q as f64);
+        let x = Float::with_val(300, Float::with_val(300, n) / q).ln_1p();
+        let c = einstein_canonical(n, &x, 10).unwrap();
+        assert_eq!(
+            c.u_over_hw,
+            zsum::exact::format_sig(&r(&q.to_string()), 10),
+            "N = {n}, q = {q}"
+        );
+        let occ = qf / nf;
+        let stirling = nf * ((1.0 + occ) * (1.0 + occ).ln() - occ * occ.ln());
+        let s: f64 = c.s_over_k.parse().unwrap();
+        assert!((s / stirling - 1.0).abs() < 1e-9, "{s} against {stirling}");
+    }
+    let n = 1000u64;
+    let rep = EinsteinReport::build(n, &r("1000"), 12, &Budget::default()).unwrap();
+    let nf = n as f64;
+    for q in [200u64, 1000] {
+        let qf = q as f64;
+        let u: f64 = rep.rows[q as usize].canonical_u_over_hw.parse().unwrap();
+        let want = nf * (qf + 0.5) / (nf - 1.0);
+        let tol = 1.5 / (24.0 * (qf + 0.5).powi(2)) * (qf + nf + 1.0) / (nf - 1.0);
+        assert!((u / want - 1.0).abs() < tol, "q = {q}: {u} against {want}");
+    }
+    assert!(einstein_canonical(3, &Float::with_val(64, 0), 10).is_err());
+    // e^x beyond MPFR's exponent range: refused, not a panic or a hang.
+    assert!(einstein_canonical(3, &Float::with_val(64, 1e30), 10).is_err());
+    assert!(einstein_canonical(0, &Float::with_val(64, 1), 10).is_err());
 }

@@ -74,9 +74,11 @@ pub enum Command {
         #[command(flatten)]
         opts: CompareArgs,
     },
-    /// Exact sums and densities of vibrational states of harmonic modes
-    /// (Beyer–Swinehart) on an energy grain.
-    Vibsum(VibsumArgs),
+    /// A census of the vibrational states of harmonic modes: the exact sum
+    /// and density of states at every energy up to a cutoff
+    /// (Beyer–Swinehart), other degrees of freedom convolved in, or the
+    /// error map of the Whitten–Rabinovitch approximation.
+    Census(CensusArgs),
     /// Exact microstate counts Ω(E, N) of N particles (labelled, bosons or
     /// fermions) in one spectrum for every total energy up to a cutoff, with
     /// S = k ln Ω, the microcanonical temperature and the canonical
@@ -1012,9 +1014,10 @@ pub struct MicrostatesArgs {
     /// A system file (TOML) giving the single-particle spectrum.
     #[arg(long, value_name = "FILE", required_unless_present = "einstein")]
     pub system: Option<PathBuf>,
-    /// An Einstein solid instead: N labelled oscillators, energies in
-    /// quanta ħω (--up-to is the number of quanta).
-    #[arg(long, conflicts_with_all = ["system", "stats", "grid"])]
+    /// An Einstein solid instead: N labelled oscillators (--particles)
+    /// sharing q = 0 up to --up-to quanta ħω, with the temperature from the
+    /// exact derivative of ln Ω and the canonical comparison on every row.
+    #[arg(long, conflicts_with_all = ["system", "stats", "grid", "compare"])]
     pub einstein: bool,
     /// Number of particles (1 to 1000).
     #[arg(long, value_name = "N")]
@@ -1029,7 +1032,8 @@ pub struct MicrostatesArgs {
     /// number of steps); default: the levels' common divisor.
     #[arg(long, value_name = "STEP", allow_hyphen_values = true)]
     pub grid: Option<String>,
-    /// Number of energies at which to compare with the canonical ensemble.
+    /// Number of energies at which to compare with the canonical ensemble
+    /// (--einstein compares on every row).
     #[arg(long, value_name = "K", default_value_t = 8)]
     pub compare: usize,
     /// Significant digits of S/k, kT and the canonical values, each
@@ -1089,36 +1093,45 @@ pub struct EnsembleArgs {
     pub out: Output,
 }
 
-/// `zsum vibsum`.
+/// `zsum census`.
 #[derive(Debug, Args)]
-pub struct VibsumArgs {
+pub struct CensusArgs {
     /// Frequencies, comma-separated, each optionally xN for N degenerate
     /// modes, e.g. 1000,1500x2,3000.
     #[arg(long, value_name = "LIST")]
     pub modes: String,
-    /// Unit of the frequencies, grain and cutoff (a name for the output).
+    /// Unit of the frequencies, the step and the cutoff (a name for the
+    /// output).
     #[arg(long, value_name = "UNIT", default_value = "cm-1")]
     pub unit: String,
-    /// The energy grain.
+    /// The energy step of the census: every frequency (and every level
+    /// given with --convolve) is rounded to a whole number of steps, and the
+    /// rounded values are reported.
     #[arg(
         long,
-        value_name = "G",
+        value_name = "STEP",
         default_value = "1",
         allow_hyphen_values = true
     )]
-    pub grain: String,
-    /// Highest energy counted.
+    pub step: String,
+    /// Highest energy counted, in --unit.
     #[arg(long, value_name = "E", allow_hyphen_values = true)]
     pub up_to: String,
-    /// An extra degree of freedom (free or hindered internal rotor, low
+    /// Another degree of freedom (free or hindered internal rotor, low
     /// electronic levels) as a level file or a system file (.toml),
     /// convolved in by Stein–Rabinovitch; repeat for more.
     #[arg(long, value_name = "FILE")]
-    pub extra: Vec<PathBuf>,
-    /// Instead of the per-grain table, the Whitten–Rabinovitch error map
-    /// of the harmonic modes at this many energies up to the cutoff.
-    #[arg(long, value_name = "POINTS", conflicts_with = "extra")]
-    pub wr: Option<usize>,
+    pub convolve: Vec<PathBuf>,
+    /// Instead of the census, the error map of the Whitten–Rabinovitch
+    /// approximation against the exact count of the modes, at this many
+    /// energies spread up to the cutoff.
+    #[arg(long, value_name = "POINTS", conflicts_with = "convolve")]
+    pub error_map: Option<usize>,
+    /// With --error-map: significant digits of the approximation's values
+    /// and of the exact density (1 to 12). The approximation's values are
+    /// floating-point evaluations, not certified.
+    #[arg(long, value_name = "N", default_value_t = zsum::report::APPROX_DIGITS, requires = "error_map")]
+    pub digits: u32,
     /// Refuse grids estimated to need more memory than this.
     #[arg(long, value_name = "SIZE", default_value = "2GiB")]
     pub memory_budget: String,

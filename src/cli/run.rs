@@ -1,12 +1,12 @@
 //! Validates raw arguments into library objects, runs the library, renders.
 
 use super::args::{
-    BasisArg, BoxCount, BoxLevels, BoxPhysical, BoxShape, ClassicalModel, Cli, Command,
+    BasisArg, BoxCount, BoxLevels, BoxPhysical, BoxShape, CensusArgs, ClassicalModel, Cli, Command,
     CompareArgs, CountModel, CrossoverArgs, DiatomicLevels, DiatomicModel, EnsembleArgs,
     FileLevels, FileModel, FormatArg, HydrogenArgs, LevelsModel, ListArgs, MicrostatesArgs,
     OnlyArg, OscillatorLevels, OscillatorModel, Output, PerArg, RotorLevels, RotorModel,
     SpeciesCommand, SpeciesThermo, SpinArgs, SystemLevels, SystemThermo, TempArgs, ThermoModel,
-    TopLevels, TopModel, VibsumArgs, ZeemanLevels, ZeemanModel,
+    TopLevels, TopModel, ZeemanLevels, ZeemanModel,
 };
 use num_rational::BigRational;
 use num_traits::Zero;
@@ -52,7 +52,7 @@ pub fn run(cli: Cli) -> Result<Option<String>> {
         Command::Crossover { model, opts } => crossover(model, opts),
         Command::Species { command } => species(command),
         Command::Hydrogen(a) => hydrogen(a),
-        Command::Vibsum(a) => vibsum(a),
+        Command::Census(a) => census(a),
         Command::Microstates(a) => microstates_cmd(a),
         Command::Ensemble(a) => ensemble_cmd(a),
         Command::Report { out } => {
@@ -801,22 +801,22 @@ fn hydrogen(a: HydrogenArgs) -> Result<Option<String>> {
 }
 
 fn microstates_cmd(a: MicrostatesArgs) -> Result<Option<String>> {
-    use zsum::microstates::{microstates, MicroReport, Statistics};
-    let spectrum: Box<dyn Spectrum> = match &a.system {
-        Some(path) if !a.einstein => Box::new(System::read(path)?.product),
-        _ => Box::new(HarmonicModes::one_d(
-            BigRational::from_integer(1.into()),
-            false,
-            EnergyUnit::Natural {
+    use zsum::microstates::{microstates, EinsteinReport, MicroReport, Statistics};
+    let digits = check_digits(a.digits)?;
+    let budget = parse_budget(&a.memory_budget)?;
+    let (path, stats) = match (&a.system, &a.stats) {
+        (Some(path), Some(stats)) if !a.einstein => (path, Statistics::parse(stats)?),
+        _ => {
+            let quanta = EnergyUnit::Natural {
                 symbol: "ħω".into(),
                 joules: None,
-            },
-        )?),
+            };
+            let up_to = cutoff_in(&a.up_to, &quanta)?;
+            let report = EinsteinReport::build(a.particles, &up_to, digits, &budget)?;
+            return emit(render(&report, format(a.out.format))?, &a.out);
+        }
     };
-    let stats = match &a.stats {
-        Some(s) if !a.einstein => Statistics::parse(s)?,
-        _ => Statistics::Distinct,
-    };
+    let spectrum = System::read(path)?.product;
     let unit = spectrum.unit();
     let up_to = cutoff_in(&a.up_to, &unit)?;
     let step = a
@@ -824,33 +824,16 @@ fn microstates_cmd(a: MicrostatesArgs) -> Result<Option<String>> {
         .as_deref()
         .map(|g| cutoff_in(g, &unit).map_err(|_| Error::parse("--grid", g, "an energy step")))
         .transpose()?;
-    let digits = check_digits(a.digits)?;
-    let budget = parse_budget(&a.memory_budget)?;
-    let omega = if a.einstein {
-        let quanta = up_to.floor().to_integer();
-        let quanta = u64::try_from(&quanta).map_err(|_| {
-            Error::invalid(
-                "--up-to",
-                &a.up_to,
-                "an Einstein solid needs a number of quanta of zero or more",
-            )
-        })?;
-        zsum::microstates::einstein_omega(a.particles, quanta, unit.clone(), &budget)?
-    } else {
-        microstates(
-            &*spectrum,
-            a.particles,
-            stats,
-            &up_to,
-            step.as_ref(),
-            &budget,
-        )?
-    };
-    let cached = zsum::sum::Cached::new(&*spectrum);
-    let mut report = MicroReport::build(&cached, &omega, &up_to, a.compare, digits)?;
-    if a.einstein {
-        report.system = "an Einstein solid (labelled oscillators, energies in quanta ħω)".into();
-    }
+    let omega = microstates(
+        &spectrum,
+        a.particles,
+        stats,
+        &up_to,
+        step.as_ref(),
+        &budget,
+    )?;
+    let cached = zsum::sum::Cached::new(&spectrum);
+    let report = MicroReport::build(&cached, &omega, &up_to, a.compare, digits)?;
     emit(render(&report, format(a.out.format))?, &a.out)
 }
 
@@ -885,37 +868,31 @@ fn ensemble_cmd(a: EnsembleArgs) -> Result<Option<String>> {
     emit(render(&report, format(a.out.format))?, &a.out)
 }
 
-fn vibsum(a: VibsumArgs) -> Result<Option<String>> {
-    use zsum::microstates::{beyer_swinehart, parse_modes, stein_rabinovitch};
-    use zsum::microstates::{VibsumReport, WrReport};
-    let vib_unit = EnergyUnit::parse(&a.unit)?;
+fn census(a: CensusArgs) -> Result<Option<String>> {
+    use zsum::microstates::{beyer_swinehart, parse_modes, stein_rabinovitch_spectrum};
+    use zsum::microstates::{CensusErrorMap, CensusReport};
+    let unit = EnergyUnit::parse(&a.unit)?;
     let budget = parse_budget(&a.memory_budget)?;
-    let up_to = number("--up-to", &a.up_to)?;
     let mut c = beyer_swinehart(
         &parse_modes(&a.modes)?,
-        &number("--grain", &a.grain)?,
-        &up_to,
+        &number("--step", &a.step)?,
+        &number("--up-to", &a.up_to)?,
         &budget,
     )?;
-    if let Some(points) = a.wr {
-        let report = WrReport::new(&c, &a.unit, points)?;
+    if let Some(points) = a.error_map {
+        let report = CensusErrorMap::new(&c, &a.unit, points, a.digits)?;
         return emit(render(&report, format(a.out.format))?, &a.out);
     }
     let mut names = Vec::new();
-    for path in &a.extra {
+    for path in &a.convolve {
         let spectrum: Box<dyn Spectrum> = if path.extension().is_some_and(|e| e == "toml") {
             Box::new(System::read(path)?.product)
         } else {
             Box::new(LevelFile::read(path)?)
         };
-        let own = spectrum.unit();
-        let span = vib_unit.convert(&up_to, &own)?;
-        let levels = spectrum
-            .levels_within(&(spectrum.ground_energy() + span), &budget)?
-            .converted(&vib_unit)?;
+        c = stein_rabinovitch_spectrum(c, &*spectrum, &unit, &budget)?;
         names.push(spectrum.describe());
-        c = stein_rabinovitch(c, &levels, &budget)?;
     }
-    let report = VibsumReport::new(&c, &a.unit).with_extras(names);
+    let report = CensusReport::new(&c, &a.unit, &budget)?.with_convolved(names);
     emit(render(&report, format(a.out.format))?, &a.out)
 }

@@ -9,29 +9,36 @@
 //!   bosons and fermions by the cycle recursion, certified, against q^N/N!
 //!   and q^N, with the temperature where q^N/N! breaks down.
 //! - [`beyer_swinehart`], [`stein_rabinovitch`], [`whitten_rabinovitch`]:
-//!   vibrational sums and densities of states, exactly and approximately.
-//! - [`einstein_solid`]: C(q + N − 1, q).
+//!   vibrational sums and densities of states, exactly and approximately;
+//!   [`CensusReport`] and [`CensusErrorMap`] lay them out (`zsum census`).
+//! - [`einstein_solid`]: C(q + N − 1, q); [`EinsteinReport`] tabulates the
+//!   Einstein solid by number of quanta, with the microcanonical temperature
+//!   from the exact derivative ψ(q + N) − ψ(q + 1) of ln Ω.
 //!
 //! The Beyer–Swinehart algorithm counts the states of independent harmonic
-//! modes on an energy grid of width `grain`: starting from one state at zero
-//! energy, each mode of frequency `w` (in grains) adds `c[E] += c[E − w]`
+//! modes on an energy grid of width `step`: starting from one state at zero
+//! energy, each mode of frequency `w` (in steps) adds `c[E] += c[E − w]`
 //! for E rising, which is the product of the modes' generating functions
 //! `1/(1 − x^w)` truncated at the cutoff. Frequencies are put on the grid by
-//! rounding to the nearest grain (common practice); the rounded values are
-//! reported. Counts are exact: machine integers with checked overflow,
+//! rounding to the nearest whole step (common practice); the rounded values
+//! are reported. Counts are exact: machine integers with checked overflow,
 //! continued in big integers when a count outgrows them.
 
+mod census;
 mod collection;
+mod einstein;
 mod ensemble;
 mod reports;
 mod vibration;
+pub use census::{CensusErrorMap, CensusErrorRow, CensusReport, CensusRow, RoundedMode};
 pub use collection::{
     check_particles, count_on_grid, count_seconds, einstein_omega, microstates, table_bytes, Grid,
     Omega, Statistics, MAX_PARTICLES, MAX_SECONDS,
 };
+pub use einstein::{einstein_canonical, EinsteinCanonical, EinsteinReport, EinsteinRow};
 pub use ensemble::{ensemble_point, EnsemblePoint};
 pub use reports::{BoltzmannCrossing, EnsembleReport, MicroReport, MicroRow};
-pub use vibration::{stein_rabinovitch, whitten_rabinovitch, WrReport, WrRow};
+pub use vibration::{stein_rabinovitch, stein_rabinovitch_spectrum, whitten_rabinovitch};
 
 use crate::error::{Error, Result};
 use crate::exact::{parse_rational, rational_string};
@@ -41,7 +48,7 @@ use num_rational::BigRational;
 use num_traits::{Signed, ToPrimitive, Zero};
 
 /// One vibrational mode: a frequency (any energy unit, the same as the
-/// grain's) and how many modes share it.
+/// step's) and how many modes share it.
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub struct Mode {
     /// The frequency.
@@ -90,20 +97,20 @@ pub fn parse_modes(text: &str) -> Result<Vec<Mode>> {
     Ok(out)
 }
 
-/// Exact numbers of states on a grid: `counts[k]` states with energy in the
-/// grain bin k (energy k·grain after rounding the frequencies).
+/// Exact numbers of states on a grid: `counts[k]` states with energy
+/// k·step (after rounding the frequencies to whole steps).
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub struct StateCounts {
-    /// The grain.
-    pub grain: BigRational,
-    /// Each mode's frequency in grains after rounding, with its degeneracy.
+    /// The energy step.
+    pub step: BigRational,
+    /// Each mode's frequency in steps after rounding, with its degeneracy.
     pub rounded: Vec<(u64, u32)>,
-    /// States per bin, bins 0..=cutoff.
+    /// States at each step, 0 up to the cutoff.
     pub counts: Vec<BigUint>,
 }
 
 impl StateCounts {
-    /// The sum of states: states with energy at most bin k, for every k.
+    /// The sum of states: states with energy at most k·step, for every k.
     pub fn sums(&self) -> Vec<BigUint> {
         let mut acc = BigUint::zero();
         self.counts
@@ -122,14 +129,14 @@ enum Cells {
     Big(Vec<BigUint>),
 }
 
-/// The Beyer–Swinehart count of `modes` on a grid of `grain` up to
+/// The Beyer–Swinehart count of `modes` on a grid of `step` up to
 /// `up_to` (same unit), refusing grids beyond `budget`.
 ///
 /// ```
 /// use zsum::microstates::{beyer_swinehart, parse_modes};
 /// use zsum::exact::parse_rational;
 /// use zsum::spectrum::Budget;
-/// // Three identical modes of one grain: C(n + 2, 2) states at n grains.
+/// // Three identical modes of one step: C(n + 2, 2) states at n steps.
 /// let c = beyer_swinehart(&parse_modes("1x3")?, &parse_rational("1")?,
 ///                         &parse_rational("4")?, &Budget::default())?;
 /// let got: Vec<u32> = c.counts.iter().map(|x| x.try_into().unwrap()).collect();
@@ -138,15 +145,15 @@ enum Cells {
 /// ```
 pub fn beyer_swinehart(
     modes: &[Mode],
-    grain: &BigRational,
+    step: &BigRational,
     up_to: &BigRational,
     budget: &Budget,
 ) -> Result<StateCounts> {
-    if !grain.is_positive() {
+    if !step.is_positive() {
         return Err(Error::invalid(
-            "grain",
-            rational_string(grain),
-            "the energy grain must be greater than zero",
+            "energy step",
+            rational_string(step),
+            "the energy step (--step) must be greater than zero",
         ));
     }
     if up_to.is_negative() {
@@ -159,36 +166,36 @@ pub fn beyer_swinehart(
     if modes.is_empty() {
         return Err(Error::invalid("modes", "none", "give at least one mode"));
     }
-    let bins = (up_to / grain).floor().to_integer();
+    let bins = (up_to / step).floor().to_integer();
     let n = bins
         .to_u64()
         .and_then(|b| usize::try_from(b).ok())
         .and_then(|b| b.checked_add(1))
         .ok_or_else(|| {
             Error::budget(format!(
-                "a grid of {bins} grains is beyond any memory; use a coarser grain"
+                "a grid of {bins} steps is beyond any memory; use a coarser --step"
             ))
         })?;
     let need = n as f64 * 16.0;
     if need > budget.limit() as f64 {
         return Err(Error::budget(format!(
             "the count needs a grid of {n} bins, about {} (and more if counts outgrow 128 \
-             bits), over the memory budget of {}; use a coarser grain or a lower cutoff",
+             bits), over the memory budget of {}; use a coarser --step or a lower cutoff",
             human_bytes(need),
             human_bytes(budget.limit() as f64)
         )));
     }
     let mut rounded = Vec::with_capacity(modes.len());
     for m in modes {
-        let in_grains = (&m.frequency / grain).round().to_integer();
-        let w = in_grains.to_u64().filter(|w| *w > 0).ok_or_else(|| {
+        let in_steps = (&m.frequency / step).round().to_integer();
+        let w = in_steps.to_u64().filter(|w| *w > 0).ok_or_else(|| {
             Error::invalid(
                 "mode frequency",
                 rational_string(&m.frequency),
                 &format!(
-                    "it rounds to {in_grains} grains of {}; frequencies must span at least \
-                     half a grain (use a finer grain)",
-                    rational_string(grain)
+                    "it rounds to {in_steps} steps of {}; frequencies must span at least \
+                     half a step (use a finer --step)",
+                    rational_string(step)
                 ),
             )
         })?;
@@ -245,7 +252,7 @@ pub fn beyer_swinehart(
         Cells::Big(b) => b,
     };
     Ok(StateCounts {
-        grain: grain.clone(),
+        step: step.clone(),
         rounded,
         counts,
     })
@@ -277,124 +284,83 @@ pub(crate) fn ln_biguint(x: &BigUint, prec: u32) -> rug::Float {
     rug::Float::with_val(prec, rug::Float::with_val(prec, r).ln_ref())
 }
 
-/// Rounded modes as `w(d), ...`: frequency in grains (degeneracy).
-fn modes_text(rounded: &[(u64, u32)]) -> String {
-    rounded
-        .iter()
-        .map(|(w, d)| format!("{w}({d})"))
-        .collect::<Vec<_>>()
-        .join(", ")
+/// A big integer as an MPFR number at `prec` bits, as a ball holding it
+/// (exact when it fits in `prec` bits).
+pub(crate) fn biguint_ball(x: &BigUint, prec: u32) -> crate::sum::ball::Ball {
+    use crate::sum::ball::{Ball, RP};
+    let i = rug::Integer::from_digits(&x.to_u32_digits(), rug::integer::Order::Lsf);
+    let c = rug::Float::with_val(prec, &i);
+    if x.bits() <= u64::from(prec) {
+        Ball::exact(c)
+    } else {
+        Ball::rounded(c, rug::Float::new(RP))
+    }
 }
 
-/// `zsum vibsum`: counts per grain, sums and densities of states.
-#[derive(Debug, Clone, serde::Serialize)]
-pub struct VibsumReport {
-    /// The energy unit.
-    pub unit: String,
-    /// The grain, exact.
-    pub grain: String,
-    /// Each mode in grains after rounding, with its degeneracy.
-    pub rounded_modes: Vec<(u64, u32)>,
-    /// Extra degrees of freedom convolved in (Stein–Rabinovitch), by name.
-    pub extras: Vec<String>,
-    /// One row per bin with at least one state.
-    pub rows: Vec<VibsumRow>,
+/// The ball `b` rounded to `decimals` decimal places, if every value in it
+/// rounds alike (`None` when the ball straddles a rounding boundary).
+pub(crate) fn fixed_decimals(b: &crate::sum::ball::Ball, decimals: u32) -> Option<String> {
+    use rug::float::Round;
+    use rug::Float;
+    let p = b.prec().max(64) + 16;
+    let scale = Float::with_val(p, rug::Integer::from(rug::Integer::u_pow_u(10, decimals)));
+    let end = |x: Float, round: Round| {
+        let scaled = Float::with_val_round(p, &x * &scale, round).0;
+        Float::with_val_round(p, scaled + 0.5f64, round)
+            .0
+            .floor()
+            .to_integer()
+    };
+    let lo = end(
+        Float::with_val_round(p, &b.c - &b.r, Round::Down).0,
+        Round::Down,
+    )?;
+    let hi = end(
+        Float::with_val_round(p, &b.c + &b.r, Round::Up).0,
+        Round::Up,
+    )?;
+    if lo != hi {
+        return None;
+    }
+    let neg = lo < 0;
+    let digits = lo.abs().to_string();
+    let d = decimals as usize;
+    let padded = format!(
+        "{}{digits}",
+        "0".repeat((d + 1).saturating_sub(digits.len()))
+    );
+    let (int, frac) = padded.split_at(padded.len() - d);
+    let body = if d == 0 {
+        int.to_string()
+    } else {
+        format!("{int}.{frac}")
+    };
+    Some(if neg { format!("-{body}") } else { body })
 }
 
-/// One bin.
-#[derive(Debug, Clone, serde::Serialize)]
-pub struct VibsumRow {
-    /// Energy of the bin, exact (k · grain).
-    pub energy: String,
-    /// States in the bin.
-    pub count: String,
-    /// States with energy up to and including the bin.
-    pub sum: String,
-    /// Density of states: count / grain, per unit energy, exact rational.
-    pub density: String,
-}
-
-impl VibsumReport {
-    /// The report of `c` in `unit`; only bins with states are listed.
-    pub fn new(c: &StateCounts, unit: &str) -> Self {
-        let sums = c.sums();
-        let rows = c
-            .counts
-            .iter()
-            .enumerate()
-            .filter(|(_, n)| !n.is_zero())
-            .map(|(k, n)| VibsumRow {
-                energy: crate::exact::exact_decimal(
-                    &(&c.grain * BigRational::from_integer(k.into())),
-                    40,
-                ),
-                count: n.to_string(),
-                sum: sums[k].to_string(),
-                density: crate::exact::exact_decimal(
-                    &(BigRational::from_integer(n.clone().into()) / &c.grain),
-                    60,
-                ),
-            })
-            .collect();
-        VibsumReport {
-            unit: unit.to_string(),
-            grain: rational_string(&c.grain),
-            rounded_modes: c.rounded.clone(),
-            extras: Vec::new(),
-            rows,
+/// log₁₀ of a positive integer, correctly rounded to `decimals` decimal
+/// places: computed in ball arithmetic from the exact integer, the
+/// precision raised until both ends of the ball round alike (log₁₀ of an
+/// integer is never halfway between two roundings).
+pub(crate) fn log10_fixed(x: &BigUint, decimals: u32) -> String {
+    use crate::sum::ball::Ball;
+    if x.is_zero() {
+        return "-inf".into();
+    }
+    let mut prec = 96 + 2 * decimals;
+    loop {
+        let ln10 = rug::Float::with_val(prec, rug::Float::with_val(prec, 10).ln_ref());
+        let value = biguint_ball(x, prec)
+            .ln()
+            .and_then(|l| l.div(&Ball::rounded(ln10, rug::Float::new(crate::sum::ball::RP))));
+        if let Some(text) = value.as_ref().and_then(|v| fixed_decimals(v, decimals)) {
+            return text;
         }
-    }
-
-    /// Names the extra degrees of freedom convolved into the counts.
-    pub fn with_extras(mut self, extras: Vec<String>) -> Self {
-        self.extras = extras;
-        self
-    }
-}
-
-impl crate::export::Tabular for VibsumReport {
-    fn preamble(&self) -> Vec<String> {
-        vec![
-            format!(
-                "Beyer–Swinehart exact state counts, grain {} {}; modes in grains (degeneracy): {}",
-                self.grain,
-                self.unit,
-                modes_text(&self.rounded_modes)
-            ),
-            format!(
-                "count = states in the bin; sum = states up to it; density = count/grain per {}",
-                self.unit
-            ),
-        ]
-        .into_iter()
-        .chain((!self.extras.is_empty()).then(|| {
-            format!(
-                "with extra degrees of freedom (Stein–Rabinovitch, levels rounded to the grain): {}",
-                self.extras.join("; ")
-            )
-        }))
-        .collect()
-    }
-    fn columns(&self) -> Vec<crate::export::Column> {
-        use crate::export::Column;
-        vec![
-            Column::with_unit("E", &self.unit),
-            Column::plain("count"),
-            Column::plain("sum"),
-            Column::with_unit("density", &format!("1/{}", self.unit)),
-        ]
-    }
-    fn rows(&self) -> Vec<Vec<String>> {
-        self.rows
-            .iter()
-            .map(|r| {
-                vec![
-                    r.energy.clone(),
-                    r.count.clone(),
-                    r.sum.clone(),
-                    r.density.clone(),
-                ]
-            })
-            .collect()
+        if prec > 1 << 16 {
+            // Unreachable for x ≥ 1 (see above); the nearest rounding then.
+            let v = value.map(|v| v.c.to_f64()).unwrap_or(f64::NAN);
+            return format!("{v:.*}", decimals as usize);
+        }
+        prec *= 2;
     }
 }

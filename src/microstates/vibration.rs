@@ -6,7 +6,7 @@
 //!
 //! # Stein–Rabinovitch
 //! Each extra degree of freedom with levels `(ε_j, g_j)` (energies from its
-//! own lowest level, put on the grain grid by rounding to the nearest grain,
+//! own lowest level, put on the grid by rounding to the nearest whole step,
 //! common practice) multiplies the generating function by `Σ_j g_j x^{e_j}`:
 //! `c'[E] = Σ_j g_j c[E − e_j]`, exact in big integers.
 //!
@@ -24,22 +24,20 @@
 //! ```
 //!
 //! Outside 0.1 < E′ < 8 the nearer form is extrapolated and the row says so.
-//! The comparison uses the frequencies as rounded to the grain, so it
-//! measures the approximation alone.
+//! The comparison ([`super::CensusErrorMap`]) uses the frequencies as
+//! rounded to the step, so it measures the approximation alone.
 
 use super::StateCounts;
 use crate::error::{Error, Result};
-use crate::exact::{exact_decimal, format_sig};
-use crate::export::Tabular;
 use crate::level::LevelList;
-use crate::spectrum::Budget;
+use crate::spectrum::{Budget, Spectrum};
+use crate::units::EnergyUnit;
 use num_bigint::BigUint;
 use num_rational::BigRational;
 use num_traits::{ToPrimitive, Zero};
-use serde::Serialize;
 
 /// Convolves `counts` with an extra degree of freedom's `levels` (in the
-/// grain's unit; energies taken from the lowest level): the
+/// step's unit; energies taken from the lowest level): the
 /// Stein–Rabinovitch step. Refuses work beyond `budget`.
 ///
 /// ```
@@ -49,7 +47,7 @@ use serde::Serialize;
 /// use zsum::spectrum::Budget;
 /// use zsum::units::EnergyUnit;
 /// let r = |s: &str| parse_rational(s).unwrap();
-/// // One mode of 2 grains and a two-level extra (0 and 1 grain, 1 + 3 states).
+/// // One mode of 2 steps and a two-level extra (0 and 1 step, 1 + 3 states).
 /// let c = beyer_swinehart(&parse_modes("2")?, &r("1"), &r("4"), &Budget::default())?;
 /// let extra = LevelList::new(EnergyUnit::Wavenumber,
 ///     vec![Level::new(r("0"), 1u32), Level::new(r("1"), 3u32)]);
@@ -73,7 +71,7 @@ pub fn stein_rabinovitch(
     };
     let mut shifts: Vec<(usize, BigUint)> = Vec::new();
     for l in levels.iter() {
-        let k = ((&l.energy - &ground) / &counts.grain)
+        let k = ((&l.energy - &ground) / &counts.step)
             .round()
             .to_integer()
             .to_usize()
@@ -93,7 +91,7 @@ pub fn stein_rabinovitch(
     budget.check(
         "the Stein–Rabinovitch convolution",
         need,
-        "use a coarser grain or a lower cutoff",
+        "use a coarser --step or a lower cutoff",
     )?;
     let mut out = vec![BigUint::zero(); n];
     for (k, g) in &shifts {
@@ -107,6 +105,41 @@ pub fn stein_rabinovitch(
         counts: out,
         ..counts
     })
+}
+
+/// Convolves `counts` (energies in `unit`) with every level of `spectrum`
+/// that can land on the grid: the levels within the cutoff (plus half a
+/// step, which still rounds onto it) above its ground, converted to `unit`,
+/// then [`stein_rabinovitch`].
+///
+/// ```
+/// use zsum::microstates::{beyer_swinehart, parse_modes, stein_rabinovitch_spectrum};
+/// use zsum::exact::parse_rational;
+/// use zsum::models::rotor::LinearRotor;
+/// use zsum::spectrum::Budget;
+/// use zsum::units::EnergyUnit;
+/// let r = |s: &str| parse_rational(s).unwrap();
+/// // A rigid rotor of B = 1 cm-1 (levels 0, 2, 6, 12 with 1, 3, 5, 7
+/// // states) beside one mode far above the cutoff of 12 cm-1.
+/// let c = beyer_swinehart(&parse_modes("1000")?, &r("1"), &r("12"), &Budget::default())?;
+/// let rotor = LinearRotor::rigid(r("1"), EnergyUnit::Wavenumber)?;
+/// let c = stein_rabinovitch_spectrum(c, &rotor, &EnergyUnit::Wavenumber, &Budget::default())?;
+/// assert_eq!(c.sums()[12], 16u32.into());
+/// # Ok::<(), zsum::Error>(())
+/// ```
+pub fn stein_rabinovitch_spectrum(
+    counts: StateCounts,
+    spectrum: &dyn Spectrum,
+    unit: &EnergyUnit,
+    budget: &Budget,
+) -> Result<StateCounts> {
+    let top = BigRational::from_integer(counts.counts.len().saturating_sub(1).into());
+    let half = BigRational::new(1.into(), 2.into());
+    let span = unit.convert(&((top + half) * &counts.step), &spectrum.unit())?;
+    let levels = spectrum
+        .levels_within(&(spectrum.ground_energy() + span), budget)?
+        .converted(unit)?;
+    stein_rabinovitch(counts, &levels, budget)
 }
 
 /// The Whitten–Rabinovitch sum and density of states at energy `e` for
@@ -147,192 +180,4 @@ pub fn whitten_rabinovitch(freqs: &[f64], e: f64) -> (f64, f64, bool) {
     let ln_w = s * base - ln_fact(s) - ln_prod;
     let ln_rho = (s - 1.0) * base + (1.0 - beta * domega).ln() - ln_fact(s - 1.0) - ln_prod;
     (ln_w, ln_rho, (0.1..=8.0).contains(&ep))
-}
-
-/// One energy of the Whitten–Rabinovitch error map.
-#[derive(Debug, Clone, Serialize)]
-pub struct WrRow {
-    /// The energy.
-    pub energy: String,
-    /// E/E_z.
-    pub reduced: String,
-    /// Exact sum of states (states with energy ≤ E).
-    pub sum_exact: String,
-    /// Whitten–Rabinovitch sum of states.
-    pub sum_wr: String,
-    /// W_WR/W − 1.
-    pub sum_error: String,
-    /// Exact density, averaged over a window (states in (E − w/2, E + w/2]
-    /// over w).
-    pub density_exact: String,
-    /// Whitten–Rabinovitch density.
-    pub density_wr: String,
-    /// ρ_WR/ρ − 1.
-    pub density_error: String,
-    /// Whether E/E_z lies in the formulas' range 0.1 to 8.
-    pub in_range: bool,
-}
-
-/// `zsum vibsum --wr`: the error map of the Whitten–Rabinovitch
-/// approximation against the exact count.
-#[derive(Debug, Clone, Serialize)]
-pub struct WrReport {
-    /// The energy unit.
-    pub unit: String,
-    /// The grain.
-    pub grain: String,
-    /// Modes in grains (degeneracy), as rounded.
-    pub rounded_modes: Vec<(u64, u32)>,
-    /// Zero-point energy E_z.
-    pub zero_point: String,
-    /// The density window w.
-    pub window: String,
-    /// One row per sampled energy.
-    pub rows: Vec<WrRow>,
-}
-
-fn ln_big(x: &BigUint) -> f64 {
-    super::ln_biguint(x, 64).to_f64()
-}
-
-fn rel_text(ln_ratio: f64) -> String {
-    if !ln_ratio.is_finite() {
-        return "n/a".into();
-    }
-    format!("{:.3e}", ln_ratio.exp_m1())
-}
-
-fn exp_text(ln: f64) -> String {
-    if ln == f64::NEG_INFINITY {
-        return "0".into();
-    }
-    let l10 = ln / std::f64::consts::LN_10;
-    let e = l10.floor();
-    format!("{:.6}e{}", 10f64.powf(l10 - e), e as i64)
-}
-
-impl WrReport {
-    /// Samples `points` energies evenly up to the cutoff of `harmonic` (the
-    /// modes' exact counts) and compares there.
-    pub fn new(harmonic: &StateCounts, unit: &str, points: usize) -> Result<Self> {
-        if points == 0 {
-            return Err(Error::invalid(
-                "--wr",
-                0,
-                "give at least one energy to compare at",
-            ));
-        }
-        let g = harmonic.grain.to_f64().unwrap_or(1.0);
-        let freqs: Vec<f64> = harmonic
-            .rounded
-            .iter()
-            .flat_map(|(w, d)| std::iter::repeat_n(*w as f64 * g, *d as usize))
-            .collect();
-        let ez = 0.5 * freqs.iter().sum::<f64>();
-        let lowest = harmonic.rounded.iter().map(|(w, _)| *w).min().unwrap_or(1);
-        let window = lowest.max(1) as usize;
-        let sums = harmonic.sums();
-        let top = sums.len() - 1;
-        let mut rows = Vec::with_capacity(points);
-        // Sample where the whole density window fits under the cutoff.
-        let half = window / 2;
-        let span = top.saturating_sub(half);
-        for i in 1..=points {
-            let k = span * i / points;
-            if k == 0 {
-                continue;
-            }
-            let e = k as f64 * g;
-            let (lw, lr, ok) = whitten_rabinovitch(&freqs, e);
-            let lo = k.saturating_sub(half + window % 2);
-            let hi = (k + half).min(top);
-            let in_window = &sums[hi] - &sums[lo];
-            let lre = ln_big(&in_window) - ((hi - lo) as f64 * g).ln();
-            let lwe = ln_big(&sums[k]);
-            let energy = &harmonic.grain * BigRational::from_integer(k.into());
-            rows.push(WrRow {
-                energy: exact_decimal(&energy, 40),
-                reduced: format!("{:.4}", e / ez),
-                sum_exact: sums[k].to_string(),
-                sum_wr: exp_text(lw),
-                sum_error: rel_text(lw - lwe),
-                density_exact: exp_text(lre),
-                density_wr: exp_text(lr),
-                density_error: rel_text(lr - lre),
-                in_range: ok,
-            });
-        }
-        let zp = BigRational::from_integer(
-            harmonic
-                .rounded
-                .iter()
-                .map(|(w, d)| BigUint::from(*w) * BigUint::from(*d))
-                .sum::<BigUint>()
-                .into(),
-        ) * &harmonic.grain
-            / BigRational::from_integer(2.into());
-        Ok(WrReport {
-            unit: unit.to_string(),
-            grain: exact_decimal(&harmonic.grain, 40),
-            rounded_modes: harmonic.rounded.clone(),
-            zero_point: format_sig(&zp, 12),
-            window: exact_decimal(
-                &(&harmonic.grain * BigRational::from_integer(window.into())),
-                40,
-            ),
-            rows,
-        })
-    }
-}
-
-impl Tabular for WrReport {
-    fn preamble(&self) -> Vec<String> {
-        vec![
-            format!(
-                "Whitten–Rabinovitch against the exact Beyer–Swinehart count, grain {} {}, \
-                 E_z = {} {}; modes in grains (degeneracy): {}",
-                self.grain,
-                self.unit,
-                self.zero_point,
-                self.unit,
-                super::modes_text(&self.rounded_modes)
-            ),
-            format!(
-                "W = states up to E; rho exact = states within a window of {} {} around E, per {}; \
-                 err = WR/exact − 1; * = E/E_z outside 0.1–8 (extrapolated)",
-                self.window, self.unit, self.unit
-            ),
-        ]
-    }
-    fn columns(&self) -> Vec<crate::export::Column> {
-        use crate::export::Column;
-        let per = format!("1/{}", self.unit);
-        vec![
-            Column::with_unit("E", &self.unit),
-            Column::plain("E/E_z"),
-            Column::plain("W exact"),
-            Column::plain("W WR"),
-            Column::plain("err W"),
-            Column::with_unit("rho exact", &per),
-            Column::with_unit("rho WR", &per),
-            Column::plain("err rho"),
-        ]
-    }
-    fn rows(&self) -> Vec<Vec<String>> {
-        self.rows
-            .iter()
-            .map(|r| {
-                vec![
-                    r.energy.clone(),
-                    format!("{}{}", r.reduced, if r.in_range { "" } else { "*" }),
-                    r.sum_exact.clone(),
-                    r.sum_wr.clone(),
-                    r.sum_error.clone(),
-                    r.density_exact.clone(),
-                    r.density_wr.clone(),
-                    r.density_error.clone(),
-                ]
-            })
-            .collect()
-    }
 }

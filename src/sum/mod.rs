@@ -81,6 +81,7 @@ use num_traits::Signed;
 use rug::Float;
 use serde::Serialize;
 
+pub(crate) use format::ball_decimal;
 pub use format::float_to_decimal;
 
 /// The largest number of significant digits the engine accepts.
