@@ -53,7 +53,7 @@ fn esc(s: &str) -> String {
 }
 
 fn html_table<T: Tabular>(t: &T) -> String {
-    let mut out = String::from("<table>\n<thead><tr>");
+    let mut out = String::from("<div class=\"wide\"><table>\n<thead><tr>");
     for c in t.columns() {
         out.push_str(&format!("<th>{}</th>", esc(&c.heading())));
     }
@@ -65,7 +65,7 @@ fn html_table<T: Tabular>(t: &T) -> String {
         }
         out.push_str("</tr>\n");
     }
-    out.push_str("</tbody>\n</table>\n");
+    out.push_str("</tbody>\n</table></div>\n");
     out
 }
 
@@ -228,7 +228,8 @@ pub fn build_report() -> Result<Vec<(String, String)>> {
                     .map(move |c| [sp.name.clone(), c.quantity, c.value, c.unit, c.source])
             })
             .collect(),
-    ));
+    ))
+    .replace("<table>", "<table class=\"text\">");
     let html = format!(
         r#"<!DOCTYPE html>
 <html lang="en">
@@ -242,6 +243,9 @@ th, td {{ border: 1px solid #bbb; padding: 0.2em 0.5em; text-align: right; }}
 th {{ background: #eee; }}
 .caution {{ border: 2px solid #a33; background: #fff3f3; padding: 0.6em 1em; }}
 figure {{ margin: 1em 0; }}
+.wide {{ overflow-x: auto; }}
+table.text td {{ text-align: left; }}
+table.text td:nth-child(4) {{ white-space: nowrap; }}
 </style>
 </head>
 <body>
@@ -273,9 +277,9 @@ fraction and about 1.06 kJ/mol (525 kJ/kg) for the conversion heat.</p>
 <h2>Heats of conversion</h2>
 {heat_plot}
 <h2>Standard molar functions at 298.15 K and 1 bar</h2>
-<p>{note}.</p>
+<p>{reference}. {note}.</p>
 {species_table}
-<h2>Hydrogen from 10 K to 400 K (normal hydrogen's Cp, S, H; conversion heats)</h2>
+<h2>Hydrogen from 10 K to 400 K (normal hydrogen, ortho fraction 0.75: S and H − H0 from each isomer's own lowest level; Cp of each state; conversion heats)</h2>
 {hydrogen_table}
 <h2>Where classical translation is not exact</h2>
 <p>Sackur–Tetrode translation counts the molecules by Boltzmann statistics. The first
@@ -322,8 +326,9 @@ and latent heat: common practice, from memory.</li>
         note = esc(&note),
         species_count = species_rows.rows.len(),
         hydrogen_count = curves.rows.len(),
+        reference = esc(&species_rows.reference_line()),
         species_table = html_table(&SpeciesRows(&species_rows)),
-        hydrogen_table = html_table(&curves),
+        hydrogen_table = html_table(&HydrogenRows(&curves)),
     );
     Ok(vec![
         ("index.html".into(), html),
@@ -395,6 +400,47 @@ impl Tabular for SpeciesRows<'_> {
                 .into_iter()
                 .chain(degeneracy_cells(&r.degeneracy))
                 .collect()
+            })
+            .collect()
+    }
+}
+
+/// The hydrogen table of the page: normal hydrogen's rows without the
+/// columns that repeat (its isomer and ortho fraction, which the heading
+/// names, and its Cp, which is `Cp normal`); the CSV file keeps them all.
+struct HydrogenRows<'a>(&'a HydrogenTable);
+
+impl HydrogenRows<'_> {
+    const DROPPED: [&'static str; 3] = ["isomer", "ortho fraction", "Cp"];
+    fn kept(&self) -> Vec<bool> {
+        self.0
+            .columns()
+            .iter()
+            .map(|c| !Self::DROPPED.contains(&c.name.as_str()))
+            .collect()
+    }
+}
+
+impl Tabular for HydrogenRows<'_> {
+    fn preamble(&self) -> Vec<String> {
+        self.0.preamble()
+    }
+    fn columns(&self) -> Vec<Column> {
+        let keep = self.kept();
+        let cols = self.0.columns().into_iter().zip(keep);
+        cols.filter(|(_, k)| *k).map(|(c, _)| c).collect()
+    }
+    fn rows(&self) -> Vec<Vec<String>> {
+        let keep = self.kept();
+        self.0
+            .rows()
+            .into_iter()
+            .map(|r| {
+                r.into_iter()
+                    .zip(&keep)
+                    .filter(|(_, k)| **k)
+                    .map(|(c, _)| c)
+                    .collect()
             })
             .collect()
     }
