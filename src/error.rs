@@ -52,7 +52,10 @@ impl Error {
     pub fn parse(what: &str, value: &str, allowed: &str) -> Self {
         Error::new(
             ErrorKind::Parse,
-            format!("cannot read {what} {value:?}: expected {allowed}"),
+            format!(
+                "cannot read {what} {:?}: expected {allowed}",
+                crate::input::excerpt(value)
+            ),
         )
     }
 
@@ -60,7 +63,10 @@ impl Error {
     pub fn invalid(what: &str, value: impl fmt::Display, allowed: &str) -> Self {
         Error::new(
             ErrorKind::InvalidParameter,
-            format!("{what} {value} is not allowed: {allowed}"),
+            format!(
+                "{what} {} is not allowed: {allowed}",
+                crate::input::excerpt(&value.to_string())
+            ),
         )
     }
 

@@ -55,16 +55,18 @@ fn bad_number(text: &str) -> Error {
     Error::parse(
         "number",
         text,
-        "a decimal such as 2, 0.5, 1.25e-3 or a fraction such as 27/4",
+        "a decimal such as 2, 0.5, 1.25e-3 or a fraction such as 27/4, written without \
+         digit separators such as _",
     )
 }
 
 fn parse_decimal(text: &str) -> std::result::Result<BigRational, ()> {
-    let t: String = text.trim().chars().filter(|&c| c != '_').collect();
+    // No digit separators: `1_000` is refused, everywhere alike.
+    let t = text.trim();
     let (neg, body) = match t.as_bytes().first() {
         Some(b'-') => (true, &t[1..]),
         Some(b'+') => (false, &t[1..]),
-        _ => (false, &t[..]),
+        _ => (false, t),
     };
     let (mantissa, exponent) = match body.find(['e', 'E']) {
         Some(i) => (&body[..i], Some(&body[i + 1..])),

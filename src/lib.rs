@@ -26,6 +26,7 @@
 //!
 //! ## Layout
 //! - [`units`]: exact SI constants and energy units.
+//! - [`input`]: reading user files, capped, with short excerpts in messages.
 //! - [`level`]: [`level::LevelList`], exact and sorted.
 //! - [`spectrum`]: the [`spectrum::Spectrum`] trait.
 //! - [`models`]: the models (particle in a box, ...).
@@ -44,6 +45,7 @@ pub mod counting;
 pub mod error;
 pub mod exact;
 pub mod export;
+pub mod input;
 pub mod level;
 pub mod microstates;
 pub mod models;

@@ -443,15 +443,7 @@ pub fn restrict_weights(w: ParityWeights, only: Option<&str>) -> Result<ParityWe
 impl System {
     /// Reads a system file.
     pub fn read(path: &Path) -> Result<Self> {
-        let text = std::fs::read_to_string(path).map_err(|e| {
-            Error::new(
-                ErrorKind::Io,
-                format!(
-                    "cannot read system file {:?}: {e}",
-                    path.display().to_string()
-                ),
-            )
-        })?;
+        let text = crate::input::read_text(path, "system file", crate::input::MAX_SYSTEM_BYTES)?;
         let dir = path.parent().map(Path::to_path_buf).unwrap_or_default();
         System::parse(&text, &path.display().to_string(), &dir)
     }
@@ -459,12 +451,8 @@ impl System {
     /// Reads a system from TOML text; `file` names it in messages and `dir`
     /// resolves relative level-file paths.
     pub fn parse(text: &str, file: &str, dir: &Path) -> Result<Self> {
-        let raw: RawSystem = toml::from_str(text).map_err(|e| {
-            Error::new(
-                ErrorKind::Parse,
-                format!("{file}: {}", e.to_string().trim_end()),
-            )
-        })?;
+        let raw: RawSystem =
+            toml::from_str(text).map_err(|e| crate::input::toml_error(file, text, &e))?;
         let ctx = Ctx {
             file,
             text,

@@ -56,8 +56,12 @@ fn einstein_solid_json_holds_exact_counts() {
     for (flag, value, needle) in [
         ("--compare", "2", "--compare"),
         ("--up-to", "-1", "--up-to -1"),
-        ("--digits", "0", "digits 0"),
-        ("--particles", "0", "--particles"),
+        ("--digits", "0", "'--digits <N>': 0 is not in 1..=60"),
+        (
+            "--particles",
+            "0",
+            "'--particles <N>': 0 is not in 1..=1000",
+        ),
     ] {
         let mut args = vec![
             "microstates",
@@ -143,7 +147,7 @@ fn bad_input_exits_2_and_writes_nothing() {
             "--up-to",
             "100",
         ],
-        "between 1 and 1000",
+        "'--particles <N>': 0 is not in 1..=1000",
     );
     refused(
         &[
@@ -231,7 +235,7 @@ fn bad_input_exits_2_and_writes_nothing() {
             "--T",
             "1",
         ],
-        "between 1 and 1000",
+        "0 is not in 1..=1000",
     );
     refused(
         &[
@@ -401,12 +405,18 @@ fn census_convolution_and_the_error_map() {
         "{approx}"
     );
     for (extra, needle) in [
-        (vec!["--error-map", "0"], "--error-map 0"),
+        (
+            vec!["--error-map", "0"],
+            "'--error-map <POINTS>': 0 is not in 1..=100000",
+        ),
         (vec!["--error-map", "5000"], "at most 2500"),
-        (vec!["--error-map", "5", "--digits", "0"], "--digits 0"),
+        (
+            vec!["--error-map", "5", "--digits", "0"],
+            "0 is not in 1..=12",
+        ),
         (
             vec!["--error-map", "5", "--digits", "13"],
-            "between 1 and 12",
+            "13 is not in 1..=12",
         ),
         (vec!["--digits", "4"], "--error-map"),
         (vec!["--convolve", "/nonexistent.levels"], "nonexistent"),

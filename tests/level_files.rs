@@ -108,7 +108,7 @@ fn chlorine_fine_structure_in_kelvin() {
 
 /// A demo file (invented numbers) that uses every feature of the format:
 /// comments, blank lines, tabs, trailing spaces, CRLF line ends, a byte-order
-/// mark, multi-word and Unicode labels, fractions, exponents, underscores,
+/// mark, multi-word and Unicode labels, fractions, exponents,
 /// a negative energy and a label-less line.
 #[test]
 fn demo_file_with_every_feature() {
@@ -117,7 +117,7 @@ fn demo_file_with_every_feature() {
                 0\tcm-1\t2\t ground  doublet   \r\n\
                 \t  1.5e2 cm-1 3 ³P₁ (Unicode label)  # trailing comment\r\n\
                 27/4 cm^-1 1\r\n\
-                -1_000.5 cm⁻¹ 5 below\u{00a0}zero\r\n\
+                -1000.5 cm⁻¹ 5 below\u{00a0}zero\r\n\
                 # last line has no newline\r\n\
                 2e3 1/cm 1000000000000000000000000000000 huge";
     let f = LevelFile::parse(text, "demo").unwrap();

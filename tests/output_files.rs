@@ -70,3 +70,37 @@ fn a_directory_is_refused() {
     assert_eq!(out.status.code(), Some(2));
     assert!(String::from_utf8_lossy(&out.stderr).contains("is a directory"));
 }
+
+/// `-o` over a private (mode 600) file replaces its contents and keeps it
+/// private: the permission bits survive the atomic rename.
+#[cfg(unix)]
+#[test]
+fn overwriting_a_private_file_keeps_its_permission_bits() {
+    use std::os::unix::fs::PermissionsExt;
+    let dir = tempfile::tempdir().unwrap();
+    let target = dir.path().join("private.csv");
+    std::fs::write(&target, "old\n").unwrap();
+    std::fs::set_permissions(&target, std::fs::Permissions::from_mode(0o600)).unwrap();
+    let out = run(&[
+        "levels",
+        "rotor",
+        "--B",
+        "2",
+        "--up-to",
+        "10",
+        "--format",
+        "csv",
+        "-o",
+        target.to_str().unwrap(),
+    ]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let mode = std::fs::metadata(&target).unwrap().permissions().mode() & 0o777;
+    assert_eq!(mode, 0o600, "mode {mode:o}");
+    assert!(std::fs::read_to_string(&target)
+        .unwrap()
+        .starts_with("E (cm-1)"));
+}

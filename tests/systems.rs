@@ -232,11 +232,11 @@ fn cli_refuses_bad_model_input_with_status_2() {
         (vec!["sum", "rotor", "--B", "1", "--T", "nan"], "nan"),
         (
             vec!["sum", "rotor", "--B", "1", "--T", "10", "--digits", "0"],
-            "digits 0",
+            "0 is not in 1..=996",
         ),
         (
             vec!["sum", "rotor", "--B", "1", "--T", "10", "--digits", "5000"],
-            "digits 5000",
+            "5000 is not in 1..=996",
         ),
         (
             vec!["thermo", "rotor", "--B", "1", "--T", "10:100:0"],

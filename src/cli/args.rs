@@ -155,7 +155,7 @@ pub struct ListArgs {
 
     /// Significant digits of the --also energies, correctly rounded, so
     /// every digit is right (1 to 60).
-    #[arg(long, value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS, requires = "also")]
+    #[arg(long, value_parser = clap::value_parser!(u32).range(1..=60), value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS, requires = "also")]
     pub digits: u32,
 
     /// Refuse listings estimated to need more memory than this.
@@ -193,7 +193,7 @@ pub struct SystemLevels {
 
     /// Significant digits of the --also energies, correctly rounded, so
     /// every digit is right (1 to 60).
-    #[arg(long, value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS, requires = "also")]
+    #[arg(long, value_parser = clap::value_parser!(u32).range(1..=60), value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS, requires = "also")]
     pub digits: u32,
 
     /// Refuse listings estimated to need more memory than this.
@@ -592,7 +592,7 @@ pub struct SpeciesThermo {
     #[arg(long, value_name = "FILE")]
     pub species_file: Option<PathBuf>,
     /// Significant digits of every printed value, each certified (1 to 60).
-    #[arg(long, value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS)]
+    #[arg(long, value_parser = clap::value_parser!(u32).range(1..=60), value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS)]
     pub digits: u32,
     /// Output options.
     #[command(flatten)]
@@ -656,7 +656,7 @@ pub struct HydrogenArgs {
     #[arg(long, value_name = "MODEL", default_value = "rovib")]
     pub model: String,
     /// Significant digits of every printed value, each certified (1 to 60).
-    #[arg(long, value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS)]
+    #[arg(long, value_parser = clap::value_parser!(u32).range(1..=60), value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS)]
     pub digits: u32,
     /// Output options.
     #[command(flatten)]
@@ -683,7 +683,7 @@ pub struct TempArgs {
     pub kt: Option<String>,
 
     /// Significant digits of every printed value, each certified (1 to 996).
-    #[arg(long, value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS)]
+    #[arg(long, value_parser = clap::value_parser!(u32).range(1..=996), value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS)]
     pub digits: u32,
 
     /// Effort limit: the most working bits spent on one temperature before
@@ -744,7 +744,7 @@ pub struct SystemThermo {
     )]
     pub t: Option<String>,
     /// Significant digits of every printed value, each certified (1 to 996).
-    #[arg(long, value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS)]
+    #[arg(long, value_parser = clap::value_parser!(u32).range(1..=996), value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS)]
     pub digits: u32,
     /// Effort limit: the most working bits spent on one temperature before
     /// a value is printed marked * (with the reason).
@@ -817,7 +817,7 @@ pub struct CrossoverArgs {
     )]
     pub range: String,
     /// Significant digits of each crossing, each certified (1 to 12).
-    #[arg(long, value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS, global = true)]
+    #[arg(long, value_parser = clap::value_parser!(u32).range(1..=12), value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS, global = true)]
     pub digits: u32,
     /// Output format.
     #[arg(long, value_enum, default_value_t = FormatArg::Table, global = true)]
@@ -865,7 +865,7 @@ pub struct CompareArgs {
     pub approx: Option<String>,
     /// Significant digits of the exact values and the approximations' values,
     /// each certified (1 to 30); relative errors print to 4 digits.
-    #[arg(long, value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS, global = true)]
+    #[arg(long, value_parser = clap::value_parser!(u32).range(1..=30), value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS, global = true)]
     pub digits: u32,
     /// Also plot this quantity against T and its relative errors, to SVG or
     /// PNG by the file's extension.
@@ -896,7 +896,7 @@ pub enum CountModel {
 #[derive(Debug, Args)]
 pub struct BoxShape {
     /// Number of dimensions, 1 to 3. Default: the number of --sides, or 3.
-    #[arg(long, value_name = "N")]
+    #[arg(long, value_parser = clap::value_parser!(u8).range(1..=3), value_name = "N")]
     pub dims: Option<u8>,
 
     /// Side lengths as ratios to the reference length L, one per dimension,
@@ -978,7 +978,7 @@ pub struct BoxLevels {
     /// Significant digits of the physical energies, correctly rounded, so
     /// every digit is right (1 to 60). Needs --mass and --side.
     /// [default: 10]
-    #[arg(long, value_name = "N", requires = "mass")]
+    #[arg(long, value_parser = clap::value_parser!(u32).range(1..=60), value_name = "N", requires = "mass")]
     pub digits: Option<u32>,
 
     /// Refuse listings estimated to need more memory than this, e.g. 512MiB,
@@ -1020,8 +1020,8 @@ pub struct MicrostatesArgs {
     #[arg(long, conflicts_with_all = ["system", "stats", "grid", "compare"])]
     pub einstein: bool,
     /// Number of particles (1 to 1000).
-    #[arg(long, value_name = "N")]
-    pub particles: u64,
+    #[arg(long, value_parser = clap::value_parser!(u32).range(1..=1000), value_name = "N")]
+    pub particles: u32,
     /// Statistics: bose, fermi or distinct (labelled).
     #[arg(long, value_name = "STATS", required_unless_present = "einstein")]
     pub stats: Option<String>,
@@ -1034,11 +1034,11 @@ pub struct MicrostatesArgs {
     pub grid: Option<String>,
     /// Number of energies at which to compare with the canonical ensemble
     /// (--einstein compares on every row).
-    #[arg(long, value_name = "K", default_value_t = 8)]
-    pub compare: usize,
+    #[arg(long, value_name = "K", default_value_t = 8, value_parser = clap::value_parser!(u32).range(0..=10000))]
+    pub compare: u32,
     /// Significant digits of S/k, kT and the canonical values, each
     /// certified (1 to 60).
-    #[arg(long, value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS)]
+    #[arg(long, value_parser = clap::value_parser!(u32).range(1..=60), value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS)]
     pub digits: u32,
     /// Refuse tables estimated to need more memory than this.
     #[arg(long, value_name = "SIZE", default_value = "2GiB")]
@@ -1055,8 +1055,8 @@ pub struct EnsembleArgs {
     #[arg(long, value_name = "FILE")]
     pub system: PathBuf,
     /// Number of particles (1 to 1000).
-    #[arg(long, value_name = "N")]
-    pub particles: u64,
+    #[arg(long, value_parser = clap::value_parser!(u32).range(1..=1000), value_name = "N")]
+    pub particles: u32,
     /// Statistics: bose, fermi or distinct (labelled).
     #[arg(long, value_name = "STATS")]
     pub stats: String,
@@ -1076,7 +1076,7 @@ pub struct EnsembleArgs {
     #[arg(long = "kT", value_name = "KT", allow_hyphen_values = true)]
     pub kt: Option<String>,
     /// Significant digits of every exact value, each certified (1 to 60).
-    #[arg(long, value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS)]
+    #[arg(long, value_parser = clap::value_parser!(u32).range(1..=60), value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS)]
     pub digits: u32,
     /// Tolerance on the relative error of q^N/N! in Q for the breakdown
     /// search, e.g. 1% or 0.01 (`--tol`, as in crossover and compare;
@@ -1125,12 +1125,12 @@ pub struct CensusArgs {
     /// Instead of the census, the error map of the Whitten–Rabinovitch
     /// approximation against the exact count of the modes, at this many
     /// energies spread up to the cutoff.
-    #[arg(long, value_name = "POINTS", conflicts_with = "convolve")]
-    pub error_map: Option<usize>,
+    #[arg(long, value_name = "POINTS", conflicts_with = "convolve", value_parser = clap::value_parser!(u32).range(1..=100000))]
+    pub error_map: Option<u32>,
     /// With --error-map: significant digits of the approximation's values
     /// and of the exact density (1 to 12). The approximation's values are
     /// floating-point evaluations, not certified.
-    #[arg(long, value_name = "N", default_value_t = zsum::report::APPROX_DIGITS, requires = "error_map")]
+    #[arg(long, value_parser = clap::value_parser!(u32).range(1..=12), value_name = "N", default_value_t = zsum::report::APPROX_DIGITS, requires = "error_map")]
     pub digits: u32,
     /// Refuse grids estimated to need more memory than this.
     #[arg(long, value_name = "SIZE", default_value = "2GiB")]

@@ -8,15 +8,36 @@ mod run;
 use clap::{CommandFactory, FromArgMatches};
 use std::io::Write;
 
+/// Every option that takes a value takes it as written, even when it
+/// starts with `-` (`--dims -1`, `--tol -1%`): the value is then refused by
+/// validation that names the option and what is allowed, not by the parser
+/// as an unknown argument.
+pub fn values_as_written(c: clap::Command) -> clap::Command {
+    let c = c.mut_args(|a| {
+        if a.get_action().takes_values() && !a.is_positional() {
+            a.allow_hyphen_values(true)
+        } else {
+            a
+        }
+    });
+    let names: Vec<String> = c
+        .get_subcommands()
+        .map(|s| s.get_name().to_string())
+        .collect();
+    names
+        .iter()
+        .fold(c, |c, n| c.mut_subcommand(n, values_as_written))
+}
+
 /// The whole command line, with `thermo --help` ending in the options of
 /// `thermo SPECIES` (a species name is taken as an external subcommand,
 /// which clap's help would not show).
 pub fn command() -> clap::Command {
-    let species = args::SpeciesThermo::command()
+    let species = values_as_written(args::SpeciesThermo::command())
         .override_usage("zsum thermo SPECIES --T <T> [OPTIONS]")
         .render_long_help()
         .to_string();
-    args::Cli::command().mut_subcommand("thermo", |t| {
+    values_as_written(args::Cli::command()).mut_subcommand("thermo", |t| {
         t.after_help(
             "A built-in species instead of a model: zsum thermo SPECIES --T <T> [--p P] \
              [--per mole|kg|particle] [--isomer STATE] [--model rovib|rrho] [--digits N] \
@@ -28,8 +49,29 @@ pub fn command() -> clap::Command {
     })
 }
 
-/// Runs the command line and returns the process exit status.
+/// Runs the command line and returns the process exit status. With the
+/// environment variable `ZSUM_PEAK_MEMORY` set, the process's own
+/// high-water mark of resident memory (Linux `VmHWM`) is written last to
+/// standard error, as `zsum: peak memory: N KiB`; the budget tests measure
+/// with it.
 pub fn main() -> i32 {
+    let status = run_command_line();
+    if std::env::var_os("ZSUM_PEAK_MEMORY").is_some() {
+        if let Some(kib) = peak_kib() {
+            eprintln!("zsum: peak memory: {kib} KiB");
+        }
+    }
+    status
+}
+
+/// The process's peak resident memory in KiB, where the system says.
+fn peak_kib() -> Option<u64> {
+    let status = std::fs::read_to_string("/proc/self/status").ok()?;
+    let line = status.lines().find(|l| l.starts_with("VmHWM:"))?;
+    line.split_whitespace().nth(1)?.parse().ok()
+}
+
+fn run_command_line() -> i32 {
     let parsed = command()
         .try_get_matches()
         .and_then(|m| args::Cli::from_arg_matches(&m));

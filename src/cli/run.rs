@@ -723,15 +723,20 @@ fn parse_pressure(text: &str) -> Result<BigRational> {
 }
 
 fn species_thermo(args: &[String]) -> Result<Option<String>> {
-    use clap::Parser;
-    let a = match SpeciesThermo::try_parse_from(args) {
+    use clap::{CommandFactory, FromArgMatches};
+    let parsed = super::values_as_written(SpeciesThermo::command())
+        .try_get_matches_from(args)
+        .and_then(|m| SpeciesThermo::from_arg_matches(&m));
+    let a = match parsed {
         Ok(a) => a,
         Err(e) if !e.use_stderr() => return Ok(Some(e.to_string())),
         Err(e) => {
-            return Err(Error::invalid(
-                "thermo",
-                args.join(" "),
-                e.render().to_string().trim_start_matches("error: ").trim(),
+            return Err(Error::new(
+                zsum::ErrorKind::Parse,
+                format!(
+                    "thermo SPECIES: {}",
+                    e.render().to_string().trim_start_matches("error: ").trim()
+                ),
             ))
         }
     };
@@ -812,7 +817,7 @@ fn microstates_cmd(a: MicrostatesArgs) -> Result<Option<String>> {
                 joules: None,
             };
             let up_to = cutoff_in(&a.up_to, &quanta)?;
-            let report = EinsteinReport::build(a.particles, &up_to, digits, &budget)?;
+            let report = EinsteinReport::build(u64::from(a.particles), &up_to, digits, &budget)?;
             return emit(render(&report, format(a.out.format))?, &a.out);
         }
     };
@@ -826,21 +831,21 @@ fn microstates_cmd(a: MicrostatesArgs) -> Result<Option<String>> {
         .transpose()?;
     let omega = microstates(
         &spectrum,
-        a.particles,
+        u64::from(a.particles),
         stats,
         &up_to,
         step.as_ref(),
         &budget,
     )?;
     let cached = zsum::sum::Cached::new(&spectrum);
-    let report = MicroReport::build(&cached, &omega, &up_to, a.compare, digits)?;
+    let report = MicroReport::build(&cached, &omega, &up_to, a.compare as usize, digits)?;
     emit(render(&report, format(a.out.format))?, &a.out)
 }
 
 fn ensemble_cmd(a: EnsembleArgs) -> Result<Option<String>> {
     use zsum::microstates::{check_particles, EnsembleReport, Statistics};
     let stats = Statistics::parse(&a.stats)?;
-    check_particles(a.particles)?;
+    check_particles(u64::from(a.particles))?;
     let (grid, kelvin) = match (&a.t, &a.kt) {
         (Some(t), _) => (parse_grid("--T", t)?, true),
         (None, Some(k)) => (parse_grid("--kT", k)?, false),
@@ -857,7 +862,7 @@ fn ensemble_cmd(a: EnsembleArgs) -> Result<Option<String>> {
     let sys = System::read(&a.system)?;
     let report = EnsembleReport::build_with_progress(
         &sys.product,
-        a.particles,
+        u64::from(a.particles),
         stats,
         &grid,
         kelvin,
@@ -880,7 +885,7 @@ fn census(a: CensusArgs) -> Result<Option<String>> {
         &budget,
     )?;
     if let Some(points) = a.error_map {
-        let report = CensusErrorMap::new(&c, &a.unit, points, a.digits)?;
+        let report = CensusErrorMap::new(&c, &a.unit, points as usize, a.digits)?;
         return emit(render(&report, format(a.out.format))?, &a.out);
     }
     let mut names = Vec::new();

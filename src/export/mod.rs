@@ -142,11 +142,27 @@ pub fn render<T: Serialize + Tabular>(result: &T, format: Format) -> Result<Stri
     }
 }
 
+/// Creates `path` new (never following an existing file), with the mode
+/// of `like` where given (Unix), else the default.
+fn create_with(path: &Path, like: Option<&std::fs::Permissions>) -> std::io::Result<std::fs::File> {
+    let mut o = std::fs::OpenOptions::new();
+    o.write(true).create_new(true);
+    #[cfg(unix)]
+    if let Some(p) = like {
+        use std::os::unix::fs::{OpenOptionsExt, PermissionsExt};
+        o.mode(p.mode() & 0o7777);
+    }
+    #[cfg(not(unix))]
+    let _ = like;
+    o.open(path)
+}
+
 /// Writes `contents` to `path` all at once: to a temporary file beside it,
 /// then renamed over it, so a failure never leaves a partial file. A
 /// symbolic link is followed to its target (the link stays); something that
 /// is not a regular file (a device, a FIFO) is written through, never
-/// replaced, and a failed write (e.g. a full device) is an error.
+/// replaced, and a failed write (e.g. a full device) is an error. A regular
+/// file that is replaced keeps its permission bits.
 pub fn write_atomic(path: &Path, contents: &str) -> Result<()> {
     let io_err = |e: std::io::Error, what: &str, p: &Path| {
         Error::new(
@@ -203,7 +219,23 @@ pub fn write_atomic(path: &Path, contents: &str) -> Result<()> {
         .to_string_lossy()
         .to_string();
     let tmp = dir.join(format!(".{name}.zsum-tmp-{}", std::process::id()));
-    std::fs::write(&tmp, contents).map_err(|e| io_err(e, "write", path))?;
+    // A replaced file keeps its permission bits: the new file is created
+    // with them, so a private (600) file is never readable by others, not
+    // even for a moment.
+    let old = std::fs::metadata(path).ok().map(|m| m.permissions());
+    let written = create_with(&tmp, old.as_ref()).and_then(|mut f| {
+        use std::io::Write;
+        f.write_all(contents.as_bytes())?;
+        f.sync_all()?;
+        if let Some(p) = &old {
+            std::fs::set_permissions(&tmp, p.clone())?;
+        }
+        Ok(())
+    });
+    if let Err(e) = written {
+        let _ = std::fs::remove_file(&tmp);
+        return Err(io_err(e, "write", path));
+    }
     std::fs::rename(&tmp, path).map_err(|e| {
         let _ = std::fs::remove_file(&tmp);
         io_err(e, "write", path)

@@ -46,7 +46,7 @@
 //! energy     = number | number "/" number
 //! number     = ["+" | "-"] digits ["." [digits]] [exponent] | ["+" | "-"] "." digits [exponent]
 //! exponent   = ("e" | "E") ["+" | "-"] digit {digit}          (at most 6 digits; see above)
-//! digits     = digit {digit | "_"}
+//! digits     = digit {digit}                                  (no "_" separators)
 //! unit       = "J" | "eV" | "meV" | "cm-1" | "cm^-1" | "1/cm" | "cm⁻¹" | "K" | "kJ/mol"
 //! degeneracy = digit {digit}                                  (value at least 1)
 //! label      = word {ws word}                                 (no "#", no control characters)
@@ -80,7 +80,6 @@ use crate::units::EnergyUnit;
 use num_bigint::BigUint;
 use num_rational::BigRational;
 use num_traits::{Signed, ToPrimitive, Zero};
-use std::io::Read;
 use std::path::Path;
 
 /// The most states [`Spectrum::states_at`] lists one by one for a level;
@@ -92,8 +91,8 @@ pub const MAX_LISTED_STATES: u64 = 1_000_000;
 /// characters, so a corrupt file cannot ask for a giant number.
 pub const MAX_FIELD_CHARS: usize = 1000;
 
-/// The largest level file [`LevelFile::read`] accepts, in bytes (64 MiB).
-pub const MAX_FILE_BYTES: u64 = 64 << 20;
+/// The largest level file [`LevelFile::read`] accepts, in bytes (32 MiB).
+pub const MAX_FILE_BYTES: u64 = crate::input::MAX_LEVEL_BYTES;
 
 /// Bytes per level in a level list (exact energy and degeneracy).
 const LEVEL_BYTES: f64 = 128.0;
@@ -383,38 +382,7 @@ impl LevelFile {
     pub fn read(path: impl AsRef<Path>) -> Result<Self> {
         let path = path.as_ref();
         let name = path.display().to_string();
-        let io = |e: std::io::Error| {
-            Error::new(
-                ErrorKind::Io,
-                format!("cannot read the level file {name}: {e}"),
-            )
-        };
-        let file = std::fs::File::open(path).map_err(io)?;
-        let mut bytes = Vec::new();
-        file.take(MAX_FILE_BYTES + 1)
-            .read_to_end(&mut bytes)
-            .map_err(io)?;
-        if bytes.len() as u64 > MAX_FILE_BYTES {
-            return Err(Error::new(
-                ErrorKind::Io,
-                format!(
-                    "the level file {name} is larger than {} MiB, the most zsum reads; a \
-                     level list is far smaller",
-                    MAX_FILE_BYTES >> 20
-                ),
-            ));
-        }
-        let text = String::from_utf8(bytes).map_err(|e| {
-            let good = e.utf8_error().valid_up_to();
-            let line = e.as_bytes()[..good].iter().filter(|&&b| b == b'\n').count() + 1;
-            Error::new(
-                ErrorKind::Parse,
-                format!(
-                    "line {line} of {name}: not valid UTF-8 text (at byte {good}); save the \
-                     file as UTF-8"
-                ),
-            )
-        })?;
+        let text = crate::input::read_text(path, "level file", MAX_FILE_BYTES)?;
         Self::parse(&text, &name)
     }
 

@@ -590,12 +590,8 @@ impl Database {
 
     /// Species from TOML text in zsum's species format.
     pub fn parse(text: &str, source: &str) -> Result<Self> {
-        let db: FileDb = toml::from_str(text).map_err(|e| {
-            Error::new(
-                ErrorKind::Parse,
-                format!("{source}: {}", e.to_string().trim_end()),
-            )
-        })?;
+        let db: FileDb =
+            toml::from_str(text).map_err(|e| crate::input::toml_error(source, text, &e))?;
         let mut species: Vec<Species> = Vec::new();
         for f in db.species {
             let name = f.name.clone();
@@ -615,15 +611,7 @@ impl Database {
 
     /// Adds the species of a file; a name already present is refused.
     pub fn add_file(&mut self, path: &Path) -> Result<()> {
-        let text = std::fs::read_to_string(path).map_err(|e| {
-            Error::new(
-                ErrorKind::Io,
-                format!(
-                    "cannot read species file {:?}: {e}",
-                    path.display().to_string()
-                ),
-            )
-        })?;
+        let text = crate::input::read_text(path, "species file", crate::input::MAX_SPECIES_BYTES)?;
         let more = Self::parse(&text, &path.display().to_string())?;
         for s in more.species {
             if self.species.iter().any(|t| t.name == s.name) {
