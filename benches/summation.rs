@@ -102,7 +102,7 @@ fn cold_sweep(c: &mut Criterion) {
                         zsum::sum::DEFAULT_MAX_BITS,
                         None,
                         true,
-                        &mut |_| {},
+                        &zsum::budget::Meter::unlimited(),
                     )
                     .unwrap(),
                 )

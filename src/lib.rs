@@ -25,6 +25,7 @@
 //! ```
 //!
 //! ## Layout
+//! - [`budget`]: memory and time budgets, estimates checked before work.
 //! - [`units`]: exact SI constants and energy units.
 //! - [`input`]: reading user files, capped, with short excerpts in messages.
 //! - [`level`]: [`level::LevelList`], exact and sorted.
@@ -40,6 +41,7 @@
 #![forbid(unsafe_code)]
 #![warn(missing_docs)]
 
+pub mod budget;
 pub mod classical;
 pub mod counting;
 pub mod error;

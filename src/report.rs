@@ -142,18 +142,19 @@ impl LevelsReport {
         budget: &Budget,
     ) -> Result<Self> {
         let unit_value = scale.map(|s| s.unit_value()).transpose()?;
+        let listed = budget.with_output(LISTED_LEVEL_BYTES, LISTED_STATE_BYTES);
         let rows: Vec<(
             crate::models::particle_box::ClassifiedLevel,
             Option<Vec<State>>,
         )> = if with_states {
             model
-                .levels_with_states(cutoff, budget)?
+                .levels_with_states(cutoff, &listed)?
                 .into_iter()
                 .map(|(l, s)| (l, Some(s)))
                 .collect()
         } else {
             model
-                .classified_levels(cutoff, budget)?
+                .classified_levels(cutoff, &listed)?
                 .into_iter()
                 .map(|l| (l, None))
                 .collect()
@@ -317,10 +318,11 @@ impl CountReport {
 }
 
 impl CountReport {
-    /// Counts the states of `model` up to `cutoff` exactly and compares the
-    /// count with Weyl's law.
-    pub fn for_box(model: &ParticleInBox, cutoff: &BigRational) -> Result<Self> {
-        let n = model.count_up_to(cutoff)?;
+    /// Counts the states of `model` up to `cutoff` exactly (refusing counts
+    /// estimated beyond `budget`'s time) and compares the count with Weyl's
+    /// law.
+    pub fn for_box(model: &ParticleInBox, cutoff: &BigRational, budget: &Budget) -> Result<Self> {
+        let n = model.count_up_to_within(cutoff, budget)?;
         let nf = n.to_f64().unwrap_or(f64::INFINITY);
         let weyl = model.weyl_estimate(cutoff.to_f64().unwrap_or(f64::INFINITY));
         let gap = if nf > 0.0 {
@@ -388,6 +390,17 @@ pub fn check_digits(digits: u32) -> Result<u32> {
     }
 }
 
+/// What one listed level costs in memory after it is listed: its row in
+/// the answer, its cells in the rendered table or JSON, and its share of
+/// the output text (measured: about 500 bytes for a level of a rotor, a box
+/// or a multiplet; counted with room).
+pub const LISTED_LEVEL_BYTES: f64 = 640.0;
+
+/// What one listed state costs after it is listed: its quantum numbers in
+/// the answer and their text (measured: about 100 bytes for two or three
+/// numbers).
+pub const LISTED_STATE_BYTES: f64 = 160.0;
+
 /// Options for a generic level listing.
 #[derive(Debug, Clone)]
 pub struct ListOptions {
@@ -425,14 +438,50 @@ pub struct SpectrumLevelRow {
     /// Labels of the level (from a level file), if any.
     #[serde(skip_serializing_if = "Vec::is_empty")]
     pub labels: Vec<String>,
-    /// The terms at this energy, each as its named quantum numbers (e.g.
-    /// `{"J": 3}`), for models that label levels (see
-    /// [`Spectrum::term_numbers`]).
+    /// The terms at this energy, each as the values of the report's
+    /// `term_numbers` (e.g. `[3]` for J = 3), for models that label levels
+    /// (see [`Spectrum::term_numbers`]).
     #[serde(skip_serializing_if = "Vec::is_empty")]
-    pub terms: Vec<serde_json::Map<String, serde_json::Value>>,
-    /// The states, each as named quantum numbers, when asked for.
+    pub terms: Vec<Vec<i64>>,
+    /// The states, each as the values of the report's `quantum_numbers`,
+    /// when asked for.
     #[serde(skip_serializing_if = "Option::is_none")]
-    pub states: Option<Vec<serde_json::Map<String, serde_json::Value>>>,
+    pub states: Option<Vec<Vec<Quantum>>>,
+}
+
+/// A quantum number's value: whole, or a half-integer such as m_J = −1/2,
+/// which JSON carries exactly as `-0.5`.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[serde(untagged)]
+pub enum Quantum {
+    /// An integer.
+    Whole(i64),
+    /// A half-integer (an odd number of halves).
+    Half(f64),
+}
+
+impl Quantum {
+    /// The value stored in a [`State`]: `doubled` numbers are kept as twice
+    /// their value.
+    pub fn from_stored(value: i64, doubled: bool) -> Self {
+        if !doubled {
+            Quantum::Whole(value)
+        } else if value % 2 == 0 {
+            Quantum::Whole(value / 2)
+        } else {
+            Quantum::Half(value as f64 / 2.0)
+        }
+    }
+}
+
+impl std::fmt::Display for Quantum {
+    /// `3`, or `-1/2` for a half-integer.
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        match self {
+            Quantum::Whole(v) => write!(f, "{v}"),
+            Quantum::Half(x) => write!(f, "{}/2", (x * 2.0) as i64),
+        }
+    }
 }
 
 /// The answer to "which levels lie up to this energy?" for any spectrum.
@@ -467,28 +516,6 @@ pub struct SpectrumLevelsReport {
     pub units: serde_json::Map<String, serde_json::Value>,
 }
 
-/// A quantum number as JSON: an integer, or a half-integer (stored doubled)
-/// as a number such as -0.5, which JSON carries exactly.
-fn quantum_json(value: i64, doubled: bool) -> serde_json::Value {
-    if !doubled {
-        serde_json::Value::from(value)
-    } else if value % 2 == 0 {
-        serde_json::Value::from(value / 2)
-    } else {
-        serde_json::Value::from(value as f64 / 2.0)
-    }
-}
-
-fn quantum_text(value: i64, doubled: bool) -> String {
-    if doubled && value % 2 != 0 {
-        format!("{value}/2")
-    } else if doubled {
-        (value / 2).to_string()
-    } else {
-        value.to_string()
-    }
-}
-
 impl SpectrumLevelsReport {
     /// Lists the levels of any spectrum up to `cutoff` (in its unit).
     ///
@@ -501,7 +528,9 @@ impl SpectrumLevelsReport {
     /// let opts = ListOptions { with_states: true, ..Default::default() };
     /// let r = SpectrumLevelsReport::build("rotor", &rotor, &parse_rational("4").unwrap(), &opts).unwrap();
     /// assert_eq!(r.levels[1].degeneracy, "3");
-    /// assert_eq!(r.levels[1].states.as_ref().unwrap()[0]["M"], -1);
+    /// // States as (J, M): the first of J = 1 is M = −1.
+    /// assert_eq!(r.quantum_numbers, ["J", "M"]);
+    /// assert_eq!(r.levels[1].states.as_ref().unwrap()[0][1].to_string(), "-1");
     /// ```
     pub fn build(
         model: &str,
@@ -509,15 +538,20 @@ impl SpectrumLevelsReport {
         cutoff: &BigRational,
         opts: &ListOptions,
     ) -> Result<Self> {
-        let list = spectrum.levels_within(cutoff, &opts.budget)?;
+        let budget = opts
+            .budget
+            .with_output(LISTED_LEVEL_BYTES, LISTED_STATE_BYTES);
+        let list = spectrum.levels_within(cutoff, &budget)?;
         if opts.with_states {
             let states = spectrum
                 .count_bound(cutoff)
                 .to_f64()
                 .unwrap_or(f64::INFINITY);
-            opts.budget.check(
+            budget.check_listing(
                 &format!("listing every state up to {}", rational_string(cutoff)),
-                states * 160.0,
+                0.0,
+                list.len() as f64,
+                states,
                 "drop --states to list levels only, or give a lower cutoff",
             )?;
         }
@@ -531,33 +565,30 @@ impl SpectrumLevelsReport {
         let term_names = spectrum.term_numbers();
         let mut terms: std::collections::BTreeMap<BigRational, Vec<Vec<i64>>> = Default::default();
         if !term_names.is_empty() {
-            for (e, t) in spectrum.terms_within(cutoff, &opts.budget)? {
+            for (e, t) in spectrum.terms_within(cutoff, &budget)? {
                 terms.entry(e).or_default().push(t);
             }
         }
-        let term_json = |values: &[i64]| -> serde_json::Map<String, serde_json::Value> {
-            term_names
-                .iter()
-                .zip(values)
-                .map(|(n, v)| (n.clone(), serde_json::Value::from(*v)))
-                .collect()
-        };
         let mut levels = Vec::with_capacity(list.len());
         for l in list.iter() {
             let states = if opts.with_states {
-                let mut rows = Vec::new();
-                for s in spectrum.states_at(&l.energy)? {
-                    let mut m = serde_json::Map::new();
-                    for (i, v) in s.0.iter().enumerate() {
-                        let name = names.get(i).cloned().unwrap_or_else(|| format!("q{i}"));
-                        m.insert(
-                            name,
-                            quantum_json(*v, doubled.get(i).copied().unwrap_or(false)),
-                        );
-                    }
-                    rows.push(m);
-                }
-                Some(rows)
+                let states = spectrum.states_at(&l.energy)?;
+                Some(
+                    states
+                        .iter()
+                        .map(|s| {
+                            s.0.iter()
+                                .enumerate()
+                                .map(|(i, v)| {
+                                    Quantum::from_stored(
+                                        *v,
+                                        doubled.get(i).copied().unwrap_or(false),
+                                    )
+                                })
+                                .collect()
+                        })
+                        .collect(),
+                )
             } else {
                 None
             };
@@ -569,10 +600,10 @@ impl SpectrumLevelsReport {
                 degeneracy: l.degeneracy.to_string(),
                 labels: spectrum.labels_at(&l.energy),
                 terms: terms
-                    .get_mut(&l.energy)
-                    .map(|t| {
+                    .remove(&l.energy)
+                    .map(|mut t| {
                         t.sort();
-                        t.iter().map(|v| term_json(v)).collect()
+                        t
                     })
                     .unwrap_or_default(),
                 states,
@@ -663,7 +694,7 @@ impl Tabular for SpectrumLevelsReport {
                     let cells: Vec<String> = l
                         .terms
                         .iter()
-                        .map(|m| m.values().map(|x| x.to_string()).collect::<Vec<_>>())
+                        .map(|t| t.iter().map(|x| x.to_string()).collect::<Vec<_>>())
                         .map(|v| {
                             if v.len() == 1 {
                                 v[0].clone()
@@ -681,16 +712,8 @@ impl Tabular for SpectrumLevelsReport {
                 if let Some(states) = &l.states {
                     let cells: Vec<String> = states
                         .iter()
-                        .map(|m| {
-                            let v: Vec<String> = m
-                                .values()
-                                .map(|x| match x.as_f64() {
-                                    Some(f) if f.fract() != 0.0 => {
-                                        quantum_text((f * 2.0) as i64, true)
-                                    }
-                                    _ => x.to_string(),
-                                })
-                                .collect();
+                        .map(|st| {
+                            let v: Vec<String> = st.iter().map(|x| x.to_string()).collect();
                             format!("({})", v.join(","))
                         })
                         .collect();

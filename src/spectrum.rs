@@ -19,65 +19,7 @@ use serde::{Deserialize, Serialize};
 #[serde(transparent)]
 pub struct State(pub Vec<i64>);
 
-/// A limit on the memory that one enumeration may use.
-///
-/// Work is estimated before it starts (for a box, from Weyl's law); work
-/// whose estimate exceeds the budget is refused with advice instead of
-/// exhausting the machine.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub struct Budget {
-    bytes: u64,
-}
-
-impl Budget {
-    /// The default budget, 2 GiB.
-    pub const DEFAULT_BYTES: u64 = 2 << 30;
-
-    /// A budget of `bytes` bytes.
-    pub fn bytes(bytes: u64) -> Self {
-        Budget { bytes }
-    }
-
-    /// The budget in bytes.
-    pub fn limit(&self) -> u64 {
-        self.bytes
-    }
-
-    /// Refuses work estimated at `estimate` bytes if it exceeds the budget;
-    /// `what` names the work and `advice` says how to proceed.
-    pub fn check(&self, what: &str, estimate: f64, advice: &str) -> Result<()> {
-        if estimate > self.bytes as f64 {
-            Err(Error::budget(format!(
-                "{what} would need about {} of memory, more than the budget of {}; {advice}",
-                human_bytes(estimate),
-                human_bytes(self.bytes as f64)
-            )))
-        } else {
-            Ok(())
-        }
-    }
-}
-
-impl Default for Budget {
-    fn default() -> Self {
-        Budget::bytes(Self::DEFAULT_BYTES)
-    }
-}
-
-/// Writes a byte count as e.g. `"1.5 GiB"`.
-pub fn human_bytes(b: f64) -> String {
-    const UNITS: [&str; 6] = ["B", "KiB", "MiB", "GiB", "TiB", "PiB"];
-    let mut v = b;
-    let mut i = 0;
-    while v >= 1024.0 && i + 1 < UNITS.len() {
-        v /= 1024.0;
-        i += 1;
-    }
-    if i == UNITS.len() - 1 && v >= 1024.0 {
-        return format!("{b:.1e} B");
-    }
-    format!("{v:.1} {}", UNITS[i])
-}
+pub use crate::budget::{human_bytes, Budget};
 
 /// A quantum system whose levels can be enumerated exactly.
 pub trait Spectrum {

@@ -6,11 +6,12 @@
 //! R = k N_A exact (SI 2019). Every value is printed to the requested digits
 //! and flagged unless both ends of its error interval round alike.
 
+use crate::budget::Meter;
 use crate::error::{Error, Result};
 use crate::exact::{exact_decimal, parse_rational};
 use crate::export::{units_block, Column, Tabular};
 use crate::spectrum::Spectrum;
-use crate::sum::{reformat, scaled_decimal, thermo_limited, Path, Temperature, ThermoPoint};
+use crate::sum::{reformat, scaled_decimal, thermo_metered, Path, Temperature, ThermoPoint};
 use crate::units::constants;
 use num_bigint::BigInt;
 use num_rational::BigRational;
@@ -217,9 +218,11 @@ pub struct ThermoReport {
 impl ThermoReport {
     /// Evaluates `spectrum` at every temperature of `grid` (kelvin when
     /// `kelvin`, else kT in the spectrum's unit), to `digits` certified
-    /// digits; `per` adds physical values (kelvin only). `progress` is told
-    /// how many temperatures are done. `max_bits` is the effort limit of
-    /// [`crate::sum::thermo_limited`].
+    /// digits; `per` adds physical values (kelvin only). `meter` times the
+    /// grid (hottest, costliest, first; parts of a product count as
+    /// fractions of a step), tells its observer how far it is, and refuses
+    /// the rest once the projected time exceeds its budget. `max_bits` is
+    /// the effort limit of [`crate::sum::thermo_limited`].
     #[allow(clippy::too_many_arguments)]
     pub fn build(
         model: &str,
@@ -230,7 +233,7 @@ impl ThermoReport {
         max_bits: u32,
         per: Option<Per>,
         functions: bool,
-        progress: &mut dyn FnMut(usize),
+        meter: &Meter,
     ) -> Result<Self> {
         if per.is_some() && !kelvin {
             return Err(Error::invalid(
@@ -273,7 +276,14 @@ impl ThermoReport {
             // is recomputed with more digits (tighter balls).
             let mut extra = 0;
             let (mut point, u, cv, s, f) = loop {
-                let wide = thermo_limited(&cached, &temp, digits + extra, Path::Auto, max_bits)?;
+                let wide = thermo_metered(
+                    &cached,
+                    &temp,
+                    digits + extra,
+                    Path::Auto,
+                    max_bits,
+                    Some((meter, count as f64)),
+                )?;
                 let mut point = reformat(&wide, digits);
                 let mut ok = point.certified;
                 let mut re = |b: &crate::sum::ball::Ball, f: &BigRational| {
@@ -298,7 +308,7 @@ impl ThermoReport {
             };
             point.t = exact_decimal(t, 40);
             done[i] = Some(ThermoRow { point, u, cv, s, f });
-            progress(count + 1);
+            meter.at(count as f64 + 1.0)?;
         }
         rows.extend(done.into_iter().flatten());
         let energy_unit = spectrum.unit().symbol().to_string();

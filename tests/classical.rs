@@ -209,7 +209,15 @@ fn box_euler_maclaurin_error_is_exponentially_small() {
     let b = ParticleInBox::new(vec![r("1")]).unwrap();
     let c = Classical::new(&b).unwrap();
     let grid = vec![r("1"), r("2"), r("4"), r("10")];
-    let map = compare(&c, &[0, 1], &grid, false, 12, &mut |_| {}).unwrap();
+    let map = compare(
+        &c,
+        &[0, 1],
+        &grid,
+        false,
+        12,
+        &zsum::budget::Meter::unlimited(),
+    )
+    .unwrap();
     for (row, kt) in map.rows.iter().zip([1.0f64, 2.0, 4.0, 10.0]) {
         let a = 1.0 / kt;
         let pi = std::f64::consts::PI;

@@ -220,7 +220,7 @@ fn grids_name_the_offending_level() {
         Statistics::Bose,
         &r("100000"),
         None,
-        &Budget::bytes(1 << 20),
+        &Budget::bytes(32 << 20),
     )
     .unwrap_err();
     assert_eq!(e.kind(), ErrorKind::Budget);

@@ -680,7 +680,7 @@ fn map(spectrum: &dyn Spectrum, grid: &str, kelvin: bool) -> CompareReport {
         &parse_grid("--T", grid).unwrap(),
         kelvin,
         8,
-        &mut |_| {},
+        &zsum::budget::Meter::unlimited(),
     )
     .unwrap()
 }
@@ -806,7 +806,15 @@ fn an_error_panel_with_nothing_resolved_says_so() {
     let c = Classical::new(&ho).unwrap();
     let order4 = c.find("order4").unwrap();
     let grid = parse_grid("--T", "log:100000000:1000000000:3").unwrap();
-    let report = compare(&c, &[order4], &grid, true, 8, &mut |_| {}).unwrap();
+    let report = compare(
+        &c,
+        &[order4],
+        &grid,
+        true,
+        8,
+        &zsum::budget::Meter::unlimited(),
+    )
+    .unwrap();
     let panels = figure::panels(&report, Quantity::Cv, 0.01);
     assert!(
         panels[1].title.contains("none above 1e-37"),

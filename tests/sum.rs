@@ -342,7 +342,7 @@ fn sweeps_reuse_levels_without_changing_a_digit() {
         zsum::sum::DEFAULT_MAX_BITS,
         None,
         true,
-        &mut |_| {},
+        &zsum::budget::Meter::unlimited(),
     )
     .unwrap();
     assert_eq!(rep.rows.len(), 4);

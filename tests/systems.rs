@@ -106,27 +106,26 @@ fn zsum(args: &[&str]) -> (i32, String, String) {
 }
 
 #[test]
-fn cli_lists_every_model_as_json_with_named_quantum_numbers() {
+fn cli_lists_every_model_as_json_with_its_quantum_numbers() {
     let (code, out, _) = zsum(&[
         "levels", "rotor", "--B", "2", "--up-to", "12", "--states", "--format", "json",
     ]);
     assert_eq!(code, 0);
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();
     assert_eq!(v["levels"][1]["energy"], "4");
-    assert_eq!(
-        v["levels"][1]["states"][0],
-        serde_json::json!({"J": 1, "M": -1})
-    );
+    // States are arrays in the order of quantum_numbers.
+    assert_eq!(v["quantum_numbers"], serde_json::json!(["J", "M"]));
+    assert_eq!(v["levels"][1]["states"][0], serde_json::json!([1, -1]));
+    assert_eq!(v["term_numbers"], serde_json::json!(["J"]));
+    assert_eq!(v["levels"][1]["terms"], serde_json::json!([[1]]));
     let (code, out, _) = zsum(&[
         "levels", "diatomic", "--we", "2000", "--wexe", "10", "--Be", "2", "--alpha", "0.02",
         "--up-to", "1200", "--states", "--format", "json",
     ]);
     assert_eq!(code, 0, "{out}");
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();
-    assert_eq!(
-        v["levels"][0]["states"][0],
-        serde_json::json!({"v": 0, "J": 0, "M": 0})
-    );
+    assert_eq!(v["quantum_numbers"], serde_json::json!(["v", "J", "M"]));
+    assert_eq!(v["levels"][0]["states"][0], serde_json::json!([0, 0, 0]));
     for args in [
         vec!["levels", "top", "--A", "5", "--B", "1", "--up-to", "20"],
         vec!["levels", "top", "--spherical", "--B", "5", "--up-to", "100"],

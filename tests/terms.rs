@@ -57,11 +57,7 @@ fn rotor_terms_are_j() {
     // E = B J(J+1): 0, 4, 12, 24 for J = 0..3.
     let rep =
         SpectrumLevelsReport::build("rotor", &rotor, &r("30"), &ListOptions::default()).unwrap();
-    let js: Vec<i64> = rep
-        .levels
-        .iter()
-        .map(|l| l.terms[0]["J"].as_i64().unwrap())
-        .collect();
+    let js: Vec<i64> = rep.levels.iter().map(|l| l.terms[0][0]).collect();
     assert_eq!(js, [0, 1, 2, 3]);
     // Para hydrogen-like weights (even J only): J = 0, 2, 4.
     let para =

@@ -125,7 +125,7 @@ pub fn compare(
     grid: &[BigRational],
     kelvin: bool,
     digits: u32,
-    observe: &mut dyn FnMut(usize),
+    meter: &crate::budget::Meter,
 ) -> Result<CompareReport> {
     if !(1..=30).contains(&digits) {
         return Err(crate::error::Error::invalid(
@@ -216,7 +216,7 @@ pub fn compare(
             x: num_traits::ToPrimitive::to_f64(&x).unwrap_or(f64::NAN),
             t_value: num_traits::ToPrimitive::to_f64(&grid[g]).unwrap_or(f64::NAN),
         });
-        observe(done + 1);
+        meter.at(done as f64 + 1.0)?;
     }
     let unit = c.spectrum().unit().to_string();
     Ok(CompareReport {

@@ -161,6 +161,11 @@ pub struct ListArgs {
     /// Refuse listings estimated to need more memory than this.
     #[arg(long, value_name = "SIZE", default_value = "2GiB")]
     pub memory_budget: String,
+    /// Refuse work estimated to take longer than this (e.g. 30s, 5min, 2h);
+    /// accepted work that runs more than a moment shows a progress bar on a
+    /// terminal.
+    #[arg(long, value_name = "TIME", default_value = "5min")]
+    pub time_budget: String,
 
     /// Output options.
     #[command(flatten)]
@@ -199,6 +204,11 @@ pub struct SystemLevels {
     /// Refuse listings estimated to need more memory than this.
     #[arg(long, value_name = "SIZE", default_value = "2GiB")]
     pub memory_budget: String,
+    /// Refuse work estimated to take longer than this (e.g. 30s, 5min, 2h);
+    /// accepted work that runs more than a moment shows a progress bar on a
+    /// terminal.
+    #[arg(long, value_name = "TIME", default_value = "5min")]
+    pub time_budget: String,
 
     /// Output format.
     #[arg(long, value_enum, default_value_t = FormatArg::Table)]
@@ -597,6 +607,11 @@ pub struct SpeciesThermo {
     /// Output options.
     #[command(flatten)]
     pub out: Output,
+    /// Refuse work estimated to take longer than this (e.g. 30s, 5min, 2h);
+    /// accepted work that runs more than a moment shows a progress bar on a
+    /// terminal.
+    #[arg(long, value_name = "TIME", default_value = "5min")]
+    pub time_budget: String,
 }
 
 /// The amount a species' functions are given for.
@@ -661,6 +676,11 @@ pub struct HydrogenArgs {
     /// Output options.
     #[command(flatten)]
     pub out: Output,
+    /// Refuse work estimated to take longer than this (e.g. 30s, 5min, 2h);
+    /// accepted work that runs more than a moment shows a progress bar on a
+    /// terminal.
+    #[arg(long, value_name = "TIME", default_value = "5min")]
+    pub time_budget: String,
 }
 
 /// Temperatures, precision and output for `sum` and `thermo`.
@@ -699,6 +719,11 @@ pub struct TempArgs {
     /// Output options.
     #[command(flatten)]
     pub out: Output,
+    /// Refuse work estimated to take longer than this (e.g. 30s, 5min, 2h);
+    /// accepted work that runs more than a moment shows a progress bar on a
+    /// terminal.
+    #[arg(long, value_name = "TIME", default_value = "5min")]
+    pub time_budget: String,
 }
 
 /// Physical units for thermodynamic functions.
@@ -759,6 +784,11 @@ pub struct SystemThermo {
     /// Write to this file instead of standard output (atomically).
     #[arg(long, short = 'o', value_name = "FILE")]
     pub output: Option<PathBuf>,
+    /// Refuse work estimated to take longer than this (e.g. 30s, 5min, 2h);
+    /// accepted work that runs more than a moment shows a progress bar on a
+    /// terminal.
+    #[arg(long, value_name = "TIME", default_value = "5min")]
+    pub time_budget: String,
 }
 
 /// Models with classical limits, for `crossover` and `compare`.
@@ -825,6 +855,11 @@ pub struct CrossoverArgs {
     /// Write to this file instead of standard output (atomically).
     #[arg(long, short = 'o', value_name = "FILE", global = true)]
     pub output: Option<PathBuf>,
+    /// Refuse work estimated to take longer than this (e.g. 30s, 5min, 2h);
+    /// accepted work that runs more than a moment shows a progress bar on a
+    /// terminal.
+    #[arg(long, value_name = "TIME", default_value = "5min", global = true)]
+    pub time_budget: String,
 }
 
 /// Options of `zsum compare`.
@@ -883,6 +918,11 @@ pub struct CompareArgs {
     /// Write to this file instead of standard output (atomically).
     #[arg(long, short = 'o', value_name = "FILE", global = true)]
     pub output: Option<PathBuf>,
+    /// Refuse work estimated to take longer than this (e.g. 30s, 5min, 2h);
+    /// accepted work that runs more than a moment shows a progress bar on a
+    /// terminal.
+    #[arg(long, value_name = "TIME", default_value = "5min", global = true)]
+    pub time_budget: String,
 }
 
 /// Models for `count`.
@@ -985,6 +1025,11 @@ pub struct BoxLevels {
     /// 4GiB.
     #[arg(long, value_name = "SIZE", default_value = "2GiB")]
     pub memory_budget: String,
+    /// Refuse work estimated to take longer than this (e.g. 30s, 5min, 2h);
+    /// accepted work that runs more than a moment shows a progress bar on a
+    /// terminal.
+    #[arg(long, value_name = "TIME", default_value = "5min")]
+    pub time_budget: String,
 
     /// Output options.
     #[command(flatten)]
@@ -1006,6 +1051,11 @@ pub struct BoxCount {
     /// Output options.
     #[command(flatten)]
     pub out: Output,
+    /// Refuse work estimated to take longer than this (e.g. 30s, 5min, 2h);
+    /// accepted work that runs more than a moment shows a progress bar on a
+    /// terminal.
+    #[arg(long, value_name = "TIME", default_value = "5min")]
+    pub time_budget: String,
 }
 
 /// `zsum microstates`.
@@ -1043,6 +1093,11 @@ pub struct MicrostatesArgs {
     /// Refuse tables estimated to need more memory than this.
     #[arg(long, value_name = "SIZE", default_value = "2GiB")]
     pub memory_budget: String,
+    /// Refuse work estimated to take longer than this (e.g. 30s, 5min, 2h);
+    /// accepted work that runs more than a moment shows a progress bar on a
+    /// terminal.
+    #[arg(long, value_name = "TIME", default_value = "5min")]
+    pub time_budget: String,
     /// Output options.
     #[command(flatten)]
     pub out: Output,
@@ -1091,6 +1146,11 @@ pub struct EnsembleArgs {
     /// Output options.
     #[command(flatten)]
     pub out: Output,
+    /// Refuse work estimated to take longer than this (e.g. 30s, 5min, 2h);
+    /// accepted work that runs more than a moment shows a progress bar on a
+    /// terminal.
+    #[arg(long, value_name = "TIME", default_value = "5min")]
+    pub time_budget: String,
 }
 
 /// `zsum census`.
@@ -1135,6 +1195,11 @@ pub struct CensusArgs {
     /// Refuse grids estimated to need more memory than this.
     #[arg(long, value_name = "SIZE", default_value = "2GiB")]
     pub memory_budget: String,
+    /// Refuse work estimated to take longer than this (e.g. 30s, 5min, 2h);
+    /// accepted work that runs more than a moment shows a progress bar on a
+    /// terminal.
+    #[arg(long, value_name = "TIME", default_value = "5min")]
+    pub time_budget: String,
     /// Output options.
     #[command(flatten)]
     pub out: Output,

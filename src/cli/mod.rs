@@ -52,13 +52,17 @@ pub fn command() -> clap::Command {
 /// Runs the command line and returns the process exit status. With the
 /// environment variable `ZSUM_PEAK_MEMORY` set, the process's own
 /// high-water mark of resident memory (Linux `VmHWM`) is written last to
-/// standard error, as `zsum: peak memory: N KiB`; the budget tests measure
-/// with it.
+/// standard error with the largest memory estimate any stage was checked
+/// against, as `zsum: peak memory: N KiB; largest estimate: M KiB`; the
+/// budget tests measure with it.
 pub fn main() -> i32 {
     let status = run_command_line();
     if std::env::var_os("ZSUM_PEAK_MEMORY").is_some() {
         if let Some(kib) = peak_kib() {
-            eprintln!("zsum: peak memory: {kib} KiB");
+            eprintln!(
+                "zsum: peak memory: {kib} KiB; largest estimate: {} KiB",
+                zsum::budget::largest_estimate() / 1024
+            );
         }
     }
     status

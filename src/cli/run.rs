@@ -10,6 +10,7 @@ use super::args::{
 };
 use num_rational::BigRational;
 use num_traits::Zero;
+use zsum::budget::Meter;
 use zsum::classical::{crossovers, parse_tolerance, Classical, Quantity, SearchRange};
 use zsum::error::{Error, Result};
 use zsum::exact::parse_rational;
@@ -164,7 +165,7 @@ fn emit(text: String, out: &Output) -> Result<Option<String>> {
 fn levels_box(a: BoxLevels) -> Result<Option<String>> {
     let model = box_model(&a.shape)?;
     let cut = cutoff(&a.up_to)?;
-    let budget = parse_budget(&a.memory_budget)?;
+    let budget = budgets(&a.memory_budget, &a.time_budget)?;
     let scale = match (&a.mass, &a.side) {
         (Some(m), Some(s)) => Some(BoxScale {
             mass_text: m.clone(),
@@ -183,7 +184,7 @@ fn levels_box(a: BoxLevels) -> Result<Option<String>> {
 fn count_box(a: BoxCount) -> Result<Option<String>> {
     let model = box_model(&a.shape)?;
     let cut = cutoff(&a.up_to)?;
-    let report = CountReport::for_box(&model, &cut)?;
+    let report = CountReport::for_box(&model, &cut, &time_budget(&a.time_budget)?)?;
     emit(render(&report, format(a.out.format))?, &a.out)
 }
 
@@ -226,7 +227,7 @@ fn list_options(l: &ListArgs) -> Result<ListOptions> {
         with_states: l.states,
         convert_to: l.also.as_deref().map(EnergyUnit::parse).transpose()?,
         digits: check_digits(l.digits)?,
-        budget: parse_budget(&l.memory_budget)?,
+        budget: budgets(&l.memory_budget, &l.time_budget)?,
     })
 }
 
@@ -472,6 +473,7 @@ fn run_thermo(
                 digits: system.digits,
                 max_bits: system.max_bits,
                 per: system.per,
+                time_budget: system.time_budget,
                 out: Output {
                     format: system.format,
                     output: system.output,
@@ -495,6 +497,10 @@ fn run_thermo(
         PerArg::Mole => Per::Mole,
         PerArg::Particle => Per::Particle,
     });
+    let progress = Progress::new("temperatures");
+    let observe = |d, t| progress.observe(d, t);
+    let budget = time_budget(&temp.time_budget)?;
+    let meter = Meter::new("the sums over this grid", grid.len(), &budget).observed(&observe);
     let report = ThermoReport::build(
         id,
         spectrum.as_ref(),
@@ -504,30 +510,89 @@ fn run_thermo(
         temp.max_bits,
         per,
         with_functions,
-        &mut progress_observer(grid.len()),
+        &meter,
     )?;
     emit(render(&report, format(temp.out.format))?, &temp.out)
 }
 
-/// A progress bar on a terminal, nothing otherwise.
-fn progress_observer(n: usize) -> impl FnMut(usize) {
-    use std::io::IsTerminal;
-    let bar = (std::io::stderr().is_terminal() && n >= 20).then(|| {
-        let b = indicatif::ProgressBar::new(n as u64);
-        b.set_style(
-            indicatif::ProgressStyle::with_template("{bar:40} {pos}/{len} temperatures {eta}")
-                .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar()),
-        );
-        b
-    });
-    move |done| {
-        if let Some(b) = &bar {
-            b.set_position(done as u64);
-            if done >= n {
-                b.finish_and_clear();
-            }
+/// A progress bar on a terminal for work that runs more than a moment;
+/// nothing when standard error is not a terminal. It appears once the work
+/// has run a second and a half, and vanishes when the work ends.
+struct Progress {
+    what: &'static str,
+    start: std::time::Instant,
+    terminal: bool,
+    bar: std::sync::OnceLock<indicatif::ProgressBar>,
+}
+
+impl Progress {
+    fn new(what: &'static str) -> Self {
+        use std::io::IsTerminal;
+        Progress {
+            what,
+            start: std::time::Instant::now(),
+            terminal: std::io::stderr().is_terminal(),
+            bar: std::sync::OnceLock::new(),
         }
     }
+
+    /// Tells the bar that `done` of `total` steps are done.
+    fn observe(&self, done: f64, total: f64) {
+        if !self.terminal || self.start.elapsed().as_secs_f64() < 1.5 {
+            return;
+        }
+        let bar = self.bar.get_or_init(|| {
+            let b = indicatif::ProgressBar::new((total * 100.0) as u64);
+            b.set_style(
+                indicatif::ProgressStyle::with_template(&format!(
+                    "{{bar:40}} {{percent}}% of {} {} {{eta}}",
+                    total, self.what
+                ))
+                .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar()),
+            );
+            b
+        });
+        bar.set_position((done * 100.0) as u64);
+    }
+}
+
+impl Drop for Progress {
+    fn drop(&mut self) {
+        if let Some(b) = self.bar.get() {
+            b.finish_and_clear();
+        }
+    }
+}
+
+/// Reads a time budget: seconds, or a number with s, min or h.
+fn parse_time(text: &str) -> Result<f64> {
+    let t = text.trim();
+    let (num, mult) = [("min", 60.0), ("ms", 0.001), ("s", 1.0), ("h", 3600.0)]
+        .iter()
+        .find_map(|(u, m)| t.strip_suffix(u).map(|n| (n.trim(), *m)))
+        .unwrap_or((t, 1.0));
+    let v = parse_rational(num)
+        .ok()
+        .and_then(|v| num_traits::ToPrimitive::to_f64(&v))
+        .filter(|v| *v > 0.0 && v.is_finite())
+        .ok_or_else(|| {
+            Error::parse(
+                "--time-budget",
+                text,
+                "a positive duration such as 30s, 5min or 2h (a plain number is seconds)",
+            )
+        })?;
+    Ok(v * mult)
+}
+
+/// The memory and time budgets of a command.
+fn budgets(memory: &str, time: &str) -> Result<Budget> {
+    Ok(parse_budget(memory)?.with_seconds(parse_time(time)?))
+}
+
+/// A time budget alone (the memory budget at its default).
+fn time_budget(time: &str) -> Result<Budget> {
+    Ok(Budget::default().with_seconds(parse_time(time)?))
 }
 
 fn levels_system(a: SystemLevels) -> Result<Option<String>> {
@@ -548,6 +613,7 @@ fn levels_system(a: SystemLevels) -> Result<Option<String>> {
         also: a.also,
         digits: a.digits,
         memory_budget: a.memory_budget,
+        time_budget: a.time_budget,
         out: Output {
             format: a.format,
             output: a.output,
@@ -634,14 +700,11 @@ fn compare(model: Option<ClassicalModel>, a: CompareArgs) -> Result<Option<Strin
             ))
         }
     };
-    let report = zsum::classical::compare(
-        &c,
-        &indices,
-        &grid,
-        kelvin,
-        a.digits,
-        &mut progress_observer(grid.len()),
-    )?;
+    let progress = Progress::new("temperatures");
+    let observe = |d, t| progress.observe(d, t);
+    let budget = time_budget(&a.time_budget)?;
+    let meter = Meter::new("the error map over this grid", grid.len(), &budget).observed(&observe);
+    let report = zsum::classical::compare(&c, &indices, &grid, kelvin, a.digits, &meter)?;
     let text = render(&report, format(a.format))?;
     if let Some(p) = &a.plot {
         let tol_f = num_traits::ToPrimitive::to_f64(&tol).unwrap_or(0.01);
@@ -758,7 +821,16 @@ fn species_thermo(args: &[String]) -> Result<Option<String>> {
         },
     };
     let grid = parse_grid("--T", &a.t)?;
-    let table = MolarTable::build(sp, &grid, &options)?;
+    let progress = Progress::new("temperatures");
+    let observe = |d, t| progress.observe(d, t);
+    let budget = time_budget(&a.time_budget)?;
+    let meter = Meter::new(
+        format!("the {} table over this grid", sp.name),
+        grid.len(),
+        &budget,
+    )
+    .observed(&observe);
+    let table = MolarTable::build_metered(sp, &grid, &options, &meter)?;
     let text = match (format(a.out.format), table.rows.as_slice()) {
         (Format::Json, [one]) => zsum::export::to_json(one)?,
         (f, _) => render(&table, f)?,
@@ -797,7 +869,16 @@ fn hydrogen(a: HydrogenArgs) -> Result<Option<String>> {
         digits: a.digits,
         ..MolarOptions::default()
     };
-    let table = HydrogenTable::build(sp, &grid, &isomer, &options)?;
+    let progress = Progress::new("temperatures");
+    let observe = |d, t| progress.observe(d, t);
+    let budget = time_budget(&a.time_budget)?;
+    let meter = Meter::new(
+        format!("the {} isomer table over this grid", sp.name),
+        grid.len(),
+        &budget,
+    )
+    .observed(&observe);
+    let table = HydrogenTable::build_metered(sp, &grid, &isomer, &options, &meter)?;
     let out = emit(render(&table, format(a.out.format))?, &a.out)?;
     for w in table.warnings() {
         eprintln!("zsum: warning: {w}");
@@ -808,7 +889,7 @@ fn hydrogen(a: HydrogenArgs) -> Result<Option<String>> {
 fn microstates_cmd(a: MicrostatesArgs) -> Result<Option<String>> {
     use zsum::microstates::{microstates, EinsteinReport, MicroReport, Statistics};
     let digits = check_digits(a.digits)?;
-    let budget = parse_budget(&a.memory_budget)?;
+    let budget = budgets(&a.memory_budget, &a.time_budget)?;
     let (path, stats) = match (&a.system, &a.stats) {
         (Some(path), Some(stats)) if !a.einstein => (path, Statistics::parse(stats)?),
         _ => {
@@ -860,7 +941,16 @@ fn ensemble_cmd(a: EnsembleArgs) -> Result<Option<String>> {
     }
     let tol = parse_tolerance(&a.tolerance)?;
     let sys = System::read(&a.system)?;
-    let report = EnsembleReport::build_with_progress(
+    let progress = Progress::new("temperatures");
+    let observe = |d, t| progress.observe(d, t);
+    let budget = time_budget(&a.time_budget)?;
+    let meter = Meter::new(
+        format!("Q_N of {} particles over this grid", a.particles),
+        grid.len(),
+        &budget,
+    )
+    .observed(&observe);
+    let report = EnsembleReport::build_metered(
         &sys.product,
         u64::from(a.particles),
         stats,
@@ -868,7 +958,7 @@ fn ensemble_cmd(a: EnsembleArgs) -> Result<Option<String>> {
         kelvin,
         a.digits,
         &tol,
-        &mut progress_observer(grid.len()),
+        &meter,
     )?;
     emit(render(&report, format(a.out.format))?, &a.out)
 }
@@ -877,7 +967,16 @@ fn census(a: CensusArgs) -> Result<Option<String>> {
     use zsum::microstates::{beyer_swinehart, parse_modes, stein_rabinovitch_spectrum};
     use zsum::microstates::{CensusErrorMap, CensusReport};
     let unit = EnergyUnit::parse(&a.unit)?;
-    let budget = parse_budget(&a.memory_budget)?;
+    let budget = budgets(&a.memory_budget, &a.time_budget)?;
+    // Every file is read and checked before any counting.
+    let mut extras: Vec<Box<dyn Spectrum>> = Vec::new();
+    for path in &a.convolve {
+        extras.push(if path.extension().is_some_and(|e| e == "toml") {
+            Box::new(System::read(path)?.product)
+        } else {
+            Box::new(LevelFile::read(path)?)
+        });
+    }
     let mut c = beyer_swinehart(
         &parse_modes(&a.modes)?,
         &number("--step", &a.step)?,
@@ -889,13 +988,8 @@ fn census(a: CensusArgs) -> Result<Option<String>> {
         return emit(render(&report, format(a.out.format))?, &a.out);
     }
     let mut names = Vec::new();
-    for path in &a.convolve {
-        let spectrum: Box<dyn Spectrum> = if path.extension().is_some_and(|e| e == "toml") {
-            Box::new(System::read(path)?.product)
-        } else {
-            Box::new(LevelFile::read(path)?)
-        };
-        c = stein_rabinovitch_spectrum(c, &*spectrum, &unit, &budget)?;
+    for spectrum in &extras {
+        c = stein_rabinovitch_spectrum(c, &**spectrum, &unit, &budget)?;
         names.push(spectrum.describe());
     }
     let report = CensusReport::new(&c, &a.unit, &budget)?.with_convolved(names);

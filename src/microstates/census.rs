@@ -74,6 +74,15 @@ pub struct CensusRow {
     pub log10_sum: String,
 }
 
+/// What one row of the census costs in memory, with counts of up to
+/// `bits` bits: the sum and the count as decimal text twice (the answer and
+/// its rendering, about 0.3 digits per bit), the density, its log and the
+/// energy, and the row's bookkeeping (measured: 440 to 600 bytes with
+/// short counts).
+pub fn census_row_bytes(bits: u64) -> f64 {
+    4.0 * bits as f64 * std::f64::consts::LOG10_2 + 640.0
+}
+
 /// `zsum census`: the sum and density of states of harmonic modes at every
 /// energy with states up to the cutoff.
 #[derive(Debug, Clone, Serialize)]
@@ -113,30 +122,32 @@ impl CensusReport {
     /// # Ok::<(), zsum::Error>(())
     /// ```
     pub fn new(c: &StateCounts, unit: &str, budget: &Budget) -> Result<Self> {
-        let sums = c.sums();
         let with_states = c.counts.iter().filter(|n| !n.is_zero()).count();
-        // Each row holds the sum and the count as decimals (about 0.3 digits
-        // per bit), the density, its log and the energy, each a string.
-        let widest = sums.last().map(|s| s.bits()).unwrap_or(0) as f64 * 0.302;
+        let total: BigUint = c.counts.iter().sum();
         budget.check(
             &format!("a census table of {with_states} rows"),
-            with_states as f64 * (3.0 * widest + 200.0),
+            with_states as f64 * census_row_bytes(total.bits()),
             "use a coarser --step or a lower cutoff",
         )?;
+        let mut sum = BigUint::zero();
         let rows = c
             .counts
             .iter()
             .enumerate()
             .filter(|(_, n)| !n.is_zero())
-            .map(|(k, n)| CensusRow {
+            .map(|(k, n)| {
+                sum += n;
+                (k, n, sum.clone())
+            })
+            .map(|(k, n, sum)| CensusRow {
                 energy: exact_decimal(&(&c.step * BigRational::from_integer(k.into())), 40),
-                sum_of_states: sums[k].to_string(),
+                sum_of_states: sum.to_string(),
                 density: exact_decimal(
                     &(BigRational::from_integer(n.clone().into()) / &c.step),
                     u32::MAX,
                 ),
                 in_step: n.to_string(),
-                log10_sum: log10_fixed(&sums[k], LOG10_DECIMALS),
+                log10_sum: log10_fixed(&sum, LOG10_DECIMALS),
             })
             .collect();
         Ok(CensusReport {
@@ -347,8 +358,7 @@ impl CensusErrorMap {
         let half_sum = BigRational::new(steps_ez.clone().into(), 2.into());
         let lowest = harmonic.rounded.iter().map(|(w, _)| *w).min().unwrap_or(1);
         let window = lowest.max(1) as usize;
-        let sums = harmonic.sums();
-        let top = sums.len() - 1;
+        let top = harmonic.counts.len() - 1;
         // Sample where the whole density window fits under the cutoff.
         let half = window / 2;
         let span = top.saturating_sub(half);
@@ -370,14 +380,35 @@ impl CensusErrorMap {
                 },
             ));
         }
+        // The sums of states where the map needs them, in one pass (never
+        // a sum per step: that would double the memory of the count).
+        let at = |k: usize| (k.saturating_sub(half + window % 2), (k + half).min(top));
+        let ks: Vec<usize> = (1..=points).map(|i| span * i / points).collect();
+        let mut wanted: Vec<usize> = ks.iter().flat_map(|&k| [k, at(k).0, at(k).1]).collect();
+        wanted.sort_unstable();
+        wanted.dedup();
+        let sums: std::collections::HashMap<usize, BigUint> = {
+            let mut acc = BigUint::zero();
+            let mut next = wanted.iter().peekable();
+            let mut out = std::collections::HashMap::with_capacity(wanted.len());
+            for (k, c) in harmonic.counts.iter().enumerate() {
+                acc += c;
+                while next.peek() == Some(&&k) {
+                    out.insert(k, acc.clone());
+                    next.next();
+                }
+                if next.peek().is_none() {
+                    break;
+                }
+            }
+            out
+        };
         let mut rows = Vec::with_capacity(points);
-        for i in 1..=points {
-            let k = span * i / points;
+        for &k in &ks {
             let e = k as f64 * g;
             let (lw, lr, _) = whitten_rabinovitch(&freqs, e);
-            let lo = k.saturating_sub(half + window % 2);
-            let hi = (k + half).min(top);
-            let in_window = &sums[hi] - &sums[lo];
+            let (lo, hi) = at(k);
+            let in_window = &sums[&hi] - &sums[&lo];
             let width = &harmonic.step * BigRational::from_integer((hi - lo).into());
             let density = BigRational::from_integer(in_window.clone().into()) / &width;
             let lre = ln_big(&in_window) - width.to_f64().unwrap_or(f64::NAN).ln();
@@ -387,9 +418,9 @@ impl CensusErrorMap {
             rows.push(CensusErrorRow {
                 energy: exact_decimal(&(&harmonic.step * BigRational::from_integer(k.into())), 40),
                 e_over_ez: format_sig(&reduced, 4),
-                sum_exact: sums[k].to_string(),
+                sum_exact: sums[&k].to_string(),
                 sum_approx: approx_text(lw, digits),
-                sum_rel_error: rel_text(lw - ln_big(&sums[k])),
+                sum_rel_error: rel_text(lw - ln_big(&sums[&k])),
                 density_exact: format_sig(&density, digits),
                 density_approx: approx_text(lr, digits),
                 density_rel_error: rel_text(lr - lre),

@@ -407,8 +407,10 @@ fn count_bits(orbitals: &BigUint, n: u64, stats: Statistics) -> f64 {
     bits.max(1.0)
 }
 
-/// The longest count zsum starts, in estimated seconds on one core.
-pub const MAX_SECONDS: f64 = 120.0;
+/// What one energy of the answer costs besides its count: its row (energy,
+/// S/k, temperature, canonical values as text) and their rendering
+/// (measured: about 300 bytes; counted with room).
+const ROW_BYTES: f64 = 400.0;
 
 /// Estimated seconds to count `n` particles over `bins` energies of `grid`
 /// (from the number of cell additions and their width; calibrated on the
@@ -473,19 +475,24 @@ pub fn count_on_grid(
         "counting {n} particles ({}) over {bins} energies",
         stats.name()
     );
-    let estimate = table_bytes(&grid.orbitals_up_to(k_max), n, bins as u64, stats);
-    budget.check(
+    let orbitals = grid.orbitals_up_to(k_max);
+    // The table, then one exact count per energy and its row downstream
+    // (decimal digits twice: the answer and its text).
+    let limbs = (count_bits(&orbitals, n, stats) / 64.0).floor() + 1.0;
+    let per_row =
+        limbs * 8.0 * (1.0 + 2.0 * 64.0 * std::f64::consts::LOG10_2 / 8.0) + 32.0 + ROW_BYTES;
+    budget.check_listing(
         &what,
-        estimate,
-        "lower the cutoff or the number of particles, or raise --memory-budget",
+        table_bytes(&orbitals, n, bins as u64, stats) + bins as f64 * per_row,
+        0.0,
+        0.0,
+        "lower the cutoff or the number of particles",
     )?;
-    let seconds = count_seconds(grid, n, stats, bins);
-    if seconds > MAX_SECONDS {
-        return Err(Error::budget(format!(
-            "{what} would take about {seconds:.0} s by estimate, more than the {MAX_SECONDS:.0} s \
-             zsum starts; lower the cutoff or the number of particles"
-        )));
-    }
+    budget.check_work(
+        &what,
+        count_seconds(grid, n, stats, bins) * crate::budget::REFERENCE_OPS_PER_SECOND,
+        "lower the cutoff or the number of particles",
+    )?;
     let used: Vec<&(u64, BigUint)> = grid.levels.iter().filter(|(e, _)| *e <= k_max).collect();
     if stats == Statistics::Distinct {
         return Ok(labelled(&used, n, bins));
@@ -671,6 +678,36 @@ pub fn microstates(
     }
     // No particle can have more than the whole excitation budget.
     let single_cut = up_to - &e0 * (&nr - BigRational::one());
+    // Before listing the one-particle levels: the grid step is at most the
+    // first excitation (it divides it), so the table has at least
+    // (E − Nε₀)/ε₁ + 1 energies; refuse at once what even that exceeds.
+    let coarsest = match step {
+        Some(s) => Some(s.clone()),
+        None => first_excitation(spectrum, &e0, &single_cut, budget)?,
+    };
+    if let Some(c) = &coarsest {
+        let fewest = ((up_to - &base) / c)
+            .floor()
+            .to_f64()
+            .unwrap_or(f64::INFINITY)
+            + 1.0;
+        let per_bin = if stats == Statistics::Distinct {
+            40.0
+        } else {
+            8.0 * (n as f64 + 1.0)
+        };
+        budget.check_listing(
+            &format!(
+                "counting {n} particles ({}) over at least {} energies",
+                stats.name(),
+                crate::exact::format_sig_f64(fewest, 3)
+            ),
+            fewest * per_bin,
+            fewest,
+            0.0,
+            "lower the cutoff or the number of particles",
+        )?;
+    }
     let levels = spectrum.levels_within(&single_cut, budget)?;
     let grid = Grid::new(&levels, step)?;
     let bins_r = ((up_to - &base) / &grid.step).floor().to_integer() + BigInt::one();
@@ -723,6 +760,37 @@ pub fn microstates(
         grid,
         counts,
     })
+}
+
+/// The first excitation ε₁ − ε₀ of `s`, found by listing ever wider
+/// windows above the ground (each listing small until the window reaches
+/// ε₁), or `None` if no level lies above the ground up to `top`.
+fn first_excitation(
+    s: &dyn Spectrum,
+    e0: &BigRational,
+    top: &BigRational,
+    budget: &Budget,
+) -> Result<Option<BigRational>> {
+    let span = top - e0;
+    if !span.is_positive() {
+        return Ok(None);
+    }
+    let mut width = &span / BigRational::from_integer(BigInt::one() << 40);
+    loop {
+        let cut = if width >= span {
+            top.clone()
+        } else {
+            e0 + &width
+        };
+        let list = s.levels_within(&cut, budget)?;
+        if let Some(l) = list.levels().get(1) {
+            return Ok(Some(&l.energy - e0));
+        }
+        if cut == *top {
+            return Ok(None);
+        }
+        width *= BigRational::from_integer(16.into());
+    }
 }
 
 /// The Einstein solid as a named model: `n` labelled oscillators of one

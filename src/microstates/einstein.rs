@@ -35,7 +35,7 @@
 //! roundings (1/4 to one digit); after two tries they are taken from the
 //! exact rational sum instead.
 
-use super::{biguint_ball, einstein_omega, ln_factorial, MAX_SECONDS};
+use super::{biguint_ball, einstein_omega, ln_factorial};
 use crate::error::{Error, Result};
 use crate::exact::format_sig;
 use crate::export::{units_block, Column, Tabular};
@@ -295,12 +295,11 @@ impl EinsteinReport {
         // Ω (about 10 ns a digit); measured, to within a few times.
         let prec = f64::from(precision_for(digits) + 32);
         let seconds = rows * (3e-5 * (prec / 130.0).max(1.0) + 1e-8 * omega_digits);
-        if seconds > MAX_SECONDS {
-            return Err(Error::budget(format!(
-                "{what} would take about {seconds:.0} s by estimate, more than the \
-                 {MAX_SECONDS:.0} s zsum starts; lower --up-to or --digits"
-            )));
-        }
+        budget.check_work(
+            &what,
+            seconds * crate::budget::REFERENCE_OPS_PER_SECOND,
+            "lower --up-to or --digits",
+        )?;
         let omega = einstein_omega(
             n,
             quanta,

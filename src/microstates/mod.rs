@@ -33,7 +33,7 @@ mod vibration;
 pub use census::{CensusErrorMap, CensusErrorRow, CensusReport, CensusRow, RoundedMode};
 pub use collection::{
     check_particles, count_on_grid, count_seconds, einstein_omega, microstates, table_bytes, Grid,
-    Omega, Statistics, MAX_PARTICLES, MAX_SECONDS,
+    Omega, Statistics, MAX_PARTICLES,
 };
 pub use einstein::{einstein_canonical, EinsteinCanonical, EinsteinReport, EinsteinRow};
 pub use ensemble::{ensemble_point, EnsemblePoint};
@@ -42,7 +42,7 @@ pub use vibration::{stein_rabinovitch, stein_rabinovitch_spectrum, whitten_rabin
 
 use crate::error::{Error, Result};
 use crate::exact::{parse_rational, rational_string};
-use crate::spectrum::{human_bytes, Budget};
+use crate::spectrum::Budget;
 use num_bigint::BigUint;
 use num_rational::BigRational;
 use num_traits::{Signed, ToPrimitive, Zero};
@@ -123,6 +123,30 @@ impl StateCounts {
     }
 }
 
+/// Memory of a census of `n` steps of the `rounded` modes, with its table:
+/// the 128-bit counters (16 bytes a step), the exact counts made from them
+/// (24 bytes a step, and the digits of every count that can be non-zero),
+/// allocator slack (8 bytes a step),
+/// and a row of the table for each such step ([`census::census_row_bytes`]).
+/// Only multiples of the gcd g of the modes' steps can hold states, so at
+/// most (n − 1)/g + 1 steps do; no count exceeds Π (n/w + 1)^d.
+pub fn census_bytes(rounded: &[(u64, u32)], n: usize) -> f64 {
+    let g = rounded
+        .iter()
+        .fold(0u64, |g, (w, _)| num_integer::Integer::gcd(&g, w))
+        .max(1);
+    let reachable = ((n as u64).saturating_sub(1) / g + 1) as f64;
+    let bits: f64 = rounded
+        .iter()
+        .map(|(w, d)| *d as f64 * (n as f64 / *w as f64 + 1.0).log2())
+        .sum::<f64>()
+        .max(1.0);
+    let limbs = (bits / 64.0).floor() + 1.0;
+    n as f64 * (16.0 + 24.0 + 8.0)
+        + reachable * (16.0 + 8.0 * limbs)
+        + reachable * census::census_row_bytes(bits.ceil() as u64)
+}
+
 /// Counts on machine integers until one overflows.
 enum Cells {
     Small(Vec<u128>),
@@ -176,15 +200,12 @@ pub fn beyer_swinehart(
                 "a grid of {bins} steps is beyond any memory; use a coarser --step"
             ))
         })?;
-    let need = n as f64 * 16.0;
-    if need > budget.limit() as f64 {
-        return Err(Error::budget(format!(
-            "the count needs a grid of {n} bins, about {} (and more if counts outgrow 128 \
-             bits), over the memory budget of {}; use a coarser --step or a lower cutoff",
-            human_bytes(need),
-            human_bytes(budget.limit() as f64)
-        )));
-    }
+    // Before any rounding work: the u128 grid alone.
+    budget.check(
+        &format!("a census of {n} steps"),
+        n as f64 * 16.0,
+        "use a coarser --step or a lower cutoff",
+    )?;
     let mut rounded = Vec::with_capacity(modes.len());
     for m in modes {
         let in_steps = (&m.frequency / step).round().to_integer();
@@ -201,6 +222,19 @@ pub fn beyer_swinehart(
         })?;
         rounded.push((w, m.degeneracy));
     }
+    budget.check(
+        &format!("a census of {n} steps"),
+        census_bytes(&rounded, n),
+        "use a coarser --step or a lower cutoff",
+    )?;
+    // One addition per step and mode component, and about 1500 operations
+    // for each row of the table (its decimals).
+    let components: f64 = rounded.iter().map(|(_, d)| f64::from(*d)).sum();
+    budget.check_work(
+        &format!("a census of {n} steps"),
+        n as f64 * (components + 1500.0),
+        "use a coarser --step or a lower cutoff",
+    )?;
     let mut cells = Cells::Small({
         let mut v = vec![0u128; n];
         v[0] = 1;

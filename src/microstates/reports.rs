@@ -303,13 +303,16 @@ impl EnsembleReport {
         digits: u32,
         tol: &BigRational,
     ) -> Result<Self> {
-        Self::build_with_progress(spectrum, n, stats, grid, kelvin, digits, tol, &mut |_| {})
+        let meter = crate::budget::Meter::unlimited();
+        Self::build_metered(spectrum, n, stats, grid, kelvin, digits, tol, &meter)
     }
 
-    /// As [`EnsembleReport::build`], telling `progress` how many
-    /// temperatures are done after each one.
+    /// As [`EnsembleReport::build`], the temperatures timed by `meter`
+    /// (hottest, costliest, first), which refuses the rest once their
+    /// projected time exceeds its budget and tells its observer how far the
+    /// grid is.
     #[allow(clippy::too_many_arguments)]
-    pub fn build_with_progress(
+    pub fn build_metered(
         spectrum: &dyn Spectrum,
         n: u64,
         stats: Statistics,
@@ -317,7 +320,7 @@ impl EnsembleReport {
         kelvin: bool,
         digits: u32,
         tol: &BigRational,
-        progress: &mut dyn FnMut(usize),
+        meter: &crate::budget::Meter,
     ) -> Result<Self> {
         let temp = |t: &BigRational| {
             if kelvin {
@@ -332,15 +335,20 @@ impl EnsembleReport {
             *e.as_abs() > tol_f
         };
         let cached = crate::sum::Cached::new(spectrum);
-        let mut rows = Vec::with_capacity(grid.len());
+        // Hottest first: the costliest temperature is timed first.
+        let mut order: Vec<usize> = (0..grid.len()).collect();
+        order.sort_by(|&a, &b| grid[b].cmp(&grid[a]));
+        let mut slots = vec![None; grid.len()];
         let mut states = Vec::with_capacity(grid.len());
-        for t in grid {
+        for (count, &i) in order.iter().enumerate() {
+            let t = &grid[i];
             let beta = temp(t).beta(&spectrum.unit())?;
             let c = canonical_at(&cached, n, stats, &beta, digits)?;
             states.push((t.clone(), exceeds(&c)));
-            rows.push(point_from(&c, n, exact_decimal(t, 40), digits));
-            progress(rows.len());
+            slots[i] = Some(point_from(&c, n, exact_decimal(t, 40), digits));
+            meter.at(count as f64 + 1.0)?;
         }
+        let rows: Vec<EnsemblePoint> = slots.into_iter().flatten().collect();
         let mut sorted = states;
         sorted.sort_by(|a, b| a.0.cmp(&b.0));
         sorted.dedup_by(|a, b| a.0 == b.0);

@@ -495,7 +495,7 @@ impl RovibDiatomic {
                 out.push((v, j));
             }
         }
-        budget.check(what, rungs * LEVEL_BYTES * 2.0, "give a lower cutoff")?;
+        budget.check_levels(what, rungs, LEVEL_BYTES * 2.0, "give a lower cutoff")?;
         Ok(out)
     }
 

@@ -582,13 +582,14 @@ impl Spectrum for LevelFile {
     fn levels_within(&self, cutoff: &BigRational, budget: &Budget) -> Result<LevelList> {
         check_cutoff(self, cutoff)?;
         let list = self.levels.truncated(cutoff);
-        budget.check(
+        budget.check_levels(
             &format!(
                 "listing the levels up to {} {}",
                 rational_string(cutoff),
                 self.unit
             ),
-            list.len() as f64 * LEVEL_BYTES,
+            list.len() as f64,
+            LEVEL_BYTES,
             "give a lower cutoff",
         )?;
         Ok(list)

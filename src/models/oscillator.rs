@@ -421,7 +421,7 @@ impl HarmonicModes {
             .map(|(w, _)| floor_nonneg(&(x / w)))
             .collect();
         let peak = self.estimated_peak(x, &tops);
-        budget.check(what, peak * LEVEL_BYTES * 2.0, "give a lower cutoff")?;
+        budget.check_levels(what, peak, LEVEL_BYTES * 2.0, "give a lower cutoff")?;
         tops.iter()
             .map(|t| {
                 t.to_u64().filter(|&t| t < MAX_QUANTUM).ok_or_else(|| {
@@ -1017,9 +1017,10 @@ impl Spectrum for AnharmonicOscillator {
     fn levels_within(&self, cutoff: &BigRational, budget: &Budget) -> Result<LevelList> {
         check_cutoff(self, cutoff)?;
         let n = self.count_levels_up_to(cutoff);
-        budget.check(
+        budget.check_levels(
             &format!("listing the vibrational levels up to {}", show(cutoff)),
-            n.to_f64().unwrap_or(f64::INFINITY) * LEVEL_BYTES,
+            n.to_f64().unwrap_or(f64::INFINITY),
+            LEVEL_BYTES,
             "give a lower cutoff",
         )?;
         let n = n.to_u64().ok_or_else(|| {

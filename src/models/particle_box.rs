@@ -49,11 +49,14 @@ const SPARSE_BYTES: f64 = 16.0;
 const DENSE_BYTES: f64 = 12.0;
 /// Bytes per level in the final list (exact energy and degeneracy).
 const LEVEL_BYTES: f64 = 128.0;
-/// Bytes per listed state (quantum numbers and bookkeeping).
-const STATE_BYTES: f64 = 64.0;
-/// Count steps beyond which `count` refuses: about a minute on two cores
-/// (a cube up to E ≈ 1.8e11).
+/// Count steps beyond which finding the states at one level refuses: about
+/// a minute on two cores (a cube up to E ≈ 1.8e11).
 const MAX_COUNT_STEPS: f64 = 4e10;
+
+/// Elementary operations per lattice step of the exact counters: a step is
+/// cheaper than an elementary operation (measured 6.7e8 steps a second on
+/// the reference machine against its 2e8 operations).
+const STEP_OPS: f64 = 0.3;
 
 /// Why a level is degenerate.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
@@ -471,10 +474,12 @@ impl ParticleInBox {
         let families = self.estimated_families(cutoff);
         let dense = (m as f64 + 1.0) * DENSE_BYTES;
         let sparse = families * SPARSE_BYTES;
-        let levels = families.min(m as f64 + 1.0) * LEVEL_BYTES;
-        budget.check(
+        let levels = families.min(m as f64 + 1.0);
+        budget.check_listing(
             &format!("listing the levels up to {}", rational_string(cutoff)),
-            dense.min(sparse) + levels,
+            dense.min(sparse) + levels * LEVEL_BYTES,
+            levels,
+            0.0,
             "use `count` for the number of states, or a lower cutoff",
         )?;
         let make = |k: u64, deg: u64, fam: u64| ClassifiedLevel {
@@ -523,9 +528,13 @@ impl ParticleInBox {
     ) -> Result<Vec<(ClassifiedLevel, Vec<State>)>> {
         let m = self.scaled_cutoff(cutoff)?;
         let states = self.count_bound(cutoff).to_f64().unwrap_or(f64::INFINITY);
-        budget.check(
+        let levels = self.estimated_families(cutoff).min(m as f64 + 1.0);
+        budget.check_listing(
             &format!("listing every state up to {}", rational_string(cutoff)),
-            states * STATE_BYTES + self.estimated_families(cutoff) * SPARSE_BYTES * 2.0,
+            // The states themselves are counted once, as listed states.
+            self.estimated_families(cutoff) * SPARSE_BYTES * 2.0,
+            levels,
+            states,
             "drop --states to list levels only, use `count`, or give a lower cutoff",
         )?;
         let mut all: Vec<Family> = Vec::new();
@@ -593,23 +602,29 @@ impl ParticleInBox {
     /// assert_eq!(n, 11u32.into());
     /// ```
     pub fn count_up_to(&self, cutoff: &BigRational) -> Result<BigUint> {
+        self.count_up_to_within(cutoff, &Budget::default())
+    }
+
+    /// As [`ParticleInBox::count_up_to`], refusing a count whose estimated
+    /// work exceeds `budget`'s time.
+    pub fn count_up_to_within(&self, cutoff: &BigRational, budget: &Budget) -> Result<BigUint> {
         if cutoff < &self.ground_energy() {
             return Ok(BigUint::zero());
         }
         let m = self.scaled_cutoff(cutoff)?;
         let w = self.weights();
         let steps = lattice::estimated_steps(&w, m);
-        if steps > MAX_COUNT_STEPS {
-            return Err(Error::budget(format!(
-                "counting the states up to {} would take about {:.0e} steps, more than the \
-                 limit of {MAX_COUNT_STEPS:.0e} (about a minute on two cores; for the cube \
-                 that is E up to about 1.8e11); use Weyl's law for an estimate ({:.9e}) \
-                 or a lower cutoff",
-                rational_string(cutoff),
-                steps,
+        budget.check_work(
+            &format!(
+                "counting the states up to {} ({steps:.1e} lattice steps)",
+                rational_string(cutoff)
+            ),
+            steps * STEP_OPS,
+            &format!(
+                "use Weyl's law for an estimate ({:.9e}) or a lower cutoff",
                 self.weyl_estimate(cutoff.to_f64().unwrap_or(f64::INFINITY))
-            )));
-        }
+            ),
+        )?;
         let n = match w.as_slice() {
             [w1] => lattice::count_1d(*w1, m),
             [w1, w2] => lattice::count_2d(*w1, *w2, m),

@@ -94,12 +94,13 @@ pub(crate) fn ladder(
 /// Refuses a ladder whose estimated number of rungs exceeds the budget,
 /// before any arithmetic: `j_est` is an estimate of the highest J reached.
 fn check_rungs(what: &str, j_est: f64, cutoff: &BigRational, budget: &Budget) -> Result<()> {
-    budget.check(
+    budget.check_levels(
         &format!(
             "listing the {what} levels up to {}",
             exact_decimal(cutoff, 30)
         ),
-        (j_est + 1.0) * LEVEL_BYTES,
+        j_est + 1.0,
+        LEVEL_BYTES,
         "give a lower cutoff",
     )
 }
@@ -637,12 +638,13 @@ impl SymmetricTop {
             TopShape::Oblate => &self.unique,
         };
         let j_est = j_estimate(cutoff, lowest).min(turnover_estimate(&self.b, &self.dj));
-        budget.check(
+        budget.check_levels(
             &format!(
                 "listing the top's levels up to {}",
                 exact_decimal(cutoff, 30)
             ),
-            (j_est + 1.0) * (j_est + 2.0) / 2.0 * LEVEL_BYTES,
+            (j_est + 1.0) * (j_est + 2.0) / 2.0,
+            LEVEL_BYTES,
             "give a lower cutoff",
         )?;
         let mut out = Vec::new();

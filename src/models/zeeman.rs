@@ -330,13 +330,14 @@ impl Spectrum for ZeemanMultiplet {
             ));
         }
         let n = self.count_bound(cutoff).to_u64().unwrap_or(u64::MAX);
-        budget.check(
+        budget.check_levels(
             &format!(
                 "listing the {n} levels up to {} {}",
                 rational_string(cutoff),
                 self.unit
             ),
-            n as f64 * LEVEL_BYTES,
+            n as f64,
+            LEVEL_BYTES,
             "give a lower cutoff",
         )?;
         // Lowest first: 2m_J from −2J upwards if the step is positive, from

@@ -122,6 +122,19 @@ impl HydrogenTable {
         isomer: &Isomer,
         o: &MolarOptions,
     ) -> Result<Self> {
+        Self::build_metered(sp, grid, isomer, o, &crate::budget::Meter::unlimited())
+    }
+
+    /// As [`HydrogenTable::build`], the temperatures timed by `meter`
+    /// (hottest, costliest, first), which refuses the rest once their
+    /// projected time exceeds its budget.
+    pub fn build_metered(
+        sp: &Species,
+        grid: &[BigRational],
+        isomer: &Isomer,
+        o: &MolarOptions,
+        meter: &crate::budget::Meter,
+    ) -> Result<Self> {
         let o = &MolarOptions {
             basis: Basis::Mole,
             ..o.clone()
@@ -142,7 +155,7 @@ impl HydrogenTable {
         order.sort_by(|a, b| grid[*b].cmp(&grid[*a]));
         let mut slots: Vec<Option<HydrogenRow>> = vec![None; grid.len()];
         let mut ground = "para";
-        for gi in order {
+        for (count, gi) in order.into_iter().enumerate() {
             let t = &grid[gi];
             let at = |iso: Isomer| {
                 let mut oo = o.clone();
@@ -206,6 +219,7 @@ impl HydrogenTable {
                 degeneracy: chosen.degeneracy,
                 units: units_block(&Self::columns_for(ground)),
             });
+            meter.at(count as f64 + 1.0)?;
         }
         rows.extend(slots.into_iter().flatten());
         Ok(HydrogenTable {

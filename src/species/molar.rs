@@ -755,6 +755,18 @@ impl MolarTable {
     /// Builds the table of `sp` over `grid` (kelvin), listing internal
     /// levels once for the whole grid.
     pub fn build(sp: &Species, grid: &[BigRational], o: &MolarOptions) -> Result<Self> {
+        Self::build_metered(sp, grid, o, &crate::budget::Meter::unlimited())
+    }
+
+    /// As [`MolarTable::build`], the temperatures timed by `meter` (hottest,
+    /// costliest, first), which refuses the rest once their projected time
+    /// exceeds its budget.
+    pub fn build_metered(
+        sp: &Species,
+        grid: &[BigRational],
+        o: &MolarOptions,
+        meter: &crate::budget::Meter,
+    ) -> Result<Self> {
         // Refuse a degenerate temperature before any sum is done.
         for t in grid {
             degeneracy(sp, t, o)?;
@@ -765,8 +777,9 @@ impl MolarTable {
         let mut order: Vec<usize> = (0..grid.len()).collect();
         order.sort_by(|a, b| grid[*b].cmp(&grid[*a]));
         let mut rows: Vec<Option<MolarPoint>> = vec![None; grid.len()];
-        for i in order {
+        for (count, i) in order.into_iter().enumerate() {
             rows[i] = Some(molar_with(sp, &cached, &grid[i], o)?);
+            meter.at(count as f64 + 1.0)?;
         }
         Ok(MolarTable {
             basis: o.basis,

@@ -71,6 +71,7 @@ pub(crate) use direct::to_rug;
 mod format;
 mod ladder;
 
+use crate::budget::Meter;
 use crate::error::{Error, ErrorKind, Result};
 use crate::exact::rational_string;
 use crate::spectrum::Spectrum;
@@ -309,6 +310,19 @@ fn sum_parts(parts: Vec<Result<Stats>>, what: &str) -> Result<Stats> {
 }
 
 fn stats_path(s: &dyn Spectrum, beta: &BigRational, prec: u32, path: Path) -> Result<Stats> {
+    stats_metered(s, beta, prec, path, None)
+}
+
+/// As `stats_path`, telling `meter` (at step `base`) after each part of a
+/// product how far the step is, so that a product of many costly parts is
+/// refused once its projected time exceeds the budget.
+fn stats_metered(
+    s: &dyn Spectrum,
+    beta: &BigRational,
+    prec: u32,
+    path: Path,
+    meter: Option<(&Meter, f64)>,
+) -> Result<Stats> {
     if path == Path::Direct {
         return direct::stats(s, beta, prec);
     }
@@ -318,10 +332,15 @@ fn stats_path(s: &dyn Spectrum, beta: &BigRational, prec: u32, path: Path) -> Re
         Shape::Direct => direct::stats(s, beta, prec),
         Shape::Parts(parts) => {
             let p = share(parts.len());
-            let sts = parts
-                .into_iter()
-                .map(|(part, factor)| stats_of(part, &(beta * factor), p))
-                .collect();
+            let n = parts.len() as f64;
+            // Part by part, stopping at the first error or refusal.
+            let mut sts = Vec::with_capacity(parts.len());
+            for (j, (part, factor)) in parts.into_iter().enumerate() {
+                sts.push(Ok(stats_of(part, &(beta * factor), p)?));
+                if let Some((m, base)) = meter {
+                    m.at(base + (j as f64 + 1.0) / n)?;
+                }
+            }
             sum_parts(sts, "spectrum")
         }
         Shape::Squares(ws) => {
@@ -474,6 +493,20 @@ pub fn thermo_limited(
     path: Path,
     max_bits: u32,
 ) -> Result<ThermoPoint> {
+    thermo_metered(spectrum, temperature, digits, path, max_bits, None)
+}
+
+/// As [`thermo_limited`], telling `meter` (this temperature being step
+/// `base` of its grid) how far the sum is after each part of a product,
+/// and refusing the rest once the projected time exceeds its budget.
+pub fn thermo_metered(
+    spectrum: &dyn Spectrum,
+    temperature: &Temperature,
+    digits: u32,
+    path: Path,
+    max_bits: u32,
+    meter: Option<(&Meter, f64)>,
+) -> Result<ThermoPoint> {
     check_request(digits, max_bits)?;
     let beta = temperature.beta(&spectrum.unit())?;
     let t_text = match temperature {
@@ -485,7 +518,7 @@ pub fn thermo_limited(
     // Retries at higher precision reuse the level listings.
     let cached = Cached::new(spectrum);
     loop {
-        let st = stats_path(&cached, &beta, prec, path)?;
+        let st = stats_metered(&cached, &beta, prec, path, meter)?;
         let p = point(&st, &t_text, digits, prec, max_bits);
         if p.certified || prec >= max_bits {
             return Ok(p);
