@@ -335,6 +335,14 @@ impl EnsembleReport {
             *e.as_abs() > tol_f
         };
         let cached = crate::sum::Cached::new(spectrum);
+        // Memory: the recursion keeps Q_0..Q_N as balls on jets (under a
+        // kilobyte each at the working precision) and the answer a row per
+        // temperature (about half a kilobyte with its text).
+        crate::spectrum::Budget::default().check(
+            &format!("Q_N of {n} particles over {} temperatures", grid.len()),
+            n as f64 * 1024.0 + grid.len() as f64 * 512.0,
+            "give fewer temperatures or particles",
+        )?;
         // Hottest first: the costliest temperature is timed first.
         let mut order: Vec<usize> = (0..grid.len()).collect();
         order.sort_by(|&a, &b| grid[b].cmp(&grid[a]));

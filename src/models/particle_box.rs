@@ -614,6 +614,8 @@ impl ParticleInBox {
         let m = self.scaled_cutoff(cutoff)?;
         let w = self.weights();
         let steps = lattice::estimated_steps(&w, m);
+        // The counters keep a few words per slice: the baseline alone.
+        budget.check("counting the states", 0.0, "")?;
         budget.check_work(
             &format!(
                 "counting the states up to {} ({steps:.1e} lattice steps)",
