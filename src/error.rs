@@ -54,7 +54,7 @@ impl Error {
             ErrorKind::Parse,
             format!(
                 "cannot read {what} {:?}: expected {allowed}",
-                crate::input::excerpt(value)
+                excerpt(value)
             ),
         )
     }
@@ -65,7 +65,7 @@ impl Error {
             ErrorKind::InvalidParameter,
             format!(
                 "{what} {} is not allowed: {allowed}",
-                crate::input::excerpt(&value.to_string())
+                excerpt(&value.to_string())
             ),
         )
     }
@@ -91,3 +91,27 @@ impl From<std::io::Error> for Error {
         Error::new(ErrorKind::Io, e.to_string())
     }
 }
+
+/// The longest excerpt of a user's text that a message quotes, in
+/// characters.
+pub const EXCERPT_CHARS: usize = 60;
+
+/// `text` as a message quotes it: at most [`EXCERPT_CHARS`] characters,
+/// cut with `…` (and the full length) where longer.
+///
+/// ```
+/// use zsum::error::excerpt;
+/// assert_eq!(excerpt("1.5e3"), "1.5e3");
+/// let long = "9".repeat(1000);
+/// assert!(excerpt(&long).len() < 100);
+/// assert!(excerpt(&long).ends_with("… (1000 characters)"));
+/// ```
+pub fn excerpt(text: &str) -> String {
+    let n = text.chars().count();
+    if n <= EXCERPT_CHARS {
+        return text.to_string();
+    }
+    let head: String = text.chars().take(EXCERPT_CHARS - 20).collect();
+    format!("{head}… ({n} characters)")
+}
+

@@ -19,28 +19,7 @@ pub const MAX_SPECIES_BYTES: u64 = 4 << 20;
 /// The largest level file zsum reads (32 MiB, about a million levels).
 pub const MAX_LEVEL_BYTES: u64 = 32 << 20;
 
-/// The longest excerpt of a user's text that a message quotes, in
-/// characters.
-pub const EXCERPT_CHARS: usize = 60;
-
-/// `text` as a message quotes it: at most [`EXCERPT_CHARS`] characters,
-/// cut with `…` (and the full length) where longer.
-///
-/// ```
-/// use zsum::input::excerpt;
-/// assert_eq!(excerpt("1.5e3"), "1.5e3");
-/// let long = "9".repeat(1000);
-/// assert!(excerpt(&long).len() < 100);
-/// assert!(excerpt(&long).ends_with("… (1000 characters)"));
-/// ```
-pub fn excerpt(text: &str) -> String {
-    let n = text.chars().count();
-    if n <= EXCERPT_CHARS {
-        return text.to_string();
-    }
-    let head: String = text.chars().take(EXCERPT_CHARS - 20).collect();
-    format!("{head}… ({n} characters)")
-}
+pub use crate::error::{excerpt, EXCERPT_CHARS};
 
 /// Reads the file at `path` as UTF-8 text, refusing one larger than `cap`
 /// bytes; `what` names the kind of file (`system file`, `level file`) in
@@ -68,7 +47,7 @@ pub fn read_text(path: &Path, what: &str, cap: u64) -> Result<String> {
         ));
     }
     if meta.is_file() && meta.len() > cap {
-        let size = crate::spectrum::human_bytes(meta.len() as f64);
+        let size = crate::budget::human_bytes(meta.len() as f64);
         return Err(too_big(&format!("is {size}, more than")));
     }
     let mut bytes = Vec::new();
