@@ -114,4 +114,3 @@ pub fn excerpt(text: &str) -> String {
     let head: String = text.chars().take(EXCERPT_CHARS - 20).collect();
     format!("{head}… ({n} characters)")
 }
-
