@@ -1,8 +1,8 @@
 //! Classical (high-temperature) approximations, their systematic
 //! corrections, and how far each is from the exact sum.
 //!
-//! A model that has a classical limit describes it by a [`Form`]
-//! ([`Spectrum::classical_form`]); each form offers a list of
+//! A model describes its exact structure ([`Spectrum::structure`]); from
+//! it this layer builds the model's classical form, which offers a list of
 //! [`Approximation`]s, the first always the classical (integral) one, then
 //! corrections of rising order. Every approximation is written once as
 //! ln q(kT); U/kT, Cv/k and S/k follow by exact differentiation in MPFR
@@ -36,7 +36,7 @@ mod jet;
 mod search;
 
 use crate::error::{Error, ErrorKind, Result};
-use crate::spectrum::Spectrum;
+use crate::spectrum::{Spectrum, Structure};
 use crate::sum::{thermo, Temperature};
 use crate::units::EnergyUnit;
 use jet::{Jet, PREC};
@@ -53,7 +53,7 @@ pub use search::{crossovers, Crossing, CrossoverReport, SearchRange};
 /// The structure of a model's classical limit: what its approximations
 /// are built from. Energies are in the spectrum's unit.
 #[derive(Debug, Clone, PartialEq)]
-pub enum Form {
+pub(crate) enum Form {
     /// `E = Σ_i w_i n_i²`, n_i ≥ 1: a box, one weight per axis.
     Squares(Vec<BigRational>),
     /// `E = b J(J+1)` with `(2J+1)·w(J mod 2)` states, weights `[even, odd]`.
@@ -130,8 +130,47 @@ fn oscillator_terms(zero_point: bool) -> &'static [(i32, i64, i64)] {
 }
 
 impl Form {
+    /// The classical form of a spectrum, from its exact structure; `None`
+    /// where it has none (nothing known beyond its levels, or a part
+    /// without one).
+    pub(crate) fn of(s: &dyn Spectrum) -> Option<Form> {
+        match s.structure() {
+            Structure::Finite => Form::finite(s),
+            Structure::Parts(parts) => Some(Form::Parts(
+                parts
+                    .into_iter()
+                    .map(|(p, f)| Some((Form::of(p)?, f)))
+                    .collect::<Option<_>>()?,
+            )),
+            other => Form::from_structure(other),
+        }
+    }
+
+    /// The classical form of a structure that names no spectrum.
+    fn from_structure(st: Structure<'_>) -> Option<Form> {
+        Some(match st {
+            Structure::Opaque | Structure::Finite | Structure::Parts(_) => return None,
+            Structure::Squares(ws) => Form::Squares(ws),
+            Structure::Harmonic(modes, zero_point) => Form::Harmonic(modes, zero_point),
+            // The approximations are those of the rigid rotor; centrifugal
+            // terms are what the exact sum adds.
+            Structure::Rotor { b, weights, .. } => Form::Rotor(b, weights),
+            Structure::Top { b, unique } => Form::Top { b, unique },
+            Structure::Spherical(b) => Form::Spherical(b),
+            Structure::Near { parts, shift } => Form::Shifted(
+                Box::new(Form::Parts(
+                    parts
+                        .into_iter()
+                        .map(|(st, f)| Some((Form::from_structure(st)?, f)))
+                        .collect::<Option<_>>()?,
+                )),
+                shift,
+            ),
+        })
+    }
+
     /// The exact form of a spectrum with finitely many levels.
-    pub fn finite(s: &dyn Spectrum) -> Option<Form> {
+    fn finite(s: &dyn Spectrum) -> Option<Form> {
         let top = s.highest_energy()?;
         let list = s.levels_up_to(&top).ok()?;
         Some(Form::Levels(
@@ -558,7 +597,7 @@ impl<'a> Classical<'a> {
     /// # Ok::<(), zsum::Error>(())
     /// ```
     pub fn new(spectrum: &'a dyn Spectrum) -> Result<Self> {
-        let form = spectrum.classical_form().ok_or_else(|| {
+        let form = Form::of(spectrum).ok_or_else(|| {
             Error::new(
                 ErrorKind::InvalidParameter,
                 format!(
@@ -582,8 +621,8 @@ impl<'a> Classical<'a> {
         Ok(Classical { spectrum, form })
     }
 
-    /// The form.
-    pub fn form(&self) -> &Form {
+    /// The classical form built from the spectrum's structure.
+    pub(crate) fn form(&self) -> &Form {
         &self.form
     }
 

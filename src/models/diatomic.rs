@@ -30,7 +30,7 @@ use crate::level::{Level, LevelList};
 use crate::models::oscillator::{
     half, int, last_true, show, AnharmonicOscillator, LEVEL_BYTES, STATE_BYTES,
 };
-use crate::spectrum::{check_cutoff, Budget, Spectrum, State};
+use crate::spectrum::{check_cutoff, Budget, Spectrum, State, Structure};
 use crate::units::EnergyUnit;
 use num_bigint::{BigInt, BigUint};
 use num_rational::BigRational;
@@ -522,30 +522,31 @@ impl RovibDiatomic {
 impl Spectrum for RovibDiatomic {
     /// A rigid rotor with B_0 times harmonic vibration with the
     /// fundamental G(1) − G(0), energies from the true ground level.
-    fn classical_form(&self) -> Option<crate::classical::Form> {
-        use crate::classical::Form;
+    fn structure(&self) -> Structure<'_> {
         let w = self.vib.term_value(1) - self.vib.term_value(0);
         let b0 = self.b_v(0);
         if !w.is_positive() || !b0.is_positive() {
-            return None;
+            return Structure::Opaque;
         }
         let one = BigRational::from_integer(1.into());
-        Some(Form::Shifted(
-            Box::new(Form::Parts(vec![
+        let weights = [
+            self.weights.weight(0).clone(),
+            self.weights.weight(1).clone(),
+        ];
+        Structure::Near {
+            parts: vec![
                 (
-                    Form::Rotor(
-                        b0,
-                        [
-                            self.weights.weight(0).clone(),
-                            self.weights.weight(1).clone(),
-                        ],
-                    ),
+                    Structure::Rotor {
+                        b: b0,
+                        weights,
+                        rigid: true,
+                    },
                     one.clone(),
                 ),
-                (Form::Harmonic(vec![(w, 1)], false), one),
-            ])),
-            self.ground.clone(),
-        ))
+                (Structure::Harmonic(vec![(w, 1)], false), one),
+            ],
+            shift: self.ground.clone(),
+        }
     }
 
     fn describe(&self) -> String {

@@ -75,7 +75,7 @@
 use crate::error::{Error, ErrorKind, Result};
 use crate::exact::{parse_rational, rational_string};
 use crate::level::{Level, LevelList};
-use crate::spectrum::{check_cutoff, Budget, Spectrum, State};
+use crate::spectrum::{check_cutoff, Budget, Spectrum, State, Structure};
 use crate::units::EnergyUnit;
 use num_bigint::BigUint;
 use num_rational::BigRational;
@@ -545,10 +545,10 @@ impl LevelFile {
 }
 
 impl Spectrum for LevelFile {
-    /// A finite list is its own classical limit: it is carried exactly
-    /// inside products.
-    fn classical_form(&self) -> Option<crate::classical::Form> {
-        crate::classical::Form::finite(self)
+    /// A finite list: carried exactly inside every classical
+    /// approximation of a product.
+    fn structure(&self) -> Structure<'_> {
+        Structure::Finite
     }
 
     fn describe(&self) -> String {

@@ -57,7 +57,7 @@
 use crate::error::{Error, Result};
 use crate::exact::{floor_nonneg, format_sig, parse_rational, pow10, rational_string};
 use crate::level::{Level, LevelList};
-use crate::spectrum::{check_cutoff, Budget, Spectrum, State};
+use crate::spectrum::{check_cutoff, Budget, Spectrum, State, Structure};
 use crate::units::EnergyUnit;
 use num_bigint::{BigInt, BigUint};
 use num_integer::Integer;
@@ -684,15 +684,8 @@ impl Spectrum for HarmonicModes {
         Ok(states)
     }
 
-    fn shape(&self) -> crate::sum::Shape<'_> {
-        crate::sum::Shape::Harmonic(self.modes().to_vec(), self.zero_point())
-    }
-
-    fn classical_form(&self) -> Option<crate::classical::Form> {
-        Some(crate::classical::Form::Harmonic(
-            self.modes().to_vec(),
-            self.zero_point(),
-        ))
+    fn structure(&self) -> Structure<'_> {
+        Structure::Harmonic(self.modes().to_vec(), self.zero_point())
     }
 
     fn growth_exponent(&self) -> Option<f64> {

@@ -31,7 +31,7 @@ use crate::counting::lattice;
 use crate::error::{Error, Result};
 use crate::exact::{floor_nonneg, isqrt_u64, pi_upper, rational_string, sqrt_upper};
 use crate::level::{Level, LevelList};
-use crate::spectrum::{Budget, Spectrum, State};
+use crate::spectrum::{Budget, Spectrum, State, Structure};
 use crate::units::EnergyUnit;
 use num_bigint::{BigInt, BigUint};
 use num_integer::Integer;
@@ -710,14 +710,8 @@ impl Spectrum for ParticleInBox {
         Ok(states)
     }
 
-    fn shape(&self) -> crate::sum::Shape<'_> {
-        crate::sum::Shape::Squares(self.sides.iter().map(|s| (s * s).recip()).collect())
-    }
-
-    fn classical_form(&self) -> Option<crate::classical::Form> {
-        Some(crate::classical::Form::Squares(
-            self.sides.iter().map(|s| (s * s).recip()).collect(),
-        ))
+    fn structure(&self) -> Structure<'_> {
+        Structure::Squares(self.sides.iter().map(|s| (s * s).recip()).collect())
     }
 
     fn growth_exponent(&self) -> Option<f64> {

@@ -10,7 +10,7 @@
 use crate::error::{Error, ErrorKind, Result};
 use crate::exact::rational_string;
 use crate::level::LevelList;
-use crate::spectrum::{check_cutoff, Budget, Spectrum, State};
+use crate::spectrum::{check_cutoff, Budget, Spectrum, State, Structure};
 use crate::units::EnergyUnit;
 use num_bigint::BigUint;
 use num_rational::BigRational;
@@ -221,16 +221,6 @@ impl Product {
 const PAIR_OPS: f64 = 400.0;
 
 impl Spectrum for Product {
-    fn classical_form(&self) -> Option<crate::classical::Form> {
-        let parts = self
-            .parts
-            .iter()
-            .zip(&self.factor)
-            .map(|(p, f)| Some((p.spectrum.classical_form()?, f.clone())))
-            .collect::<Option<Vec<_>>>()?;
-        Some(crate::classical::Form::Parts(parts))
-    }
-
     fn describe(&self) -> String {
         self.parts
             .iter()
@@ -295,8 +285,8 @@ impl Spectrum for Product {
         Ok(out)
     }
 
-    fn shape(&self) -> crate::sum::Shape<'_> {
-        crate::sum::Shape::Parts(
+    fn structure(&self) -> Structure<'_> {
+        Structure::Parts(
             self.parts
                 .iter()
                 .zip(&self.factor)

@@ -21,7 +21,7 @@ use crate::error::{Error, Result};
 use crate::exact::exact_decimal;
 use crate::level::{Level, LevelList};
 use crate::models::diatomic::ParityWeights;
-use crate::spectrum::{check_cutoff, Budget, Spectrum, State};
+use crate::spectrum::{check_cutoff, Budget, Spectrum, State, Structure};
 use crate::units::EnergyUnit;
 use num_bigint::{BigInt, BigUint};
 use num_rational::BigRational;
@@ -441,27 +441,14 @@ impl Spectrum for LinearRotor {
         turnover_poly(&self.b, &self.d, &self.h)
     }
 
-    fn classical_form(&self) -> Option<crate::classical::Form> {
-        Some(crate::classical::Form::Rotor(
-            self.b.clone(),
-            [
+    fn structure(&self) -> Structure<'_> {
+        Structure::Rotor {
+            b: self.b.clone(),
+            weights: [
                 self.weights.weight(0).clone(),
                 self.weights.weight(1).clone(),
             ],
-        ))
-    }
-
-    fn shape(&self) -> crate::sum::Shape<'_> {
-        if self.d.is_zero() && self.h.is_zero() {
-            crate::sum::Shape::RigidLadder(
-                self.b.clone(),
-                [
-                    self.weights.weight(0).clone(),
-                    self.weights.weight(1).clone(),
-                ],
-            )
-        } else {
-            crate::sum::Shape::Direct
+            rigid: self.d.is_zero() && self.h.is_zero(),
         }
     }
 
@@ -708,11 +695,11 @@ impl SymmetricTop {
 }
 
 impl Spectrum for SymmetricTop {
-    fn classical_form(&self) -> Option<crate::classical::Form> {
-        Some(crate::classical::Form::Top {
+    fn structure(&self) -> Structure<'_> {
+        Structure::Top {
             b: self.b.clone(),
             unique: self.unique.clone(),
-        })
+        }
     }
 
     fn describe(&self) -> String {
@@ -850,8 +837,8 @@ impl SphericalTop {
 }
 
 impl Spectrum for SphericalTop {
-    fn classical_form(&self) -> Option<crate::classical::Form> {
-        Some(crate::classical::Form::Spherical(self.b.clone()))
+    fn structure(&self) -> Structure<'_> {
+        Structure::Spherical(self.b.clone())
     }
 
     fn describe(&self) -> String {

@@ -49,7 +49,7 @@
 use crate::error::{Error, ErrorKind, Result};
 use crate::exact::{parse_rational, rational_string};
 use crate::level::{Level, LevelList};
-use crate::spectrum::{check_cutoff, Budget, Spectrum, State};
+use crate::spectrum::{check_cutoff, Budget, Spectrum, State, Structure};
 use crate::units::EnergyUnit;
 use num_bigint::{BigInt, BigUint};
 use num_rational::BigRational;
@@ -290,10 +290,10 @@ impl ZeemanMultiplet {
 }
 
 impl Spectrum for ZeemanMultiplet {
-    /// A finite list is its own classical limit: it is carried exactly
-    /// inside products.
-    fn classical_form(&self) -> Option<crate::classical::Form> {
-        crate::classical::Form::finite(self)
+    /// A finite list: carried exactly inside every classical
+    /// approximation of a product.
+    fn structure(&self) -> Structure<'_> {
+        Structure::Finite
     }
 
     fn describe(&self) -> String {

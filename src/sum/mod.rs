@@ -50,14 +50,14 @@
 //! precision (Ziv's strategy).
 //!
 //! # Fast exact paths
-//! - independent parts ([`Shape::Parts`]): summed separately; ln q, U, Cv
+//! - independent parts ([`Structure::Parts`]): summed separately; ln q, U, Cv
 //!   and S add;
-//! - a ladder `E = w n²`, n ≥ 1 (the box along one axis, [`Shape::Squares`]):
+//! - a ladder `E = w n²`, n ≥ 1 (the box along one axis, [`Structure::Squares`]):
 //!   for `a = w/kT < 1` through Jacobi's imaginary transformation
 //!   `Σ_{n∈Z} e^{−an²} = sqrt(π/a) Σ_{m∈Z} e^{−π²m²/a}` and its derivatives in
 //!   a, so a macroscopic box costs a handful of terms;
-//! - harmonic modes ([`Shape::Harmonic`]): the geometric series in closed form;
-//! - the rigid rotor ladder ([`Shape::RigidLadder`]): successive terms by the
+//! - harmonic modes ([`Structure::Harmonic`]): the geometric series in closed form;
+//! - the rigid rotor ladder ([`Structure::Rotor`], rigid): successive terms by the
 //!   recurrence `e^{−x_{J+1}} = e^{−x_J} · f_J`, `f_{J+1} = f_J e^{−2y}`; the
 //!   tail past J is at most the first omitted envelope term over (1 − ρ) once
 //!   the neighbour ratio ρ of the envelope is below 1. For y = θ/T ≤ 1/2 the
@@ -74,7 +74,7 @@ mod ladder;
 use crate::budget::Meter;
 use crate::error::{Error, ErrorKind, Result};
 use crate::exact::rational_string;
-use crate::spectrum::Spectrum;
+use crate::spectrum::{Spectrum, Structure};
 use crate::units::EnergyUnit;
 use ball::{Ball, RP};
 use num_rational::BigRational;
@@ -87,25 +87,6 @@ pub use format::float_to_decimal;
 
 /// The largest number of significant digits the engine accepts.
 pub const MAX_DIGITS: u32 = 1000;
-
-/// How a spectrum's sum can be organised. Spectra describe their structure;
-/// the engine decides how to sum it.
-pub enum Shape<'a> {
-    /// List levels and sum them directly.
-    Direct,
-    /// Independent parts, each with the size of its unit in the whole's
-    /// unit: energies add, so ln q, U, Cv and S add.
-    Parts(Vec<(&'a dyn Spectrum, BigRational)>),
-    /// `E = Σ_i w_i n_i²` with every `n_i ≥ 1` (a box): independent square
-    /// ladders, one weight each.
-    Squares(Vec<BigRational>),
-    /// Harmonic modes `(ω, degeneracy)`, with or without zero-point energy.
-    Harmonic(Vec<(BigRational, u32)>, bool),
-    /// `E = b J(J+1)`, J = 0, 1, ..., with `(2J+1)·w(J mod 2)` states (a
-    /// rigid linear rotor with parity weights `[even, odd]`): summed by a
-    /// two-multiplication recurrence instead of one exponential per level.
-    RigidLadder(BigRational, [num_bigint::BigUint; 2]),
-}
 
 /// A temperature: in kelvin, or as kT in the spectrum's own unit (for a box
 /// without mass and side, kT in units of h²/(8 m L²)).
@@ -328,9 +309,14 @@ fn stats_metered(
     }
     // Parts share the tail target: a few guard bits cover their number.
     let share = |n: usize| prec + (usize::BITS - n.leading_zeros());
-    match s.shape() {
-        Shape::Direct => direct::stats(s, beta, prec),
-        Shape::Parts(parts) => {
+    match s.structure() {
+        Structure::Opaque
+        | Structure::Finite
+        | Structure::Top { .. }
+        | Structure::Spherical(_)
+        | Structure::Near { .. }
+        | Structure::Rotor { rigid: false, .. } => direct::stats(s, beta, prec),
+        Structure::Parts(parts) => {
             let p = share(parts.len());
             let n = parts.len() as f64;
             // Part by part, stopping at the first error or refusal.
@@ -343,13 +329,17 @@ fn stats_metered(
             }
             sum_parts(sts, "spectrum")
         }
-        Shape::Squares(ws) => {
+        Structure::Squares(ws) => {
             let p = share(ws.len());
             let sts = ws.iter().map(|w| closed::squares(&(w * beta), p)).collect();
             sum_parts(sts, "box")
         }
-        Shape::RigidLadder(b, w) => ladder::rigid_ladder(&(&b * beta), &w, prec),
-        Shape::Harmonic(modes, zero_point) => {
+        Structure::Rotor {
+            b,
+            weights,
+            rigid: true,
+        } => ladder::rigid_ladder(&(&b * beta), &weights, prec),
+        Structure::Harmonic(modes, zero_point) => {
             let sts = modes
                 .iter()
                 .map(|(w, d)| closed::harmonic(&(w * beta), *d, zero_point, prec))
@@ -599,8 +589,10 @@ pub struct Cached<'a> {
 impl<'a> Cached<'a> {
     /// Wraps `inner`.
     pub fn new(inner: &'a dyn Spectrum) -> Self {
-        let parts = match inner.shape() {
-            Shape::Parts(ps) => Some(ps.into_iter().map(|(p, f)| (Cached::new(p), f)).collect()),
+        let parts = match inner.structure() {
+            Structure::Parts(ps) => {
+                Some(ps.into_iter().map(|(p, f)| (Cached::new(p), f)).collect())
+            }
             _ => None,
         };
         Cached {
@@ -653,21 +645,18 @@ impl Spectrum for Cached<'_> {
     fn labels_at(&self, energy: &BigRational) -> Vec<String> {
         self.inner.labels_at(energy)
     }
-    fn shape(&self) -> Shape<'_> {
+    fn structure(&self) -> Structure<'_> {
         match &self.parts {
-            Some(ps) => Shape::Parts(
+            Some(ps) => Structure::Parts(
                 ps.iter()
                     .map(|(c, f)| (c as &dyn Spectrum, f.clone()))
                     .collect(),
             ),
-            None => self.inner.shape(),
+            None => self.inner.structure(),
         }
     }
     fn highest_energy(&self) -> Option<BigRational> {
         self.inner.highest_energy()
-    }
-    fn classical_form(&self) -> Option<crate::classical::Form> {
-        self.inner.classical_form()
     }
     fn growth_exponent(&self) -> Option<f64> {
         self.inner.growth_exponent()

@@ -6,6 +6,10 @@
 //! states up to any energy (the summation engine bounds truncated tails with
 //! it). Temperature and floating point never appear here.
 
+mod structure;
+
+pub use structure::Structure;
+
 use crate::error::{Error, Result};
 use crate::level::LevelList;
 use crate::units::EnergyUnit;
@@ -93,17 +97,12 @@ pub trait Spectrum {
         Ok(Vec::new())
     }
 
-    /// How the engine may organise this spectrum's sums (independent parts,
-    /// square ladders, harmonic modes); default: list levels and sum them.
-    fn shape(&self) -> crate::sum::Shape<'_> {
-        crate::sum::Shape::Direct
-    }
-
-    /// The structure of this spectrum's classical (high-temperature) limit,
-    /// from which [`crate::classical`] builds its approximations; default:
-    /// none.
-    fn classical_form(&self) -> Option<crate::classical::Form> {
-        None
+    /// What is known exactly about the spectrum beyond its levels (parts,
+    /// square ladders, harmonic modes, rotor ladders, a finite list): the
+    /// engine sums by it and the classical layer approximates by it.
+    /// Default: nothing ([`Structure::Opaque`]).
+    fn structure(&self) -> Structure<'_> {
+        Structure::Opaque
     }
 
     /// The highest level, for spectra with finitely many levels (they are
