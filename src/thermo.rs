@@ -10,8 +10,9 @@ use crate::budget::Meter;
 use crate::error::{Error, Result};
 use crate::exact::{exact_decimal, parse_rational};
 use crate::export::{units_block, Column, Tabular};
+use crate::report::ThermoPoint;
 use crate::spectrum::Spectrum;
-use crate::sum::{reformat, scaled_decimal, thermo_metered, Path, Temperature, ThermoPoint};
+use crate::sum::{thermo_metered, Certified, Path, Temperature};
 use crate::units::constants;
 use num_bigint::BigInt;
 use num_rational::BigRational;
@@ -284,18 +285,23 @@ impl ThermoReport {
                     max_bits,
                     Some((meter, count as f64)),
                 )?;
-                let mut point = reformat(&wide, digits);
+                let mut point = ThermoPoint::new(&wide, "", digits);
                 let mut ok = point.certified;
-                let mut re = |b: &crate::sum::ball::Ball, f: &BigRational| {
-                    let (v, good) = scaled_decimal(b, f, digits);
+                let mut re = |b: &Certified, f: &BigRational| {
+                    let (v, good) = b.scale(f).decimal_marked(digits);
                     ok &= good;
                     Some(v)
                 };
-                let v = &wide.values;
+                let w = &wide;
                 let (u, cv, s, f) = match &scale {
                     Some(c) => {
                         let ct = c * t;
-                        (re(&v.u, &ct), re(&v.cv, c), re(&v.s, c), re(&v.f, &ct))
+                        (
+                            re(&w.u_over_kt, &ct),
+                            re(&w.cv_over_k, c),
+                            re(&w.s_over_k, c),
+                            re(&w.f_over_kt, &ct),
+                        )
                     }
                     None => (None, None, None, None),
                 };

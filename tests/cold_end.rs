@@ -111,7 +111,7 @@ proptest! {
             e += BigRational::new((*step).into(), 100.into());
         }
         let s = Listed(LevelList::new(EnergyUnit::Kelvin, levels.clone()));
-        let p = thermo(&s, &Temperature::Kelvin(BigRational::from_integer(1.into())), digits).unwrap();
+        let p = zsum::report::ThermoPoint::of(&thermo(&s, &Temperature::Kelvin(BigRational::from_integer(1.into())), digits).unwrap());
         prop_assert!(p.certified, "{p:?}");
         let prec = (3.0 * (gap * 1.45 + 4.0 * digits as f64 + 64.0)) as u32 + 256;
         let (mut s0, mut s1, mut s2) = (Float::new(prec), Float::new(prec), Float::new(prec));
@@ -379,7 +379,9 @@ fn an_unsettled_value_is_marked_with_the_reason_at_the_effort_limit() {
     let one = vec![Level::new(BigRational::new(3.into(), 20.into()), 1u32)];
     let s = Listed(LevelList::new(EnergyUnit::Kelvin, one));
     let t = Temperature::Kelvin(BigRational::from_integer(1.into()));
-    let p = zsum::sum::thermo_limited(&s, &t, 1, zsum::sum::Path::Auto, 512).unwrap();
+    let p = zsum::report::ThermoPoint::of(
+        &zsum::sum::thermo_limited(&s, &t, 1, zsum::sum::Path::Auto, 512).unwrap(),
+    );
     assert!(!p.certified);
     assert_eq!(p.precision_bits, 512);
     assert_eq!(p.max_bits, 512);
@@ -390,7 +392,9 @@ fn an_unsettled_value_is_marked_with_the_reason_at_the_effort_limit() {
         "{why}"
     );
     // The same spectrum at two digits is exact: 0.15.
-    let p2 = zsum::sum::thermo_limited(&s, &t, 2, zsum::sum::Path::Auto, 512).unwrap();
+    let p2 = zsum::report::ThermoPoint::of(
+        &zsum::sum::thermo_limited(&s, &t, 2, zsum::sum::Path::Auto, 512).unwrap(),
+    );
     assert!(p2.certified);
     assert_eq!(p2.u_over_kt, "0.15");
 }

@@ -9,8 +9,9 @@ use zsum::models::oscillator::HarmonicModes;
 use zsum::models::product::{Part, Product};
 use zsum::models::rotor::LinearRotor;
 use zsum::models::ParticleInBox;
+use zsum::report::ThermoPoint;
 use zsum::spectrum::{Budget, Spectrum, State};
-use zsum::sum::{thermo, thermo_with, Path, Temperature, ThermoPoint};
+use zsum::sum::{thermo, thermo_with, Path, Temperature};
 use zsum::units::EnergyUnit;
 
 fn r(s: &str) -> BigRational {
@@ -48,7 +49,7 @@ fn harmonic_oscillator_matches_its_closed_form_and_the_direct_sum() {
     // (f64 evaluation of the closed form limits the tolerance).
     let ho = HarmonicModes::one_d(r("1"), false, EnergyUnit::Kelvin).unwrap();
     for t in ["0.05", "0.3", "1", "2", "7.5", "40", "1000"] {
-        let p = thermo(&ho, &kelvin(t), 25).unwrap();
+        let p = ThermoPoint::of(&thermo(&ho, &kelvin(t), 25).unwrap());
         let x = 1.0 / f(t);
         let q = 1.0 / (1.0 - (-x).exp());
         let u = x / x.exp_m1();
@@ -59,7 +60,7 @@ fn harmonic_oscillator_matches_its_closed_form_and_the_direct_sum() {
         // The geometric-series path and the plain direct sum agree on every
         // printed digit.
         if f(t) <= 40.0 {
-            let d = thermo_with(&ho, &kelvin(t), 25, Path::Direct).unwrap();
+            let d = ThermoPoint::of(&thermo_with(&ho, &kelvin(t), 25, Path::Direct).unwrap());
             same_digits(&p, &d);
         }
     }
@@ -71,7 +72,7 @@ fn rigid_rotor_matches_mulholland_at_high_temperature() {
     // + ... (from memory); the next term is of order (θ/T)⁴.
     let rot = LinearRotor::rigid(r("1"), EnergyUnit::Kelvin).unwrap();
     for (t, tol) in [("100", 1e-9), ("1000", 1e-13), ("10000", 1e-15)] {
-        let p = thermo(&rot, &kelvin(t), 30).unwrap();
+        let p = ThermoPoint::of(&thermo(&rot, &kelvin(t), 30).unwrap());
         let y = 1.0 / f(t);
         let m = 1.0 / y + 1.0 / 3.0 + y / 15.0 + 4.0 / 315.0 * y * y + y * y * y / 315.0;
         assert!((f(&p.q) / m - 1.0).abs() < tol, "T/θ = {t}: {} vs {m}", p.q);
@@ -92,8 +93,8 @@ fn rotor_recurrence_matches_the_direct_sum() {
             .unwrap()
             .with_weights(w);
         for t in ["0.05", "0.7", "3", "40", "3000"] {
-            let a = thermo(&rot, &kelvin(t), 30).unwrap();
-            let d = thermo_with(&rot, &kelvin(t), 30, Path::Direct).unwrap();
+            let a = ThermoPoint::of(&thermo(&rot, &kelvin(t), 30).unwrap());
+            let d = ThermoPoint::of(&thermo_with(&rot, &kelvin(t), 30, Path::Direct).unwrap());
             same_digits(&a, &d);
         }
     }
@@ -108,16 +109,16 @@ fn box_theta_path_matches_the_direct_sum() {
         "10000", "1000", "100", "10", "2", "1", "0.999", "0.5", "0.1",
     ] {
         let t = Temperature::ThermalEnergy(r(kt));
-        let a = thermo(&seg, &t, 30).unwrap();
-        let d = thermo_with(&seg, &t, 30, Path::Direct).unwrap();
+        let a = ThermoPoint::of(&thermo(&seg, &t, 30).unwrap());
+        let d = ThermoPoint::of(&thermo_with(&seg, &t, 30, Path::Direct).unwrap());
         same_digits(&a, &d);
     }
     // 2D and 3D boxes are products of axes; the direct lattice sum agrees.
     let sq = ParticleInBox::new(vec![r("1"), r("3/2")]).unwrap();
     let t = Temperature::ThermalEnergy(r("40"));
     same_digits(
-        &thermo(&sq, &t, 20).unwrap(),
-        &thermo_with(&sq, &t, 20, Path::Direct).unwrap(),
+        &ThermoPoint::of(&thermo(&sq, &t, 20).unwrap()),
+        &ThermoPoint::of(&thermo_with(&sq, &t, 20, Path::Direct).unwrap()),
     );
 }
 
@@ -133,8 +134,8 @@ fn asking_for_more_digits_extends_the_same_digits() {
         (&cube, Temperature::ThermalEnergy(r("2.5"))),
     ];
     for (s, t) in cases {
-        let p30 = thermo(s, &t, 30).unwrap();
-        let p60 = thermo(s, &t, 60).unwrap();
+        let p30 = ThermoPoint::of(&thermo(s, &t, 30).unwrap());
+        let p60 = ThermoPoint::of(&thermo(s, &t, 60).unwrap());
         for (a, b) in [
             (&p30.q, &p60.q),
             (&p30.ln_q, &p60.ln_q),
@@ -154,7 +155,7 @@ fn extreme_temperatures_behave() {
         .with_weights(zsum::models::diatomic::ParityWeights::from_nuclear_spin(
             0, true,
         ));
-    let p = thermo(&o2, &kelvin("1e-6"), 20).unwrap();
+    let p = ThermoPoint::of(&thermo(&o2, &kelvin("1e-6"), 20).unwrap());
     // Only odd N: the ground level is N = 1 with 3 states (E = 4 K).
     assert_eq!(
         p.q.parse::<f64>().unwrap(),
@@ -169,16 +170,22 @@ fn extreme_temperatures_behave() {
         p.s_over_k
     );
     let ho = HarmonicModes::one_d(r("1"), false, EnergyUnit::Kelvin).unwrap();
-    let p = thermo(&ho, &kelvin("0.001"), 20).unwrap();
+    let p = ThermoPoint::of(&thermo(&ho, &kelvin("0.001"), 20).unwrap());
     assert_eq!(p.q, "1.0000000000000000000");
     assert!(f(&p.cv_over_k) < 1e-400_f64.max(1e-300));
     // High T: the classical values (equipartition): rotor 1, oscillator 1,
     // 3D box 3/2 (common practice).
     let rot = LinearRotor::rigid(r("1"), EnergyUnit::Kelvin).unwrap();
-    assert!((f(&thermo(&rot, &kelvin("1e6"), 20).unwrap().cv_over_k) - 1.0).abs() < 1e-12);
-    assert!((f(&thermo(&ho, &kelvin("1e6"), 20).unwrap().cv_over_k) - 1.0).abs() < 1e-11);
+    assert!(
+        (f(&ThermoPoint::of(&thermo(&rot, &kelvin("1e6"), 20).unwrap()).cv_over_k) - 1.0).abs()
+            < 1e-12
+    );
+    assert!(
+        (f(&ThermoPoint::of(&thermo(&ho, &kelvin("1e6"), 20).unwrap()).cv_over_k) - 1.0).abs()
+            < 1e-11
+    );
     let cube = ParticleInBox::cube(3).unwrap();
-    let p = thermo(&cube, &Temperature::ThermalEnergy(r("1e16")), 20).unwrap();
+    let p = ThermoPoint::of(&thermo(&cube, &Temperature::ThermalEnergy(r("1e16")), 20).unwrap());
     assert!((f(&p.cv_over_k) - 1.5).abs() < 1e-8);
 }
 
@@ -271,8 +278,8 @@ proptest! {
     fn thermodynamic_invariants(b in 1i64..50, t1 in 1i64..200, dt in 1i64..200) {
         let rot = LinearRotor::rigid(BigRational::from_integer(b.into()), EnergyUnit::Kelvin).unwrap();
         let (ta, tb) = (t1.to_string(), (t1 + dt).to_string());
-        let pa = thermo(&rot, &kelvin(&ta), 16).unwrap();
-        let pb = thermo(&rot, &kelvin(&tb), 16).unwrap();
+        let pa = ThermoPoint::of(&thermo(&rot, &kelvin(&ta), 16).unwrap());
+        let pb = ThermoPoint::of(&thermo(&rot, &kelvin(&tb), 16).unwrap());
         // q increases with T; Cv ≥ 0.
         prop_assert!(f(&pb.q) > f(&pa.q));
         prop_assert!(f(&pa.cv_over_k) >= 0.0);
@@ -289,14 +296,14 @@ proptest! {
         let rot = LinearRotor::rigid(BigRational::from_integer(b.into()), EnergyUnit::Kelvin).unwrap();
         let ho = HarmonicModes::one_d(BigRational::from_integer(w.into()), true, EnergyUnit::Kelvin).unwrap();
         let temp = kelvin(&t.to_string());
-        let pr = thermo(&rot, &temp, 20).unwrap();
-        let ph = thermo(&ho, &temp, 20).unwrap();
+        let pr = ThermoPoint::of(&thermo(&rot, &temp, 20).unwrap());
+        let ph = ThermoPoint::of(&thermo(&ho, &temp, 20).unwrap());
         let prod = Product::new(vec![
             Part { name: "r".into(), spectrum: Box::new(rot) },
             Part { name: "v".into(), spectrum: Box::new(ho) },
         ], None).unwrap();
-        let pp = thermo(&prod, &temp, 20).unwrap();
-        let pd = thermo_with(&prod, &temp, 20, Path::Direct).unwrap();
+        let pp = ThermoPoint::of(&thermo(&prod, &temp, 20).unwrap());
+        let pd = ThermoPoint::of(&thermo_with(&prod, &temp, 20, Path::Direct).unwrap());
         // The part-by-part path and the direct sum over the product agree.
         same_digits(&pp, &pd);
         for (a, b, c) in [
@@ -347,7 +354,7 @@ fn sweeps_reuse_levels_without_changing_a_digit() {
     .unwrap();
     assert_eq!(rep.rows.len(), 4);
     for (row, t) in rep.rows.iter().zip(&grid) {
-        let alone = thermo(&m, &Temperature::Kelvin(t.clone()), 16).unwrap();
+        let alone = ThermoPoint::of(&thermo(&m, &Temperature::Kelvin(t.clone()), 16).unwrap());
         assert_eq!(row.point.t, zsum::exact::exact_decimal(t, 40));
         assert_eq!(row.point.q, zsum::exact::format_sig(&r(&alone.q), 12));
         assert_eq!(

@@ -682,16 +682,12 @@ impl<'a> Classical<'a> {
 
     pub(crate) fn exact_digits(&self, temperature: &Temperature, digits: u32) -> Result<Values> {
         let p = thermo(self.spectrum, temperature, digits)?;
-        let parse = |s: &str| -> Result<Float> {
-            Float::parse(s)
-                .map(|v| Float::with_val(PREC, v))
-                .map_err(|_| Error::invalid("engine output", s, "a decimal number"))
-        };
+        let v = |c: &crate::sum::Certified| Float::with_val(PREC, c.value());
         Ok(Values {
-            ln_q: parse(&p.ln_q)?,
-            u: parse(&p.u_over_kt)?,
-            cv: parse(&p.cv_over_k)?,
-            s: parse(&p.s_over_k)?,
+            ln_q: v(&p.ln_q),
+            u: v(&p.u_over_kt),
+            cv: v(&p.cv_over_k),
+            s: v(&p.s_over_k),
         })
     }
 

@@ -362,12 +362,6 @@ pub(crate) fn fl(prec: u32, r: &BigRational) -> Float {
     Float::with_val(prec, crate::sum::to_rug(r))
 }
 
-fn parse(prec: u32, s: &str) -> Result<Float> {
-    Float::parse(s)
-        .map(|v| Float::with_val(prec, v))
-        .map_err(|_| Error::invalid("engine output", s, "a decimal number"))
-}
-
 /// hc/k in K per cm⁻¹ (the second radiation constant in m K, × 100),
 /// exact: an energy in cm⁻¹ times this over T is E/kT.
 fn c2_per_cm() -> BigRational {
@@ -383,9 +377,9 @@ pub(crate) fn internal_part(
 ) -> Result<Part> {
     let p = prec(digits);
     let point = thermo(s, &Temperature::Kelvin(t.clone()), digits + GUARD)?;
-    let ln_q = parse(p, &point.ln_q)?;
-    let u = parse(p, &point.u_over_kt)?;
-    let cv = parse(p, &point.cv_over_k)?;
+    let ln_q = Float::with_val(p, point.ln_q.value());
+    let u = Float::with_val(p, point.u_over_kt.value());
+    let cv = Float::with_val(p, point.cv_over_k.value());
     let e0 = fl(p, &(zero * c2_per_cm() / t));
     Ok(Part {
         s: Float::with_val(p, &ln_q + &u),
@@ -417,9 +411,9 @@ fn translation(m: &BigRational, t: &BigRational, o: &MolarOptions) -> Result<Par
         Translation::Box(side) => {
             let b = ParticleInBox::cube(3)?.with_scale(m, side);
             let point = thermo(&b, &Temperature::Kelvin(t.clone()), o.digits + GUARD)?;
-            let ln_qb = parse(p, &point.ln_q)?;
-            let u = parse(p, &point.u_over_kt)?;
-            let cv = parse(p, &point.cv_over_k)?;
+            let ln_qb = Float::with_val(p, point.ln_q.value());
+            let u = Float::with_val(p, point.u_over_kt.value());
+            let cv = Float::with_val(p, point.cv_over_k.value());
             // Ground level 3 box units, measured from.
             let unit_j = crate::units::box_unit_joules(m, side);
             let e0 = fl(p, &(BigRational::from_integer(3.into()) * unit_j / &kt));

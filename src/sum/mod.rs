@@ -65,10 +65,11 @@
 //!   with each truncation's error tracked term by term into the bounds.
 
 pub(crate) mod ball;
+mod certified;
 mod closed;
 mod direct;
 pub(crate) use direct::to_rug;
-mod format;
+pub(crate) mod format;
 mod ladder;
 
 use crate::budget::Meter;
@@ -80,8 +81,8 @@ use ball::{Ball, RP};
 use num_rational::BigRational;
 use num_traits::Signed;
 use rug::Float;
-use serde::Serialize;
 
+pub use certified::Certified;
 pub(crate) use format::ball_decimal;
 pub use format::float_to_decimal;
 
@@ -349,67 +350,73 @@ fn stats_metered(
     }
 }
 
-/// The certified values of one state point, as balls (centre and error
-/// bound), before printing.
+/// One thermodynamic state point, per particle: certified numbers, each
+/// with its error radius. Text is made from it in [`crate::report`].
 #[derive(Debug, Clone)]
-pub(crate) struct Values {
-    pub(crate) ln_q: Ball,
-    pub(crate) u: Ball,
-    pub(crate) cv: Ball,
-    pub(crate) s: Ball,
-    pub(crate) f: Ball,
-}
-
-/// One thermodynamic state point, per particle, with every value written to
-/// the requested digits.
-#[derive(Debug, Clone, Serialize)]
-pub struct ThermoPoint {
-    /// The temperature as given (kelvin, or kT in the spectrum's unit).
-    #[serde(rename = "T")]
-    pub t: String,
-    /// The partition function q.
-    pub q: String,
-    /// ln q.
-    pub ln_q: String,
-    /// Bound on the relative error of q (tail plus rounding).
-    pub rel_bound: String,
+pub struct Thermo {
+    /// ln q, energies as the model gives them.
+    pub ln_q: Certified,
     /// U/(kT).
-    #[serde(rename = "U_over_kT")]
-    pub u_over_kt: String,
+    pub u_over_kt: Certified,
     /// Cv/k.
-    #[serde(rename = "Cv_over_k")]
-    pub cv_over_k: String,
+    pub cv_over_k: Certified,
     /// S/k.
-    #[serde(rename = "S_over_k")]
-    pub s_over_k: String,
-    /// F/(kT).
-    #[serde(rename = "F_over_kT")]
-    pub f_over_kt: String,
-    /// Significant digits of every value.
+    pub s_over_k: Certified,
+    /// F/(kT) = −ln q.
+    pub f_over_kt: Certified,
+    /// The significant digits asked for.
     pub digits: u32,
     /// Working precision used, in bits.
     pub precision_bits: u32,
-    /// Whether every value was proved correctly rounded. False only when
-    /// the effort limit [`ThermoPoint::max_bits`] was reached first; then
-    /// [`ThermoPoint::certified_digits`] says how many digits are proved.
+    /// Whether every value (q included) is proved to `digits` digits.
+    /// False only when the effort limit `max_bits` was reached first; then
+    /// `certified_digits` says how many digits are proved.
     pub certified: bool,
-    /// The number of leading significant digits proved for every value
-    /// (equal to `digits` when certified).
+    /// The leading significant digits proved for every value.
     pub certified_digits: u32,
     /// The effort limit: the most working bits the engine was allowed.
     pub max_bits: u32,
-    #[serde(skip)]
-    pub(crate) values: Values,
 }
 
-impl ThermoPoint {
-    /// Why the point is not certified, or `None` when it is: e.g.
-    /// "digits beyond the 12th need more than 16384 bits; raise --max-bits".
-    pub fn shortfall(&self) -> Option<String> {
-        if self.certified {
-            return None;
+impl Thermo {
+    fn from_stats(st: &Stats, digits: u32, prec: u32, max_bits: u32) -> Thermo {
+        let ln_q = st.ln_q();
+        let all = [ln_q.clone(), st.u(), st.cv.clone(), st.s(), ln_q.neg()];
+        let q_ok = format::exp_decimal(&ln_q, digits).1;
+        let certified = q_ok && all.iter().all(|b| format::ball_decimal(b, digits).1);
+        let certified_digits = if certified {
+            digits
+        } else {
+            all.iter()
+                .map(|b| format::proved_digits(b, digits))
+                .chain([format::proved_exp_digits(&ln_q, digits)])
+                .min()
+                .unwrap_or(0)
+        };
+        let [ln_q, u, cv, s, f] = all.map(Certified);
+        Thermo {
+            ln_q,
+            u_over_kt: u,
+            cv_over_k: cv,
+            s_over_k: s,
+            f_over_kt: f,
+            digits,
+            precision_bits: prec,
+            certified,
+            certified_digits,
+            max_bits,
         }
-        Some(shortfall_text(self.certified_digits, self.max_bits))
+    }
+
+    /// A bound on the relative error of q (tail plus rounding):
+    /// e^r − 1 ≤ 2r for the radius r ≤ 1 of ln q.
+    pub fn q_relative_bound(&self) -> Float {
+        ball::up_mul(self.ln_q.radius(), &Float::with_val(RP, 2))
+    }
+
+    /// Why the point is not certified, or `None` when it is.
+    pub fn shortfall(&self) -> Option<String> {
+        (!self.certified).then(|| shortfall_text(self.certified_digits, self.max_bits))
     }
 }
 
@@ -432,13 +439,12 @@ pub fn shortfall_text(certified: u32, max_bits: u32) -> String {
 /// let rot = LinearRotor::rigid(r("1"), EnergyUnit::Kelvin).unwrap();
 /// let p = thermo(&rot, &Temperature::Kelvin(r("1000")), 20).unwrap();
 /// assert!(p.certified);
-/// assert!(p.cv_over_k.starts_with("1.0000"));
+/// // Numbers with their error radius: Cv/k = 1 + 1/(45 y²)... at y = 1e-3.
+/// assert!((p.cv_over_k.to_f64() - 1.0).abs() < 1e-6);
+/// assert!(p.cv_over_k.radius().to_f64() < 1e-25);
+/// assert!(p.cv_over_k.decimal(20).unwrap().starts_with("1.0000"));
 /// ```
-pub fn thermo(
-    spectrum: &dyn Spectrum,
-    temperature: &Temperature,
-    digits: u32,
-) -> Result<ThermoPoint> {
+pub fn thermo(spectrum: &dyn Spectrum, temperature: &Temperature, digits: u32) -> Result<Thermo> {
     thermo_with(spectrum, temperature, digits, Path::Auto)
 }
 
@@ -448,7 +454,7 @@ pub fn thermo_with(
     temperature: &Temperature,
     digits: u32,
     path: Path,
-) -> Result<ThermoPoint> {
+) -> Result<Thermo> {
     thermo_limited(spectrum, temperature, digits, path, DEFAULT_MAX_BITS)
 }
 
@@ -482,7 +488,7 @@ pub fn thermo_limited(
     digits: u32,
     path: Path,
     max_bits: u32,
-) -> Result<ThermoPoint> {
+) -> Result<Thermo> {
     thermo_metered(spectrum, temperature, digits, path, max_bits, None)
 }
 
@@ -496,81 +502,19 @@ pub fn thermo_metered(
     path: Path,
     max_bits: u32,
     meter: Option<(&Meter, f64)>,
-) -> Result<ThermoPoint> {
+) -> Result<Thermo> {
     check_request(digits, max_bits)?;
     let beta = temperature.beta(&spectrum.unit())?;
-    let t_text = match temperature {
-        Temperature::Kelvin(t) | Temperature::ThermalEnergy(t) => {
-            crate::exact::exact_decimal(t, 40)
-        }
-    };
     let mut prec = precision_for(digits);
     // Retries at higher precision reuse the level listings.
     let cached = Cached::new(spectrum);
     loop {
         let st = stats_metered(&cached, &beta, prec, path, meter)?;
-        let p = point(&st, &t_text, digits, prec, max_bits);
+        let p = Thermo::from_stats(&st, digits, prec, max_bits);
         if p.certified || prec >= max_bits {
             return Ok(p);
         }
         prec = (prec * 2).min(max_bits);
-    }
-}
-
-fn point(st: &Stats, t: &str, digits: u32, prec: u32, max_bits: u32) -> ThermoPoint {
-    let ln_q = st.ln_q();
-    let values = Values {
-        u: st.u(),
-        cv: st.cv.clone(),
-        s: st.s(),
-        f: ln_q.neg(),
-        ln_q,
-    };
-    point_from_values(values, t, digits, prec, max_bits)
-}
-
-fn point_from_values(
-    values: Values,
-    t: &str,
-    digits: u32,
-    prec: u32,
-    max_bits: u32,
-) -> ThermoPoint {
-    let (q_s, ok_q) = format::exp_decimal(&values.ln_q, digits);
-    let texts: Vec<(String, bool)> = [&values.ln_q, &values.u, &values.cv, &values.s, &values.f]
-        .iter()
-        .map(|b| format::ball_decimal(b, digits))
-        .collect();
-    let certified = ok_q && texts.iter().all(|t| t.1);
-    let certified_digits = if certified {
-        digits
-    } else {
-        [&values.ln_q, &values.u, &values.cv, &values.s, &values.f]
-            .iter()
-            .map(|b| format::proved_digits(b, digits))
-            .chain([format::proved_exp_digits(&values.ln_q, digits)])
-            .min()
-            .unwrap_or(0)
-    };
-    // Relative error of q: e^r − 1 ≤ 2r for r ≤ 1.
-    let rel_q = ball::up_mul(&values.ln_q.r, &Float::with_val(RP, 2));
-    let mut it = texts.into_iter().map(|t| t.0);
-    let mut next = || it.next().unwrap_or_default();
-    ThermoPoint {
-        t: t.to_string(),
-        q: q_s,
-        ln_q: next(),
-        rel_bound: format::radius_text(&rel_q),
-        u_over_kt: next(),
-        cv_over_k: next(),
-        s_over_k: next(),
-        f_over_kt: next(),
-        digits,
-        precision_bits: prec,
-        certified,
-        certified_digits,
-        max_bits,
-        values,
     }
 }
 
@@ -664,20 +608,4 @@ impl Spectrum for Cached<'_> {
     fn warnings(&self, cutoff: &BigRational) -> Vec<String> {
         self.inner.warnings(cutoff)
     }
-}
-
-/// The same point printed to `digits` significant digits (at most the
-/// digits it was computed for), certified afresh from its balls.
-pub(crate) fn reformat(p: &ThermoPoint, digits: u32) -> ThermoPoint {
-    let v = &p.values;
-    let mut out = point_from_values(v.clone(), &p.t, digits, p.precision_bits, p.max_bits);
-    out.rel_bound = p.rel_bound.clone();
-    out
-}
-
-/// `b · factor` (an exact positive rational) to `digits` digits, and
-/// whether proved.
-pub(crate) fn scaled_decimal(b: &Ball, factor: &BigRational, digits: u32) -> (String, bool) {
-    let f = rational_ball(factor, b.prec());
-    format::ball_decimal(&b.mul(&f), digits)
 }

@@ -2,6 +2,10 @@
 //! aligned table all write. Built by the library, so a library user gets
 //! exactly what the command line prints.
 
+mod point;
+
+pub use point::ThermoPoint;
+
 use crate::error::{Error, Result};
 use crate::exact::{exact_decimal, format_sig, parse_rational, rational_string};
 use crate::export::{units_block, Column, Tabular};
