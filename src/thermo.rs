@@ -238,8 +238,8 @@ impl ThermoReport {
     ) -> Result<Self> {
         if per.is_some() && !kelvin {
             return Err(Error::invalid(
-                "--per",
-                "with --kT",
+                "physical units",
+                "with kT temperatures",
                 "physical units need temperatures in kelvin (--T)",
             ));
         }

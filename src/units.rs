@@ -173,7 +173,7 @@ impl EnergyUnit {
                 ErrorKind::Unit,
                 format!(
                     "cannot convert between {} and {}: the size of {} in joules is not known \
-                     (for a box, give --mass and --side)",
+                     (for a box, give its mass and side)",
                     self.symbol(),
                     other.symbol(),
                     if self.joules().is_none() {

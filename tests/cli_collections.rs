@@ -55,7 +55,7 @@ fn einstein_solid_json_holds_exact_counts() {
     // so are bad counts and digits.
     for (flag, value, needle) in [
         ("--compare", "2", "--compare"),
-        ("--up-to", "-1", "--up-to -1"),
+        ("--up-to", "-1", "number of quanta -1"),
         ("--digits", "0", "'--digits <N>': 0 is not in 1..=60"),
         (
             "--particles",
@@ -425,7 +425,7 @@ fn census_convolution_and_the_error_map() {
         args.extend(extra);
         refused(&args, needle);
     }
-    refused(&["census", "--modes", "", "--up-to", "3000"], "--modes");
+    refused(&["census", "--modes", "", "--up-to", "3000"], "modes \"\"");
     refused(&["census", "--modes", "1000", "--up-to", "-5"], "cutoff -5");
     // Nothing is written where a census is refused.
     let dir = tempfile::tempdir().unwrap();

@@ -388,7 +388,7 @@ fn an_unsettled_value_is_marked_with_the_reason_at_the_effort_limit() {
     assert_eq!(p.certified_digits, 0);
     let why = p.shortfall().unwrap();
     assert!(
-        why.contains("1st") && why.contains("512") && why.contains("--max-bits"),
+        why.contains("1st") && why.contains("512") && why.contains("max bits"),
         "{why}"
     );
     // The same spectrum at two digits is exact: 0.15.

@@ -42,21 +42,21 @@ impl SearchRange {
         let allowed = "A:B with 0 < A < B (values of T/θ), e.g. 0.01:100";
         let (a, b) = text
             .split_once(':')
-            .ok_or_else(|| Error::parse("--range", text, allowed))?;
+            .ok_or_else(|| Error::parse("search range", text, allowed))?;
         let (from, to) = (
-            parse_rational(a).map_err(|_| Error::parse("--range", text, allowed))?,
-            parse_rational(b).map_err(|_| Error::parse("--range", text, allowed))?,
+            parse_rational(a).map_err(|_| Error::parse("search range", text, allowed))?,
+            parse_rational(b).map_err(|_| Error::parse("search range", text, allowed))?,
         );
         if !from.is_positive() || !to.is_positive() {
             return Err(Error::invalid(
-                "--range",
+                "search range",
                 text,
                 "both ends must be greater than zero (T/θ)",
             ));
         }
         if from >= to {
             return Err(Error::invalid(
-                "--range",
+                "search range",
                 text,
                 "it is empty: the first value must be below the second",
             ));

@@ -107,9 +107,48 @@ fn run_command_line() -> i32 {
             0
         }
         Err(e) => {
-            eprintln!("zsum: error: {e}");
+            eprintln!("zsum: error: {}", with_options(&e.to_string()));
             2
         }
+    }
+}
+
+/// The library names quantities, not command-line options; the command
+/// line ends a message with the options that set the quantities it names,
+/// so it says what to change.
+const OPTION_OF: &[(&str, &str)] = &[
+    ("effort limit (max bits)", "--max-bits"),
+    ("memory budget", "--memory-budget"),
+    ("time budget", "--time-budget"),
+    ("search range", "--range"),
+    ("particle number", "--particles"),
+    ("number of quanta", "--up-to"),
+    ("cutoff", "--up-to"),
+    ("grid step", "--grid"),
+    ("energy step", "--step"),
+    ("error-map points", "--error-map"),
+    ("physical units", "--per"),
+    ("species file", "--species-file"),
+];
+
+/// `message` followed by the options of the quantities it names (whole
+/// words only), each once.
+fn with_options(message: &str) -> String {
+    let mut options: Vec<&str> = Vec::new();
+    for (name, option) in OPTION_OF {
+        let named = message.match_indices(name).any(|(i, _)| {
+            let after = message[i + name.len()..].chars().next();
+            let before = message[..i].chars().next_back();
+            !after.is_some_and(char::is_alphanumeric) && !before.is_some_and(char::is_alphanumeric)
+        });
+        if named && !options.contains(option) && !message.contains(option) {
+            options.push(option);
+        }
+    }
+    if options.is_empty() {
+        message.to_string()
+    } else {
+        format!("{message} (see {})", options.join(", "))
     }
 }
 
@@ -137,6 +176,21 @@ mod tests {
         let mut out = Vec::new();
         walk(Vec::new(), &root, &mut out);
         out
+    }
+
+    #[test]
+    fn messages_gain_the_options_of_the_quantities_they_name() {
+        assert_eq!(
+            super::with_options("effort limit (max bits) 64 is not allowed"),
+            "effort limit (max bits) 64 is not allowed (see --max-bits)"
+        );
+        // Each option once; whole words only ("grid steps" is not "grid step").
+        assert_eq!(
+            super::with_options("the cutoff is low; raise the cutoff, or the memory budget"),
+            "the cutoff is low; raise the cutoff, or the memory budget (see --memory-budget, \
+             --up-to)"
+        );
+        assert_eq!(super::with_options("whole grid steps"), "whole grid steps");
     }
 
     /// The parser's own consistency check, on the command as `main` runs it.

@@ -127,7 +127,7 @@ impl CensusReport {
         budget.check(
             &format!("a census table of {with_states} rows"),
             with_states as f64 * census_row_bytes(total.bits()),
-            "use a coarser --step or a lower cutoff",
+            "use a coarser step or a lower cutoff",
         )?;
         let mut sum = BigUint::zero();
         let rows = c
@@ -335,7 +335,7 @@ impl CensusErrorMap {
     pub fn new(harmonic: &StateCounts, unit: &str, points: usize, digits: u32) -> Result<Self> {
         if !(1..=MAX_APPROX_DIGITS).contains(&digits) {
             return Err(Error::invalid(
-                "--digits",
+                "digits",
                 digits,
                 &format!(
                     "choose between 1 and {MAX_APPROX_DIGITS} significant digits (the \
@@ -364,12 +364,12 @@ impl CensusErrorMap {
         let span = top.saturating_sub(half);
         if points == 0 || points > span {
             return Err(Error::invalid(
-                "--error-map",
+                "error-map points",
                 points,
                 &if span == 0 {
                     format!(
                         "the cutoff leaves no energy to compare at (the density window is {} \
-                         steps); raise --up-to",
+                         steps); raise the cutoff",
                         window
                     )
                 } else {

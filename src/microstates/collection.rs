@@ -79,7 +79,7 @@ impl Statistics {
             "distinct" | "distinguishable" => Ok(Statistics::Distinct),
             "bose" | "boson" | "bosons" => Ok(Statistics::Bose),
             "fermi" | "fermion" | "fermions" => Ok(Statistics::Fermi),
-            _ => Err(Error::parse("--stats", text, "bose, fermi or distinct")),
+            _ => Err(Error::parse("statistics", text, "bose, fermi or distinct")),
         }
     }
 
@@ -97,7 +97,7 @@ impl Statistics {
 pub fn check_particles(n: u64) -> Result<()> {
     if n == 0 || n > MAX_PARTICLES {
         return Err(Error::invalid(
-            "--particles",
+            "particle number",
             n,
             &format!("give between 1 and {MAX_PARTICLES} particles"),
         ));
@@ -149,7 +149,7 @@ impl Grid {
             Some(s) => {
                 if !s.is_positive() {
                     return Err(Error::invalid(
-                        "--grid",
+                        "grid step",
                         energy_text(s),
                         "the grid step must be greater than zero",
                     ));
@@ -178,7 +178,7 @@ impl Grid {
                     &format!(
                         "its energy above the ground ({} {unit}) is not a whole number of grid \
                          steps of {} {unit}; give a grid step that divides every level's energy \
-                         above the ground, or leave --grid out to use their common divisor",
+                         above the ground, or give no step to use their common divisor",
                         energy_text(&(&l.energy - &ground)),
                         energy_text(&step)
                     ),
@@ -339,7 +339,7 @@ impl Table {
         self.budget.check(
             "the microstate table",
             need,
-            "lower the cutoff or the number of particles, or raise --memory-budget",
+            "lower the cutoff or the number of particles, or raise the memory budget",
         )?;
         let mut next = vec![0u64; n * (w + 1)];
         for (i, cell) in self.data.chunks_exact(w).enumerate() {
@@ -667,7 +667,7 @@ pub fn microstates(
     let base = &e0 * &nr;
     if up_to < &base {
         return Err(Error::invalid(
-            "--up-to",
+            "cutoff",
             energy_text(up_to),
             &format!(
                 "{n} particles have at least {} {unit} (N times the single-particle ground); \
@@ -733,7 +733,7 @@ pub fn microstates(
         _ => {
             let below = grid.orbitals_up_to(k_max);
             return Err(Error::invalid(
-                "--particles",
+                "particle number",
                 n,
                 &match lowest {
                     None => format!(
@@ -744,7 +744,7 @@ pub fn microstates(
                     Some(l) => format!(
                         "{n} fermions fill the lowest orbitals with at least {} {unit}, above the \
                          cutoff {} {unit}; only {below} orbitals lie at or below the cutoff \
-                         (raise --up-to to at least that)",
+                         (raise the cutoff to at least that)",
                         energy_text(&(&base + &grid.step * BigRational::from_integer(l.into()))),
                         energy_text(up_to)
                     ),
@@ -811,7 +811,7 @@ pub fn einstein_omega(n: u64, quanta: u64, unit: EnergyUnit, budget: &Budget) ->
     check_particles(n)?;
     let bins = quanta
         .checked_add(1)
-        .ok_or_else(|| Error::invalid("--up-to", quanta, "give fewer quanta"))?;
+        .ok_or_else(|| Error::invalid("number of quanta", quanta, "give fewer quanta"))?;
     // The largest count, C(q + N − 1, q), sets the width of every cell.
     let bits = count_bits(&BigUint::from(bins), n, Statistics::Bose);
     budget.check(

@@ -271,7 +271,7 @@ impl EinsteinReport {
         };
         let quanta = quanta.ok_or_else(|| {
             Error::invalid(
-                "--up-to",
+                "number of quanta",
                 crate::exact::rational_string(up_to),
                 "an Einstein solid needs a number of quanta of zero or more",
             )
@@ -288,7 +288,7 @@ impl EinsteinReport {
         budget.check(
             &what,
             rows * 3.0 * (omega_digits + 6.0 * (digits as f64 + 8.0) + 100.0),
-            "lower --up-to",
+            "give fewer quanta",
         )?;
         // A row costs two digamma values, an exp and two logarithms (about
         // 30 µs at 130 bits, growing with the precision) and the writing of
@@ -298,7 +298,7 @@ impl EinsteinReport {
         budget.check_work(
             &what,
             seconds * crate::budget::REFERENCE_OPS_PER_SECOND,
-            "lower --up-to or --digits",
+            "give fewer quanta or digits",
         )?;
         let omega = einstein_omega(
             n,

@@ -125,7 +125,7 @@ pub(crate) fn canonical_at(
             .total_states();
         if states < n.into() {
             return Err(Error::invalid(
-                "--particles",
+                "particle number",
                 n,
                 &format!(
                     "{n} fermions cannot share the {states} orbitals of this finite spectrum \

@@ -77,11 +77,11 @@ pub fn parse_modes(text: &str) -> Result<Vec<Mode>> {
                     .parse::<u32>()
                     .ok()
                     .filter(|d| *d >= 1)
-                    .ok_or_else(|| Error::parse("--modes", text, allowed))?,
+                    .ok_or_else(|| Error::parse("modes", text, allowed))?,
             ),
             None => (part, 1),
         };
-        let frequency = parse_rational(f).map_err(|_| Error::parse("--modes", text, allowed))?;
+        let frequency = parse_rational(f).map_err(|_| Error::parse("modes", text, allowed))?;
         if !frequency.is_positive() {
             return Err(Error::invalid(
                 "mode frequency",
@@ -177,7 +177,7 @@ pub fn beyer_swinehart(
         return Err(Error::invalid(
             "energy step",
             rational_string(step),
-            "the energy step (--step) must be greater than zero",
+            "the energy step must be greater than zero",
         ));
     }
     if up_to.is_negative() {
@@ -197,14 +197,14 @@ pub fn beyer_swinehart(
         .and_then(|b| b.checked_add(1))
         .ok_or_else(|| {
             Error::budget(format!(
-                "a grid of {bins} steps is beyond any memory; use a coarser --step"
+                "a grid of {bins} steps is beyond any memory; use a coarser step"
             ))
         })?;
     // Before any rounding work: the u128 grid alone.
     budget.check(
         &format!("a census of {n} steps"),
         n as f64 * 16.0,
-        "use a coarser --step or a lower cutoff",
+        "use a coarser step or a lower cutoff",
     )?;
     let mut rounded = Vec::with_capacity(modes.len());
     for m in modes {
@@ -215,7 +215,7 @@ pub fn beyer_swinehart(
                 rational_string(&m.frequency),
                 &format!(
                     "it rounds to {in_steps} steps of {}; frequencies must span at least \
-                     half a step (use a finer --step)",
+                     half a step (use a finer step)",
                     rational_string(step)
                 ),
             )
@@ -225,7 +225,7 @@ pub fn beyer_swinehart(
     budget.check(
         &format!("a census of {n} steps"),
         census_bytes(&rounded, n),
-        "use a coarser --step or a lower cutoff",
+        "use a coarser step or a lower cutoff",
     )?;
     // One addition per step and mode component, and about 1500 operations
     // for each row of the table (its decimals).
@@ -233,7 +233,7 @@ pub fn beyer_swinehart(
     budget.check_work(
         &format!("a census of {n} steps"),
         n as f64 * (components + 1500.0),
-        "use a coarser --step or a lower cutoff",
+        "use a coarser step or a lower cutoff",
     )?;
     let mut cells = Cells::Small({
         let mut v = vec![0u128; n];

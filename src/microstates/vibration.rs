@@ -91,7 +91,7 @@ pub fn stein_rabinovitch(
     budget.check(
         "the Stein–Rabinovitch convolution",
         need,
-        "use a coarser --step or a lower cutoff",
+        "use a coarser step or a lower cutoff",
     )?;
     let mut out = vec![BigUint::zero(); n];
     for (k, g) in &shifts {

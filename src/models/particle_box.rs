@@ -535,7 +535,7 @@ impl ParticleInBox {
             self.estimated_families(cutoff) * SPARSE_BYTES * 2.0,
             levels,
             states,
-            "drop --states to list levels only, use `count`, or give a lower cutoff",
+            "list levels without their states, count the states instead, or give a lower cutoff",
         )?;
         let mut all: Vec<Family> = Vec::new();
         self.visit_families(m, &mut |f| all.push(f));

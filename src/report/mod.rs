@@ -556,7 +556,7 @@ impl SpectrumLevelsReport {
                 0.0,
                 list.len() as f64,
                 states,
-                "drop --states to list levels only, or give a lower cutoff",
+                "list levels without their states, or give a lower cutoff",
             )?;
         }
         let factor = opts

@@ -470,7 +470,7 @@ pub fn write_report(dir: &Path) -> Result<ReportSummary> {
         return Err(Error::new(
             ErrorKind::Io,
             format!(
-                "report folder {:?} exists and is not a folder; choose another --out",
+                "report folder {:?} exists and is not a folder; choose another folder",
                 dir.display().to_string()
             ),
         ));

@@ -660,7 +660,7 @@ impl Database {
         Err(Error::new(
             ErrorKind::InvalidParameter,
             format!(
-                "unknown species {name:?}{}; known: {} (add your own with --species-file)",
+                "unknown species {name:?}{}; known: {} (add your own from a species file)",
                 if close.is_empty() {
                     String::new()
                 } else {

@@ -423,7 +423,7 @@ impl Thermo {
 /// The reason text for a value certified to `certified` digits only.
 pub fn shortfall_text(certified: u32, max_bits: u32) -> String {
     let nth = crate::exact::ordinal(certified as u64 + 1);
-    format!("digits from the {nth} on need more than {max_bits} working bits; raise --max-bits")
+    format!("digits from the {nth} on need more than {max_bits} working bits; raise the effort limit (max bits)")
 }
 
 /// Computes q, ln q and U/kT, Cv/k, S/k, F/kT of `spectrum` at `temperature`
@@ -471,7 +471,7 @@ pub fn check_request(digits: u32, max_bits: u32) -> Result<()> {
     let need = precision_for(digits);
     if max_bits < need {
         return Err(Error::invalid(
-            "--max-bits",
+            "effort limit (max bits)",
             max_bits,
             &format!("{digits} digits need at least {need} working bits; give at least that"),
         ));
