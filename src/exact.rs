@@ -391,3 +391,27 @@ pub fn format_sig_f64(x: f64, digits: u32) -> String {
         None => format!("{x}"),
     }
 }
+
+/// The default number of significant digits of certified values, the same
+/// in every command (`--digits`): every printed digit of such a value is
+/// right.
+pub const DEFAULT_DIGITS: u32 = 10;
+
+/// The default number of significant digits where a command prints values
+/// of an approximation evaluated in floating point (the
+/// Whitten–Rabinovitch map), which are not certified; the help of such an
+/// option says so.
+pub const APPROX_DIGITS: u32 = 6;
+
+/// Checks that a digits request is sensible.
+pub fn check_digits(digits: u32) -> Result<u32> {
+    if (1..=60).contains(&digits) {
+        Ok(digits)
+    } else {
+        Err(Error::invalid(
+            "digits",
+            digits,
+            "choose between 1 and 60 significant digits",
+        ))
+    }
+}

@@ -1,9 +1,10 @@
 //! Error maps: the exact values and every chosen approximation over a
 //! temperature grid, with relative errors.
 
-use super::{error_text, rational_text, value_text, Classical, Quantity, Values, PREC};
+use super::{Classical, Quantity, Values, PREC};
 use crate::error::Result;
 use crate::export::{units_block, Column, Tabular};
+use crate::report::text::{error_text, rational_text, value_text};
 use crate::sum::{Cached, Temperature};
 use num_rational::BigRational;
 use rug::Float;
@@ -295,7 +296,7 @@ impl Tabular for CompareReport {
             format!("model: {}", self.model),
             format!(
                 "{}; T/θ measures temperature against it",
-                super::theta_line(&self.theta, &self.unit, &self.theta_kelvin)
+                crate::report::text::theta_line(&self.theta, &self.unit, &self.theta_kelvin)
             ),
         ];
         for a in &self.approximation_list {

@@ -737,45 +737,6 @@ pub const EXACT_DIGITS: u32 = 40;
 /// The smallest relative error that [`EXACT_DIGITS`] resolves.
 pub const RESOLUTION: f64 = 1e-37;
 
-/// Writes a relative error to 4 significant digits, or `<1e-37` when it is
-/// below what the exact values resolve.
-pub fn error_text(e: &Float) -> String {
-    if e.is_infinite() {
-        return "inf".to_string();
-    }
-    if e.is_nan() {
-        return "n/a".to_string();
-    }
-    if e.to_f64().abs() < RESOLUTION {
-        return format!("<{RESOLUTION:e}");
-    }
-    crate::sum::float_to_decimal(e, 0.0, 0.0, 4).0
-}
-
-/// A value to `digits` significant digits.
-pub(crate) fn value_text(v: &Float, digits: u32) -> String {
-    crate::sum::float_to_decimal(v, 0.0, 0.0, digits).0
-}
-
-/// A rational as its exact decimal when that has at most `digits`
-/// significant digits, otherwise rounded to `digits`.
-pub(crate) fn rational_text(r: &BigRational, digits: u32) -> String {
-    let s = crate::exact::exact_decimal(r, digits);
-    if s.contains('/') {
-        crate::exact::format_sig(r, digits)
-    } else {
-        s
-    }
-}
-
-/// `θ = 2.88 K` or `θ = 2 cm-1 = 2.88 K`.
-pub(crate) fn theta_line(theta: &str, unit: &str, kelvin: &Option<String>) -> String {
-    match kelvin {
-        Some(k) if unit != "K" => format!("θ = {theta} {unit} = {k} K"),
-        _ => format!("θ = {theta} {unit}"),
-    }
-}
-
 impl std::fmt::Display for Quantity {
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
         f.write_str(self.name())

@@ -10,10 +10,11 @@
 //! Crossings closer together than the grid spacing (a factor 10^(1/50)) can
 //! be missed; narrow the range to resolve them.
 
-use super::{error_text, rational_text, Classical, Quantity, PREC};
+use super::{Classical, Quantity, PREC};
 use crate::error::{Error, Result};
 use crate::exact::{exact_decimal, format_sig, parse_rational};
 use crate::export::{units_block, Column, Tabular};
+use crate::report::text::{error_text, rational_text};
 use crate::sum::Cached;
 use num_rational::BigRational;
 use num_traits::{Signed, ToPrimitive};
@@ -380,7 +381,7 @@ impl Tabular for CrossoverReport {
                 "quantity: {}; tolerance on |relative error|: {}",
                 self.quantity, self.tolerance
             ),
-            super::theta_line(&self.theta, &self.unit, &self.theta_kelvin),
+            crate::report::text::theta_line(&self.theta, &self.unit, &self.theta_kelvin),
             format!(
                 "searched T/θ from {} to {}; relative error there {} and {}",
                 self.range[0], self.range[1], self.error_at_ends[0], self.error_at_ends[1]

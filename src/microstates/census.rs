@@ -194,7 +194,7 @@ impl Tabular for CensusReport {
                  step: those at E; log10 N(E) to {LOG10_DECIMALS} decimals; only energies with \
                  states are listed",
                 self.unit,
-                crate::report::DEFAULT_DIGITS
+                crate::exact::DEFAULT_DIGITS
             ),
         ];
         if !self.convolved.is_empty() {
@@ -218,7 +218,9 @@ impl Tabular for CensusReport {
                     // Exact in JSON; here the exact decimal where it is
                     // short, else correctly rounded to the default digits.
                     crate::exact::parse_rational(&r.density)
-                        .map(|d| crate::classical::rational_text(&d, crate::report::DEFAULT_DIGITS))
+                        .map(|d| {
+                            crate::report::text::rational_text(&d, crate::exact::DEFAULT_DIGITS)
+                        })
                         .unwrap_or_else(|_| r.density.clone()),
                     r.in_step.clone(),
                     r.log10_sum.clone(),

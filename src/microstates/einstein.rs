@@ -37,9 +37,9 @@
 
 use super::{biguint_ball, einstein_omega, ln_factorial};
 use crate::error::{Error, Result};
+use crate::exact::check_digits;
 use crate::exact::format_sig;
 use crate::export::{units_block, Column, Tabular};
-use crate::report::check_digits;
 use crate::spectrum::Budget;
 use crate::sum::ball::Ball;
 use crate::sum::{ball_decimal, precision_for};

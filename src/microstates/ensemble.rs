@@ -423,15 +423,15 @@ pub(crate) fn point_from(c: &Canonical, n: u64, t_text: String, digits: u32) -> 
     let ratm1 =
         |ln_a: &Float| Float::with_val(p, Float::with_val(p, ln_a - &c.ln_q.c).exp_m1_ref());
     let s_b = Float::with_val(p, &ln_b + &u_b);
-    let et = crate::classical::error_text;
+    let et = crate::report::text::error_text;
     EnsemblePoint {
         t: t_text,
         ln_q,
         u_over_kt: u,
         cv_over_k: cv,
         s_over_k: s_t,
-        ln_q_boltzmann: crate::classical::value_text(&ln_b, digits),
-        ln_q_labelled: crate::classical::value_text(&ln_lab, digits),
+        ln_q_boltzmann: crate::report::text::value_text(&ln_b, digits),
+        ln_q_labelled: crate::report::text::value_text(&ln_lab, digits),
         boltzmann_error_q: et(&ratm1(&ln_b)),
         boltzmann_error_u: et(&rel(&u_b, &c.u.c)),
         boltzmann_error_cv: et(&rel(&cv_b, &c.cv.c)),

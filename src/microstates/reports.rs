@@ -2,10 +2,11 @@
 
 use super::collection::{Omega, Statistics};
 use super::ensemble::{boltzmann_log_ratio, canonical_at, point_from, EnsemblePoint};
-use crate::classical::{bisect, value_text};
+use crate::classical::bisect;
 use crate::error::Result;
 use crate::exact::{exact_decimal, format_sig, parse_rational};
 use crate::export::{units_block, Column, Tabular};
+use crate::report::text::value_text;
 use crate::spectrum::Spectrum;
 use crate::sum::{float_to_decimal, to_rug, Temperature};
 use num_rational::BigRational;
@@ -185,7 +186,7 @@ impl MicroReport {
 /// digits, else 12 digits.
 fn shown(exact: &str) -> String {
     match parse_rational(exact) {
-        Ok(x) => crate::classical::rational_text(&x, 12),
+        Ok(x) => crate::report::text::rational_text(&x, 12),
         Err(_) => exact.to_string(),
     }
 }

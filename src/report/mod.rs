@@ -3,10 +3,11 @@
 //! exactly what the command line prints.
 
 mod point;
+pub mod text;
 
 pub use point::ThermoPoint;
 
-use crate::error::{Error, Result};
+use crate::error::Result;
 use crate::exact::{exact_decimal, format_sig, parse_rational, rational_string};
 use crate::export::{units_block, Column, Tabular};
 use crate::models::particle_box::{Origin, ParticleInBox};
@@ -370,29 +371,7 @@ impl Tabular for CountReport {
     }
 }
 
-/// The default number of significant digits of certified values, the same
-/// in every command (`--digits`): every printed digit of such a value is
-/// right.
-pub const DEFAULT_DIGITS: u32 = 10;
-
-/// The default number of significant digits where a command prints values
-/// of an approximation evaluated in floating point (the
-/// Whitten–Rabinovitch map), which are not certified; the help of such an
-/// option says so.
-pub const APPROX_DIGITS: u32 = 6;
-
-/// Checks that a digits request is sensible.
-pub fn check_digits(digits: u32) -> Result<u32> {
-    if (1..=60).contains(&digits) {
-        Ok(digits)
-    } else {
-        Err(Error::invalid(
-            "digits",
-            digits,
-            "choose between 1 and 60 significant digits",
-        ))
-    }
-}
+pub use crate::exact::{check_digits, APPROX_DIGITS, DEFAULT_DIGITS};
 
 /// What one listed level costs in memory after it is listed: its row in
 /// the answer, its cells in the rendered table or JSON, and its share of

@@ -735,7 +735,7 @@ impl Database {
                 .map(|s| SpeciesSummary {
                     name: s.name.clone(),
                     kind: s.kind,
-                    mass: crate::classical::rational_text(
+                    mass: crate::report::text::rational_text(
                         &(&s.mass_kg / crate::units::constants::atomic_mass_constant()),
                         12,
                     ),

@@ -164,7 +164,7 @@ impl Default for MolarOptions {
             model: VibModel::Rovib,
             translation: Translation::SackurTetrode,
             isomer: None,
-            digits: crate::report::DEFAULT_DIGITS,
+            digits: crate::exact::DEFAULT_DIGITS,
             basis: Basis::Mole,
         }
     }
