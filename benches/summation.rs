@@ -93,7 +93,7 @@ fn cold_sweep(c: &mut Criterion) {
         |b| {
             b.iter(|| {
                 black_box(
-                    zsum::thermo::ThermoReport::build(
+                    zsum::report::ThermoReport::build(
                         "diatomic",
                         &d,
                         &grid,

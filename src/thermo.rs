@@ -8,16 +8,13 @@
 
 use crate::budget::Meter;
 use crate::error::{Error, Result};
-use crate::exact::{exact_decimal, parse_rational};
-use crate::export::{units_block, Column, Tabular};
-use crate::report::ThermoPoint;
+use crate::exact::parse_rational;
 use crate::spectrum::Spectrum;
 use crate::sum::{thermo_metered, Certified, Path, Temperature};
 use crate::units::constants;
 use num_bigint::BigInt;
 use num_rational::BigRational;
 use num_traits::{Signed, ToPrimitive, Zero};
-use serde::Serialize;
 
 /// The most temperatures one grid may hold.
 pub const MAX_GRID: usize = 100_000;
@@ -171,263 +168,157 @@ pub enum Per {
     Particle,
 }
 
-/// One row of a thermodynamic table.
-#[derive(Debug, Clone, Serialize)]
-pub struct ThermoRow {
-    /// Dimensionless values at this temperature.
-    #[serde(flatten)]
-    pub point: ThermoPoint,
-    /// U in J/mol or J, when asked for.
-    #[serde(rename = "U", skip_serializing_if = "Option::is_none")]
-    pub u: Option<String>,
-    /// Cv in J/(mol K) or J/K.
-    #[serde(rename = "Cv", skip_serializing_if = "Option::is_none")]
-    pub cv: Option<String>,
-    /// S in J/(mol K) or J/K.
-    #[serde(rename = "S", skip_serializing_if = "Option::is_none")]
-    pub s: Option<String>,
-    /// F in J/mol or J.
-    #[serde(rename = "F", skip_serializing_if = "Option::is_none")]
-    pub f: Option<String>,
+/// The physical values of one state point, certified: U and F in J/mol or
+/// J, Cv and S in J/(mol K) or J/K.
+#[derive(Debug, Clone)]
+pub struct Physical {
+    /// Internal energy above the ground level.
+    pub u: Certified,
+    /// Heat capacity at constant volume.
+    pub cv: Certified,
+    /// Entropy.
+    pub s: Certified,
+    /// Helmholtz energy above the ground level.
+    pub f: Certified,
 }
 
-/// The answer to `sum` or `thermo`: one row per temperature.
-#[derive(Debug, Clone, Serialize)]
-pub struct ThermoReport {
-    /// Model identifier.
-    pub model: String,
-    /// Human description.
-    pub description: String,
-    /// What the temperatures are: `K` or `kT in <unit>`.
-    pub temperature_unit: String,
-    /// The unit of every field that has one (T, and U, Cv, S, F when
-    /// given), from the table's columns.
-    pub units: serde_json::Map<String, serde_json::Value>,
-    /// The physical units asked for, if any.
-    #[serde(skip)]
-    pub per: Option<Per>,
-    /// The spectrum's energy unit (of kT when the grid is kT).
-    #[serde(skip)]
-    pub energy_unit: String,
-    /// Whether the table carries U, Cv, S and F (thermo) or only q (sum).
-    #[serde(skip)]
-    pub functions: bool,
-    /// The rows.
-    pub rows: Vec<ThermoRow>,
+/// One state point of a grid: its temperature and its certified values.
+#[derive(Debug, Clone)]
+pub struct Properties {
+    /// The temperature, exactly as on the grid (kelvin, or kT in the
+    /// spectrum's unit).
+    pub t: BigRational,
+    /// The dimensionless values per particle.
+    pub thermo: crate::sum::Thermo,
+    /// The values in physical units, when asked for.
+    pub physical: Option<Physical>,
 }
 
-impl ThermoReport {
-    /// Evaluates `spectrum` at every temperature of `grid` (kelvin when
-    /// `kelvin`, else kT in the spectrum's unit), to `digits` certified
-    /// digits; `per` adds physical values (kelvin only). `meter` times the
-    /// grid (hottest, costliest, first; parts of a product count as
-    /// fractions of a step), tells its observer how far it is, and refuses
-    /// the rest once the projected time exceeds its budget. `max_bits` is
-    /// the effort limit of [`crate::sum::thermo_limited`].
-    #[allow(clippy::too_many_arguments)]
-    pub fn build(
-        model: &str,
-        spectrum: &dyn Spectrum,
-        grid: &[BigRational],
-        kelvin: bool,
-        digits: u32,
-        max_bits: u32,
-        per: Option<Per>,
-        functions: bool,
-        meter: &Meter,
-    ) -> Result<Self> {
-        if per.is_some() && !kelvin {
-            return Err(Error::invalid(
-                "physical units",
-                "with kT temperatures",
-                "physical units need temperatures in kelvin (--T)",
-            ));
-        }
-        const EXTRA: u32 = 4;
-        let max = crate::sum::MAX_DIGITS - EXTRA;
-        if !(1..=max).contains(&digits) {
-            return Err(Error::invalid(
-                "digits",
-                digits,
-                &format!("choose between 1 and {max} significant digits"),
-            ));
-        }
-        let k = constants::boltzmann();
-        let scale = match per {
-            Some(Per::Mole) => Some(&k * constants::avogadro()),
-            Some(Per::Particle) => Some(k.clone()),
-            None => None,
-        };
-        let mut rows = Vec::with_capacity(grid.len());
-        // Reuse level listings across the grid: sweep from the hottest
-        // temperature down, so the first listing covers every later one.
-        let cached = crate::sum::Cached::new(spectrum);
-        let mut order: Vec<usize> = (0..grid.len()).collect();
-        order.sort_by(|&a, &b| grid[b].cmp(&grid[a]));
-        let mut done = vec![None; grid.len()];
-        for (count, &i) in order.iter().enumerate() {
-            let t = &grid[i];
-            let temp = if kelvin {
-                Temperature::Kelvin(t.clone())
-            } else {
-                Temperature::ThermalEnergy(t.clone())
-            };
-            // The physical values are the engine's balls times exact
-            // constants; where one straddles a rounding boundary, the point
-            // is recomputed with more digits (tighter balls).
-            let mut extra = 0;
-            let (mut point, u, cv, s, f) = loop {
-                let wide = thermo_metered(
-                    &cached,
-                    &temp,
-                    digits + extra,
-                    Path::Auto,
-                    max_bits,
-                    Some((meter, count as f64)),
-                )?;
-                let mut point = ThermoPoint::new(&wide, "", digits);
-                let mut ok = point.certified;
-                let mut re = |b: &Certified, f: &BigRational| {
-                    let (v, good) = b.scale(f).decimal_marked(digits);
-                    ok &= good;
-                    Some(v)
-                };
-                let w = &wide;
-                let (u, cv, s, f) = match &scale {
-                    Some(c) => {
-                        let ct = c * t;
-                        (
-                            re(&w.u_over_kt, &ct),
-                            re(&w.cv_over_k, c),
-                            re(&w.s_over_k, c),
-                            re(&w.f_over_kt, &ct),
-                        )
-                    }
-                    None => (None, None, None, None),
-                };
-                point.certified = ok;
-                let room = crate::sum::precision_for(digits + extra + EXTRA) <= max_bits;
-                if ok || !room || extra >= 2 * EXTRA || wide.precision_bits >= max_bits {
-                    break (point, u, cv, s, f);
-                }
-                extra += EXTRA;
-            };
-            point.t = exact_decimal(t, 40);
-            done[i] = Some(ThermoRow { point, u, cv, s, f });
-            meter.at(count as f64 + 1.0)?;
-        }
-        rows.extend(done.into_iter().flatten());
-        let energy_unit = spectrum.unit().symbol().to_string();
-        let units = units_block(&Self::columns_for(kelvin, &energy_unit, functions, per));
-        Ok(ThermoReport {
-            model: model.into(),
-            description: spectrum.describe(),
-            temperature_unit: if kelvin {
-                "K".into()
-            } else {
-                format!("kT in {}", spectrum.unit())
-            },
-            units,
-            per,
-            energy_unit,
-            functions,
-            rows,
-        })
+impl Properties {
+    /// Whether every value, the physical ones included, is proved to
+    /// `digits` significant digits.
+    pub fn settles(&self, digits: u32) -> bool {
+        self.thermo.settles(digits)
+            && self
+                .physical
+                .as_ref()
+                .is_none_or(|p| [&p.u, &p.cv, &p.s, &p.f].iter().all(|c| c.settles(digits)))
     }
+}
 
-    /// The columns of a `sum` (q only) or `thermo` table: T in K or kT in
-    /// the spectrum's unit, the dimensionless functions, and U, Cv, S, F in
-    /// the physical units asked for.
-    fn columns_for(
-        kelvin: bool,
-        energy_unit: &str,
-        functions: bool,
-        per: Option<Per>,
-    ) -> Vec<Column> {
-        let mut c = vec![if kelvin {
-            Column::with_unit("T", "K").key("T")
+/// Extra digits asked of the engine when a physical value straddles a
+/// rounding boundary at the requested digits.
+const EXTRA: u32 = 4;
+
+/// Checks the digits a grid may ask for.
+pub fn check_grid_digits(digits: u32) -> Result<()> {
+    let max = crate::sum::MAX_DIGITS - EXTRA;
+    if (1..=max).contains(&digits) {
+        Ok(())
+    } else {
+        Err(Error::invalid(
+            "digits",
+            digits,
+            &format!("choose between 1 and {max} significant digits"),
+        ))
+    }
+}
+
+/// Evaluates `spectrum` at every temperature of `grid` (kelvin when
+/// `kelvin`, else kT in the spectrum's unit) so that every value is proved
+/// to `digits` significant digits (or as many as the effort limit
+/// `max_bits` allows; see [`crate::sum::thermo_limited`]); `per` adds the
+/// values in physical units (kelvin only), each the engine's ball times
+/// exact constants. Where one of those straddles a rounding boundary, the
+/// point is recomputed with more digits (tighter balls). `meter` times the
+/// grid (hottest, costliest, first; parts of a product count as fractions
+/// of a step), tells its observer how far it is, and refuses the rest once
+/// the projected time exceeds its budget. Rows come back in grid order.
+///
+/// ```
+/// use zsum::budget::{Budget, Meter};
+/// use zsum::exact::parse_rational;
+/// use zsum::models::rotor::LinearRotor;
+/// use zsum::thermo::{properties, Per};
+/// use zsum::units::EnergyUnit;
+/// let rotor = LinearRotor::rigid(parse_rational("2")?, EnergyUnit::Kelvin)?;
+/// let grid = [parse_rational("300")?];
+/// let meter = Meter::new("example", 1, &Budget::default());
+/// let rows = properties(&rotor, &grid, true, 12, 4096, Some(Per::Mole), &meter)?;
+/// // Cv of a linear rotor at T = 150 θ: close to R = 8.314 J/(mol K).
+/// let cv = rows[0].physical.as_ref().unwrap().cv.to_f64();
+/// assert!((cv - 8.314462618).abs() < 1e-3);
+/// # Ok::<(), zsum::Error>(())
+/// ```
+pub fn properties(
+    spectrum: &dyn Spectrum,
+    grid: &[BigRational],
+    kelvin: bool,
+    digits: u32,
+    max_bits: u32,
+    per: Option<Per>,
+    meter: &Meter,
+) -> Result<Vec<Properties>> {
+    if per.is_some() && !kelvin {
+        return Err(Error::invalid(
+            "physical units",
+            "with thermal-energy temperatures",
+            "physical units need temperatures in kelvin",
+        ));
+    }
+    check_grid_digits(digits)?;
+    let k = constants::boltzmann();
+    let scale = match per {
+        Some(Per::Mole) => Some(&k * constants::avogadro()),
+        Some(Per::Particle) => Some(k.clone()),
+        None => None,
+    };
+    // Reuse level listings across the grid: sweep from the hottest
+    // temperature down, so the first listing covers every later one.
+    let cached = crate::sum::Cached::new(spectrum);
+    let mut order: Vec<usize> = (0..grid.len()).collect();
+    order.sort_by(|&a, &b| grid[b].cmp(&grid[a]));
+    let mut done = vec![None; grid.len()];
+    for (count, &i) in order.iter().enumerate() {
+        let t = &grid[i];
+        let temp = if kelvin {
+            Temperature::Kelvin(t.clone())
         } else {
-            Column::with_unit("kT", energy_unit).key("T")
-        }];
-        c.extend(["q", "ln q", "rel bound"].map(Column::plain));
-        if functions {
-            c.extend(["U/kT", "Cv/k", "S/k", "F/kT"].map(Column::plain));
-            if let Some(p) = per {
-                let (e, k) = match p {
-                    Per::Mole => ("J/mol", "J/(mol K)"),
-                    Per::Particle => ("J", "J/K"),
-                };
-                c.push(Column::with_unit("U", e).key("U"));
-                c.push(Column::with_unit("Cv", k).key("Cv"));
-                c.push(Column::with_unit("S", k).key("S"));
-                c.push(Column::with_unit("F", e).key("F"));
-            }
-        }
-        c
-    }
-}
-
-impl Tabular for ThermoReport {
-    fn preamble(&self) -> Vec<String> {
-        let mut p = vec![format!(
-            "{}; T in {}; per particle; every digit certified unless marked *",
-            self.description, self.temperature_unit
-        )];
-        if let Some(worst) = self
-            .rows
-            .iter()
-            .filter(|r| !r.point.certified)
-            .min_by_key(|r| r.point.certified_digits)
-        {
-            p.push(format!(
-                "* {}",
-                crate::sum::shortfall_text(worst.point.certified_digits, worst.point.max_bits)
-            ));
-        }
-        if self.per.is_some() {
-            p.push(
-                "ideal model values; design decisions follow certified property data, local \
-                 codes and licensed engineering practice"
-                    .into(),
-            );
-        }
-        p
-    }
-
-    fn columns(&self) -> Vec<Column> {
-        Self::columns_for(
-            self.temperature_unit == "K",
-            &self.energy_unit,
-            self.functions,
-            self.per,
-        )
-    }
-
-    fn rows(&self) -> Vec<Vec<String>> {
-        self.rows
-            .iter()
-            .map(|r| {
-                let mark = |s: &str| {
-                    if r.point.certified {
-                        s.to_string()
-                    } else {
-                        format!("{s}*")
-                    }
-                };
-                let p = &r.point;
-                let mut v = vec![p.t.clone(), mark(&p.q), mark(&p.ln_q), p.rel_bound.clone()];
-                if self.functions {
-                    v.extend(
-                        [&p.u_over_kt, &p.cv_over_k, &p.s_over_k, &p.f_over_kt].map(|s| mark(s)),
-                    );
-                    if self.per.is_some() {
-                        for x in [&r.u, &r.cv, &r.s, &r.f] {
-                            v.push(mark(x.as_deref().unwrap_or("")));
-                        }
-                    }
+            Temperature::ThermalEnergy(t.clone())
+        };
+        let mut extra = 0;
+        let point = loop {
+            let wide = thermo_metered(
+                &cached,
+                &temp,
+                digits + extra,
+                Path::Auto,
+                max_bits,
+                Some((meter, count as f64)),
+            )?;
+            let physical = scale.as_ref().map(|c| {
+                let ct = c * t;
+                Physical {
+                    u: wide.u_over_kt.scale(&ct),
+                    cv: wide.cv_over_k.scale(c),
+                    s: wide.s_over_k.scale(c),
+                    f: wide.f_over_kt.scale(&ct),
                 }
-                v
-            })
-            .collect()
+            });
+            let point = Properties {
+                t: t.clone(),
+                thermo: wide,
+                physical,
+            };
+            let ok = point.settles(digits);
+            let room = crate::sum::precision_for(digits + extra + EXTRA) <= max_bits;
+            if ok || !room || extra >= 2 * EXTRA || point.thermo.precision_bits >= max_bits {
+                break point;
+            }
+            extra += EXTRA;
+        };
+        done[i] = Some(point);
+        meter.at(count as f64 + 1.0)?;
     }
+    Ok(done.into_iter().flatten().collect())
 }

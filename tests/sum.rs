@@ -328,7 +328,8 @@ fn sweeps_reuse_levels_without_changing_a_digit() {
     // digits as each temperature alone.
     use zsum::models::diatomic::{ParityWeights, RovibDiatomic};
     use zsum::models::oscillator::AnharmonicOscillator;
-    use zsum::thermo::{parse_grid, ThermoReport};
+    use zsum::report::ThermoReport;
+    use zsum::thermo::parse_grid;
     let vib = AnharmonicOscillator::new(r("2358.57"), r("14.324"), r("0"), EnergyUnit::Wavenumber)
         .unwrap();
     let m = RovibDiatomic::new(

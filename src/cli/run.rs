@@ -21,6 +21,7 @@ use zsum::models::oscillator::{AnharmonicOscillator, HarmonicModes};
 use zsum::models::rotor::{LinearRotor, SphericalTop, SymmetricTop, TopShape};
 use zsum::models::zeeman::ZeemanMultiplet;
 use zsum::models::ParticleInBox;
+use zsum::report::ThermoReport;
 use zsum::report::{check_digits, BoxScale, CountReport, LevelsReport};
 use zsum::report::{ListOptions, SpectrumLevelsReport};
 use zsum::species::hydrogen::HydrogenTable;
@@ -28,7 +29,7 @@ use zsum::species::{Basis, Database, Isomer, MolarOptions, MolarTable, Translati
 use zsum::spectrum::Budget;
 use zsum::spectrum::Spectrum;
 use zsum::system::{parse_energy, parse_twice_spin, parse_weights, restrict_weights, System};
-use zsum::thermo::{parse_grid, Per, ThermoReport};
+use zsum::thermo::{parse_grid, Per};
 use zsum::units::{parse_length_m, parse_mass_kg, EnergyUnit};
 
 /// Runs a parsed command line; returns text for standard output (`None` when

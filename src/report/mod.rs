@@ -4,6 +4,8 @@
 
 mod point;
 pub mod text;
+mod thermo;
+pub use thermo::{ThermoReport, ThermoRow};
 
 pub use point::ThermoPoint;
 

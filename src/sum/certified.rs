@@ -70,6 +70,12 @@ impl Certified {
         format::ball_decimal(&self.0, digits)
     }
 
+    /// Whether the radius proves the rounding to `digits` significant
+    /// digits (every value in the interval rounds alike).
+    pub fn settles(&self, digits: u32) -> bool {
+        format::ball_decimal(&self.0, digits).1
+    }
+
     /// How many leading significant digits, up to `digits`, the radius
     /// proves.
     pub fn proved_digits(&self, digits: u32) -> u32 {

@@ -379,6 +379,21 @@ pub struct Thermo {
 }
 
 impl Thermo {
+    /// Whether every value, q included, is proved to `digits` significant
+    /// digits (at most the digits the point was computed for).
+    pub fn settles(&self, digits: u32) -> bool {
+        format::exp_decimal(&self.ln_q.0, digits).1
+            && [
+                &self.ln_q,
+                &self.u_over_kt,
+                &self.cv_over_k,
+                &self.s_over_k,
+                &self.f_over_kt,
+            ]
+            .iter()
+            .all(|c| c.settles(digits))
+    }
+
     fn from_stats(st: &Stats, digits: u32, prec: u32, max_bits: u32) -> Thermo {
         let ln_q = st.ln_q();
         let all = [ln_q.clone(), st.u(), st.cv.clone(), st.s(), ln_q.neg()];
