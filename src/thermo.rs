@@ -236,14 +236,14 @@ pub fn check_grid_digits(digits: u32) -> Result<()> {
 /// the projected time exceeds its budget. Rows come back in grid order.
 ///
 /// ```
-/// use zsum::budget::{Budget, Meter};
+/// use zsum::budget::Meter;
 /// use zsum::exact::parse_rational;
 /// use zsum::models::rotor::LinearRotor;
 /// use zsum::thermo::{properties, Per};
 /// use zsum::units::EnergyUnit;
 /// let rotor = LinearRotor::rigid(parse_rational("2")?, EnergyUnit::Kelvin)?;
 /// let grid = [parse_rational("300")?];
-/// let meter = Meter::new("example", 1, &Budget::default());
+/// let meter = Meter::unlimited();
 /// let rows = properties(&rotor, &grid, true, 12, 4096, Some(Per::Mole), &meter)?;
 /// // Cv of a linear rotor at T = 150 θ: close to R = 8.314 J/(mol K).
 /// let cv = rows[0].physical.as_ref().unwrap().cv.to_f64();

@@ -2,9 +2,7 @@
 //! against closed forms and against mpmath computations embedded below.
 
 use num_rational::BigRational;
-use zsum::classical::{
-    compare, crossovers, parse_tolerance, Classical, Quantity, SearchRange, RESOLUTION,
-};
+use zsum::classical::{parse_tolerance, Classical, Quantity, SearchRange, RESOLUTION};
 use zsum::exact::parse_rational;
 use zsum::models::diatomic::ParityWeights;
 use zsum::models::oscillator::HarmonicModes;
@@ -25,7 +23,7 @@ fn rel_err(c: &Classical, name: &str, x: &str, q: Quantity) -> f64 {
 }
 
 fn crossing_values(c: &Classical, name: &str, q: Quantity, tol: &str, range: &str) -> Vec<f64> {
-    let rep = crossovers(
+    let rep = zsum::report::CrossoverReport::build(
         c,
         c.find(name).unwrap(),
         q,
@@ -206,7 +204,7 @@ fn box_euler_maclaurin_error_is_exponentially_small() {
     let b = ParticleInBox::new(vec![r("1")]).unwrap();
     let c = Classical::new(&b).unwrap();
     let grid = vec![r("1"), r("2"), r("4"), r("10")];
-    let map = compare(
+    let map = zsum::report::CompareReport::build(
         &c,
         &[0, 1],
         &grid,

@@ -4,10 +4,11 @@
 
 use num_rational::BigRational;
 use std::path::Path;
-use zsum::classical::figure::{self, PANEL_HEIGHT, WIDTH};
-use zsum::classical::{compare, Classical, CompareReport, Quantity, RESOLUTION};
+use zsum::classical::{Classical, Quantity, RESOLUTION};
 use zsum::exact::parse_rational;
 use zsum::plot::{render_png, render_rgb, render_svg, write_svg, Panel, Series};
+use zsum::report::figure::{self, PANEL_HEIGHT, WIDTH};
+use zsum::report::CompareReport;
 use zsum::spectrum::Spectrum;
 use zsum::thermo::parse_grid;
 use zsum::ErrorKind;
@@ -674,7 +675,7 @@ fn r(s: &str) -> BigRational {
 fn map(spectrum: &dyn Spectrum, grid: &str, kelvin: bool) -> CompareReport {
     let c = Classical::new(spectrum).unwrap();
     let all: Vec<usize> = (0..c.approximations().len()).collect();
-    compare(
+    CompareReport::build(
         &c,
         &all,
         &parse_grid("--T", grid).unwrap(),
@@ -806,7 +807,7 @@ fn an_error_panel_with_nothing_resolved_says_so() {
     let c = Classical::new(&ho).unwrap();
     let order4 = c.find("order4").unwrap();
     let grid = parse_grid("--T", "log:100000000:1000000000:3").unwrap();
-    let report = compare(
+    let report = CompareReport::build(
         &c,
         &[order4],
         &grid,

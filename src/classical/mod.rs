@@ -31,7 +31,6 @@
 //! G(1) − G(0), energies from the true ground level.
 
 mod compare;
-pub mod figure;
 mod jet;
 mod search;
 
@@ -46,9 +45,9 @@ use num_traits::Zero;
 use rug::Float;
 use serde::Serialize;
 
-pub use compare::{compare, ApproxRow, CompareReport, CompareRow};
+pub use compare::{error_map, Approximate, ErrorMap, MapPoint};
 pub(crate) use search::bisect;
-pub use search::{crossovers, Crossing, CrossoverReport, SearchRange};
+pub use search::{crossovers, Crossing, Crossovers, SearchRange};
 
 /// The structure of a model's classical limit: what its approximations
 /// are built from. Energies are in the spectrum's unit.
@@ -668,6 +667,13 @@ impl<'a> Classical<'a> {
             .factor_to(&EnergyUnit::Kelvin)
             .ok()
             .map(|f| self.theta() * f)
+    }
+
+    /// The thermal energies kT, in the spectrum's unit, of reduced
+    /// temperatures T/θ (exactly: kT = (T/θ)·θ).
+    pub fn thermal_energies(&self, reduced: &[BigRational]) -> Vec<BigRational> {
+        let theta = self.theta();
+        reduced.iter().map(|x| x * &theta).collect()
     }
 
     /// kT in the spectrum's unit for `temperature`.

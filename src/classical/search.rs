@@ -12,14 +12,11 @@
 
 use super::{Classical, Quantity, PREC};
 use crate::error::{Error, Result};
-use crate::exact::{exact_decimal, format_sig, parse_rational};
-use crate::export::{units_block, Column, Tabular};
-use crate::report::text::{error_text, rational_text};
+use crate::exact::{format_sig, parse_rational};
 use crate::sum::Cached;
 use num_rational::BigRational;
 use num_traits::{Signed, ToPrimitive};
 use rug::Float;
-use serde::Serialize;
 
 /// A range of T/θ to search.
 #[derive(Debug, Clone, PartialEq, Eq)]
@@ -66,64 +63,30 @@ impl SearchRange {
     }
 }
 
-/// One crossing of the tolerance.
-#[derive(Debug, Clone, Serialize)]
+/// One crossing of the tolerance, located so that T/θ (and T, when the
+/// model's unit has a known size) is settled to the asked digits.
+#[derive(Debug, Clone)]
 pub struct Crossing {
-    /// T in kelvin (null when the model's unit has no known size).
-    #[serde(rename = "T")]
-    pub t: Option<String>,
-    /// T/θ.
-    #[serde(rename = "T_over_theta")]
-    pub t_over_theta: String,
-    /// kT in the model's unit.
-    #[serde(rename = "kT")]
-    pub kt: String,
+    /// T/θ at the crossing.
+    pub reduced: BigRational,
     /// Whether the tolerance is exceeded just below this temperature (the
     /// usual breakdown) rather than just above it.
     pub exceeds_below: bool,
 }
 
-/// The breakdown finder's answer.
-#[derive(Debug, Clone, Serialize)]
-pub struct CrossoverReport {
-    /// The model.
-    pub model: String,
+/// The breakdown finder's answer, in numbers.
+#[derive(Debug, Clone)]
+pub struct Crossovers {
+    /// The approximation judged.
+    pub approximation: super::Approximation,
     /// The quantity judged.
     pub quantity: Quantity,
-    /// The approximation's name.
-    pub approximation: String,
-    /// What it is.
-    pub approximation_formula: String,
-    /// The tolerance on |relative error|, as a decimal.
-    pub tolerance: String,
-    /// θ in the model's unit.
-    pub theta: String,
-    /// The model's unit.
-    pub unit: String,
-    /// θ in kelvin, when known.
-    pub theta_kelvin: Option<String>,
-    /// The range searched, as T/θ.
-    pub range: [String; 2],
     /// Every crossing found, coldest first.
     pub crossings: Vec<Crossing>,
     /// The relative error at the coldest and hottest ends of the range.
-    pub error_at_ends: [String; 2],
-    /// A sentence saying what was found.
-    pub verdict: String,
-    /// The unit of every field that has one, from the table's columns.
-    pub units: serde_json::Map<String, serde_json::Value>,
-}
-
-impl CrossoverReport {
-    /// The columns of the crossings' table.
-    fn columns_for(unit: &str) -> Vec<Column> {
-        vec![
-            Column::plain("T/θ"),
-            Column::with_unit("T", "K").key("T"),
-            Column::with_unit("kT", unit).key("kT"),
-            Column::plain("tolerance exceeded"),
-        ]
-    }
+    pub error_at_ends: [Float; 2],
+    /// Whether the tolerance is exceeded at the hottest end.
+    pub exceeded_when_hottest: bool,
 }
 
 /// State of `|error| > tol` at T/θ = x: true when the tolerance is exceeded
@@ -224,7 +187,8 @@ pub fn scan_points(range: &SearchRange) -> Result<usize> {
 /// let r = crossovers(&c, c.find("classical")?, Quantity::Q, &parse_tolerance("1%")?,
 ///                    &SearchRange::parse("1:1000")?, 4)?;
 /// assert_eq!(r.crossings.len(), 1);
-/// assert_eq!(r.crossings[0].t_over_theta, "49.67");
+/// let x = num_traits::ToPrimitive::to_f64(&r.crossings[0].reduced).unwrap();
+/// assert!((x - 49.67).abs() < 0.005 && r.crossings[0].exceeds_below);
 /// # Ok::<(), zsum::Error>(())
 /// ```
 pub fn crossovers(
@@ -234,7 +198,7 @@ pub fn crossovers(
     tol: &BigRational,
     range: &SearchRange,
     digits: u32,
-) -> Result<CrossoverReport> {
+) -> Result<Crossovers> {
     if !(1..=12).contains(&digits) {
         return Err(Error::invalid(
             "digits",
@@ -293,119 +257,18 @@ pub fn crossovers(
             key,
             |mid| Ok(exceeds(&c, index, quantity, &tol_f, mid)?.0),
         )?;
-        let kt = &x * c.theta();
         crossings.push(Crossing {
-            t: theta_k.as_ref().map(|k| format_sig(&(&x * k), digits)),
-            t_over_theta: format_sig(&x, digits),
-            kt: format_sig(&kt, digits),
+            reduced: x,
             exceeds_below: cold_state,
         });
     }
     crossings.reverse();
     let last = states.len() - 1;
-    let percent = |t: &BigRational| {
-        let p = t * BigRational::from_integer(100.into());
-        format!("{}%", exact_decimal(&p, 12))
-    };
-    let range_text = format!(
-        "T/θ {} to {}",
-        rational_text(&range.from, 12),
-        rational_text(&range.to, 12)
-    );
-    let name = &approximation.name;
-    let verdict = if crossings.is_empty() {
-        if states[0].0 {
-            format!(
-                "the {name} {} errs by more than {} throughout {range_text}: no crossing",
-                quantity.name(),
-                percent(tol)
-            )
-        } else {
-            format!(
-                "the {name} {} stays within {} throughout {range_text}: no crossing",
-                quantity.name(),
-                percent(tol)
-            )
-        }
-    } else {
-        let list: Vec<String> = crossings
-            .iter()
-            .map(|x| {
-                let at = match &x.t {
-                    Some(t) => format!("T = {t} K (T/θ = {})", x.t_over_theta),
-                    None => format!("T/θ = {}", x.t_over_theta),
-                };
-                format!(
-                    "{at}, exceeded {} it",
-                    if x.exceeds_below { "below" } else { "above" }
-                )
-            })
-            .collect();
-        format!(
-            "the {name} {} crosses {} {} time{} in {range_text}: {}",
-            quantity.name(),
-            percent(tol),
-            crossings.len(),
-            if crossings.len() == 1 { "" } else { "s" },
-            list.join("; ")
-        )
-    };
-    Ok(CrossoverReport {
-        units: units_block(&CrossoverReport::columns_for(
-            &c.spectrum().unit().to_string(),
-        )),
-        model: c.spectrum().describe(),
+    Ok(Crossovers {
+        approximation,
         quantity,
-        approximation: approximation.name.clone(),
-        approximation_formula: approximation.description.clone(),
-        tolerance: exact_decimal(tol, 30),
-        theta: rational_text(&c.theta(), 15),
-        unit: c.spectrum().unit().to_string(),
-        theta_kelvin: theta_k.as_ref().map(|k| rational_text(k, 15)),
-        range: [rational_text(&range.from, 15), rational_text(&range.to, 15)],
         crossings,
-        error_at_ends: [error_text(&states[last].1), error_text(&states[0].1)],
-        verdict,
+        error_at_ends: [states[last].1.clone(), states[0].1.clone()],
+        exceeded_when_hottest: states[0].0,
     })
-}
-
-impl Tabular for CrossoverReport {
-    fn preamble(&self) -> Vec<String> {
-        let mut p = vec![
-            format!("model: {}", self.model),
-            format!(
-                "approximation: {} = {}",
-                self.approximation, self.approximation_formula
-            ),
-            format!(
-                "quantity: {}; tolerance on |relative error|: {}",
-                self.quantity, self.tolerance
-            ),
-            crate::report::text::theta_line(&self.theta, &self.unit, &self.theta_kelvin),
-            format!(
-                "searched T/θ from {} to {}; relative error there {} and {}",
-                self.range[0], self.range[1], self.error_at_ends[0], self.error_at_ends[1]
-            ),
-        ];
-        p.push(self.verdict.clone());
-        p
-    }
-
-    fn columns(&self) -> Vec<Column> {
-        Self::columns_for(&self.unit)
-    }
-
-    fn rows(&self) -> Vec<Vec<String>> {
-        self.crossings
-            .iter()
-            .map(|c| {
-                vec![
-                    c.t_over_theta.clone(),
-                    c.t.clone().unwrap_or_else(|| "-".into()),
-                    c.kt.clone(),
-                    if c.exceeds_below { "below" } else { "above" }.into(),
-                ]
-            })
-            .collect()
-    }
 }

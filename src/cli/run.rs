@@ -11,7 +11,7 @@ use super::args::{
 use num_rational::BigRational;
 use num_traits::Zero;
 use zsum::budget::Meter;
-use zsum::classical::{crossovers, parse_tolerance, Classical, Quantity, SearchRange};
+use zsum::classical::{parse_tolerance, Classical, Quantity, SearchRange};
 use zsum::error::{Error, Result};
 use zsum::exact::parse_rational;
 use zsum::export::{render, write_atomic, Format};
@@ -660,7 +660,7 @@ fn crossover(model: Option<ClassicalModel>, a: CrossoverArgs) -> Result<Option<S
     let spectrum = classical_model(model, &a.system, "crossover")?;
     let c = Classical::new(spectrum.as_ref())?;
     let index = c.find(&a.approx)?;
-    let report = crossovers(&c, index, quantity, &tol, &range, a.digits)?;
+    let report = zsum::report::CrossoverReport::build(&c, index, quantity, &tol, &range, a.digits)?;
     emit(
         render(&report, format(a.format))?,
         &Output {
@@ -688,11 +688,7 @@ fn compare(model: Option<ClassicalModel>, a: CompareArgs) -> Result<Option<Strin
     let (grid, kelvin) = match (&a.t, &a.kt, &a.reduced) {
         (Some(t), None, None) => (parse_grid("--T", t)?, true),
         (None, Some(k), None) => (parse_grid("--kT", k)?, false),
-        (None, None, Some(x)) => {
-            let theta = c.theta();
-            let g = parse_grid("--reduced", x)?;
-            (g.into_iter().map(|x| x * &theta).collect(), false)
-        }
+        (None, None, Some(x)) => (c.thermal_energies(&parse_grid("--reduced", x)?), false),
         _ => {
             return Err(Error::invalid(
                 "temperature",
@@ -705,11 +701,11 @@ fn compare(model: Option<ClassicalModel>, a: CompareArgs) -> Result<Option<Strin
     let observe = |d, t| progress.observe(d, t);
     let budget = time_budget(&a.time_budget)?;
     let meter = Meter::new("the error map over this grid", grid.len(), &budget).observed(&observe);
-    let report = zsum::classical::compare(&c, &indices, &grid, kelvin, a.digits, &meter)?;
+    let report = zsum::report::CompareReport::build(&c, &indices, &grid, kelvin, a.digits, &meter)?;
     let text = render(&report, format(a.format))?;
     if let Some(p) = &a.plot {
         let tol_f = num_traits::ToPrimitive::to_f64(&tol).unwrap_or(0.01);
-        zsum::classical::figure::write(&report, quantity, tol_f, p)?;
+        zsum::report::figure::write(&report, quantity, tol_f, p)?;
     }
     emit(
         text,
@@ -722,7 +718,7 @@ fn compare(model: Option<ClassicalModel>, a: CompareArgs) -> Result<Option<Strin
 
 /// Refuses a plot path that cannot be written, before any work is done.
 fn check_plot_path(p: &std::path::Path) -> Result<()> {
-    zsum::classical::figure::plot_kind(p)?;
+    zsum::report::figure::plot_kind(p)?;
     let dir = match p.parent() {
         Some(d) if !d.as_os_str().is_empty() => d.to_path_buf(),
         _ => std::path::PathBuf::from("."),

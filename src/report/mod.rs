@@ -2,9 +2,14 @@
 //! aligned table all write. Built by the library, so a library user gets
 //! exactly what the command line prints.
 
+mod compare;
+mod crossover;
+pub mod figure;
 mod point;
 pub mod text;
 mod thermo;
+pub use compare::{ApproxRow, CompareReport, CompareRow, ExactRow, RelErrors};
+pub use crossover::{CrossingRow, CrossoverReport};
 pub use thermo::{ThermoReport, ThermoRow};
 
 pub use point::ThermoPoint;

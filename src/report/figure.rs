@@ -2,7 +2,8 @@
 //! approximation, and |relative error| against T on log axes with the
 //! tolerance line, over the decades around the tolerance.
 
-use super::{CompareReport, Quantity, RESOLUTION};
+use super::CompareReport;
+use crate::classical::{Quantity, RESOLUTION};
 use crate::error::{Error, ErrorKind, Result};
 use crate::export::write_atomic;
 use crate::plot::{ceil_decade, decade, floor_decade, render_png, render_svg, Panel, Series};
