@@ -10,7 +10,7 @@ use zsum::exact::parse_rational;
 use zsum::models::diatomic::{ParityWeights, RovibDiatomic};
 use zsum::models::oscillator::{AnharmonicOscillator, HarmonicModes};
 use zsum::models::rotor::{LinearRotor, SphericalTop, SymmetricTop, TopShape};
-use zsum::report::{ListOptions, SpectrumLevelsReport};
+use zsum::report::{LevelsReport, ListOptions};
 use zsum::spectrum::{Budget, Spectrum};
 use zsum::units::EnergyUnit;
 
@@ -55,8 +55,7 @@ fn rotor_terms_are_j() {
     let rotor = LinearRotor::rigid(r("2"), EnergyUnit::Wavenumber).unwrap();
     assert_eq!(terms_are_projected_states(&rotor, "30"), 4);
     // E = B J(J+1): 0, 4, 12, 24 for J = 0..3.
-    let rep =
-        SpectrumLevelsReport::build("rotor", &rotor, &r("30"), &ListOptions::default()).unwrap();
+    let rep = LevelsReport::build("rotor", &rotor, &r("30"), &ListOptions::default()).unwrap();
     let js: Vec<i64> = rep.levels.iter().map(|l| l.terms[0][0]).collect();
     assert_eq!(js, [0, 1, 2, 3]);
     // Para hydrogen-like weights (even J only): J = 0, 2, 4.

@@ -22,8 +22,7 @@ use zsum::models::rotor::{LinearRotor, SphericalTop, SymmetricTop, TopShape};
 use zsum::models::zeeman::ZeemanMultiplet;
 use zsum::models::ParticleInBox;
 use zsum::report::ThermoReport;
-use zsum::report::{check_digits, BoxScale, CountReport, LevelsReport};
-use zsum::report::{ListOptions, SpectrumLevelsReport};
+use zsum::report::{check_digits, BoxScale, CountReport, LevelsReport, ListOptions};
 use zsum::species::hydrogen::HydrogenTable;
 use zsum::species::{Basis, Database, Isomer, MolarOptions, MolarTable, Translation, VibModel};
 use zsum::spectrum::Budget;
@@ -235,8 +234,8 @@ fn list_options(l: &ListArgs) -> Result<ListOptions> {
 fn list_generic(model: &str, s: &dyn Spectrum, l: &ListArgs) -> Result<Option<String>> {
     let cut = cutoff_in(&l.up_to, &s.unit())?;
     let opts = list_options(l)?;
-    let report = SpectrumLevelsReport::build(model, s, &cut, &opts)?;
-    for w in &report.warnings {
+    let report = LevelsReport::build(model, s, &cut, &opts)?;
+    for w in report.warnings.iter().flatten() {
         eprintln!("zsum: warning: {w}");
     }
     emit(render(&report, format(l.out.format))?, &l.out)
