@@ -14,10 +14,10 @@ use crate::error::{Error, Result};
 use serde::Serialize;
 
 pub use atomic::{write_atomic, write_atomic_bytes};
-pub use csv_format::to_csv;
-pub use json::to_json;
-pub use markdown::to_markdown;
-pub use table::to_table;
+pub use csv_format::{to_csv, CsvExporter};
+pub use json::{to_json, JsonExporter};
+pub use markdown::{to_markdown, MarkdownExporter};
+pub use table::{to_table, TableExporter};
 
 /// One column of a result: the quantity's name, its unit, and the JSON
 /// field that carries the same value. Table, CSV and Markdown headings and
@@ -104,6 +104,45 @@ pub trait Tabular {
     }
 }
 
+/// One output format's writer: lays out an answer (a result that is both
+/// [`Serialize`] and [`Tabular`]) as text. Each format implements it once
+/// ([`TableExporter`], [`JsonExporter`], [`CsvExporter`],
+/// [`MarkdownExporter`]); [`Format`] implements it by dispatching to the
+/// format it names.
+///
+/// ```
+/// use zsum::export::{Column, CsvExporter, Exporter, Format, Tabular};
+///
+/// #[derive(serde::Serialize)]
+/// struct Levels {
+///     energies: Vec<u32>,
+/// }
+/// impl Tabular for Levels {
+///     fn preamble(&self) -> Vec<String> {
+///         vec!["two levels".into()]
+///     }
+///     fn columns(&self) -> Vec<Column> {
+///         vec![Column::with_unit("E", "K")]
+///     }
+///     fn rows(&self) -> Vec<Vec<String>> {
+///         self.energies.iter().map(|e| vec![e.to_string()]).collect()
+///     }
+/// }
+/// let levels = Levels { energies: vec![0, 12] };
+/// assert_eq!(CsvExporter.render(&levels)?, "E (K)\n0\n12\n");
+/// assert_eq!(Format::Table.render(&levels)?, "# two levels\nE (K)\n    0\n   12\n");
+/// assert_eq!(Format::Json.render(&levels)?, "{\n  \"energies\": [\n    0,\n    12\n  ]\n}\n");
+/// # Ok::<(), zsum::Error>(())
+/// ```
+pub trait Exporter {
+    /// `answer` laid out in this format.
+    ///
+    /// # Errors
+    /// [`ErrorKind::Io`](crate::ErrorKind::Io) if the answer cannot be
+    /// serialised (JSON) or written (CSV).
+    fn render<T: Serialize + Tabular>(&self, answer: &T) -> Result<String>;
+}
+
 /// An output format.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
 pub enum Format {
@@ -135,12 +174,18 @@ impl Format {
     }
 }
 
-/// Renders a result in the given format.
-pub fn render<T: Serialize + Tabular>(result: &T, format: Format) -> Result<String> {
-    match format {
-        Format::Table => Ok(to_table(result)),
-        Format::Json => to_json(result),
-        Format::Csv => to_csv(result),
-        Format::Markdown => Ok(to_markdown(result)),
+impl Exporter for Format {
+    fn render<T: Serialize + Tabular>(&self, answer: &T) -> Result<String> {
+        match self {
+            Format::Table => TableExporter.render(answer),
+            Format::Json => JsonExporter.render(answer),
+            Format::Csv => CsvExporter.render(answer),
+            Format::Markdown => MarkdownExporter.render(answer),
+        }
     }
+}
+
+/// Renders a result in the given format (through its [`Exporter`]).
+pub fn render<T: Serialize + Tabular>(result: &T, format: Format) -> Result<String> {
+    format.render(result)
 }
