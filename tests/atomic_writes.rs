@@ -93,7 +93,7 @@ fn a_replaced_file_keeps_its_mode() {
     assert_eq!(entries(dir.path()).len(), 3);
 }
 
-#[cfg(unix)]
+#[cfg(all(unix, feature = "plot"))]
 mod figures {
     use super::*;
     use zsum::classical::figure::{self, PANEL_HEIGHT, WIDTH};
@@ -217,7 +217,7 @@ mod figures {
 /// oversized file, or its write fails. Either way the file that was at the
 /// target is still whole; a failed write (the process not killed) also
 /// leaves no temporary file.
-#[cfg(unix)]
+#[cfg(all(unix, feature = "cli", feature = "plot"))]
 mod interrupted {
     use super::*;
     use std::os::unix::process::ExitStatusExt;

@@ -33,7 +33,7 @@ pub const TOP_DECADE: i32 = 3;
 /// is higher, but always below the tolerance) up to the decade of the
 /// largest error, at most 10^[`TOP_DECADE`]; a curve with nothing in that
 /// range says why in its legend name; errors at or below
-/// [`RESOLUTION`](super::RESOLUTION), which the exact values do not
+/// [`RESOLUTION`], which the exact values do not
 /// resolve (the table writes them `<1e-37`), are not drawn.
 pub fn panels(report: &CompareReport, quantity: Quantity, tol: f64) -> Vec<Panel> {
     let x_label = if report.kelvin {

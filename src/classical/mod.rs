@@ -31,6 +31,7 @@
 //! G(1) − G(0), energies from the true ground level.
 
 mod compare;
+#[cfg(feature = "plot")]
 pub mod figure;
 mod jet;
 mod search;
