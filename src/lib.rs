@@ -121,6 +121,7 @@ pub mod input;
 pub mod level;
 pub mod microstates;
 pub mod models;
+#[cfg(feature = "plot")]
 pub mod plot;
 pub mod report;
 pub mod serde_exact;

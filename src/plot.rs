@@ -66,6 +66,7 @@ use plotters::prelude::{
 };
 
 use crate::error::{Error, ErrorKind, Result};
+use crate::export::{write_atomic, write_atomic_bytes};
 
 /// One curve: a name for the legend, its points `(x, y)` in drawing order,
 /// and whether it is drawn dashed.
@@ -144,22 +145,19 @@ pub fn render_svg(panels: &[Panel], width: u32, height_per_panel: u32) -> Result
     Ok(out)
 }
 
-/// Renders panels like [`render_svg`] and writes the SVG document to `path`.
+/// Renders panels like [`render_svg`] and writes the SVG document to `path`
+/// atomically ([`write_atomic`]): the file appears complete or not at all.
 ///
 /// # Errors
 /// As [`render_svg`], plus [`ErrorKind::Io`] if the file cannot be written.
 pub fn write_svg(panels: &[Panel], width: u32, height_per_panel: u32, path: &Path) -> Result<()> {
     let svg = render_svg(panels, width, height_per_panel)?;
-    std::fs::write(path, svg).map_err(|e| {
-        Error::new(
-            ErrorKind::Io,
-            format!("cannot write SVG file {}: {e}", path.display()),
-        )
-    })
+    write_atomic(path, &svg)
 }
 
-/// Renders panels like [`render_svg`] into a PNG image written to `path`,
-/// which must end in `.png`. Text is rasterised from the embedded font.
+/// Renders panels like [`render_svg`] into a PNG image written to `path`
+/// atomically ([`write_atomic_bytes`]), which must end in `.png`. Text is
+/// rasterised from the embedded font.
 ///
 /// # Errors
 /// As [`render_svg`], plus [`ErrorKind::InvalidParameter`] if `path` does
@@ -176,17 +174,39 @@ pub fn render_png(panels: &[Panel], width: u32, height_per_panel: u32, path: &Pa
             "the file name must end in .png",
         ));
     }
-    let total = check_size(panels, width, height_per_panel)?;
-    let plans = plan_all(panels)?;
-    ensure_fonts()?;
-    let root = BitMapBackend::new(path, (width, total)).into_drawing_area();
-    draw_figure(&root, panels, &plans)?;
-    root.present().map_err(|e| {
-        Error::new(
-            ErrorKind::Io,
-            format!("cannot write PNG file {}: {e}", path.display()),
-        )
-    })
+    write_atomic_bytes(path, &png_bytes(panels, width, height_per_panel)?)
+}
+
+/// Renders panels like [`render_png`] into memory: the bytes of the PNG
+/// file (8-bit RGB) that [`render_png`] writes.
+///
+/// ```
+/// use zsum::plot::{png_bytes, Panel, Series};
+///
+/// let panel = Panel {
+///     title: "a line".into(),
+///     series: vec![Series {
+///         points: vec![(0.0, 0.0), (1.0, 1.0)],
+///         ..Series::default()
+///     }],
+///     ..Panel::default()
+/// };
+/// let png = png_bytes(&[panel], 400, 300)?;
+/// assert!(png.starts_with(b"\x89PNG\r\n\x1a\n"));
+/// # Ok::<(), zsum::Error>(())
+/// ```
+///
+/// # Errors
+/// As [`render_svg`], plus [`ErrorKind::Io`] if the image cannot be
+/// encoded.
+pub fn png_bytes(panels: &[Panel], width: u32, height_per_panel: u32) -> Result<Vec<u8>> {
+    use image::ImageEncoder;
+    let (w, h, pixels) = render_rgb(panels, width, height_per_panel)?;
+    let mut out = Vec::new();
+    image::codecs::png::PngEncoder::new(&mut out)
+        .write_image(&pixels, w, h, image::ColorType::Rgb8)
+        .map_err(|e| Error::new(ErrorKind::Io, format!("cannot encode the PNG image: {e}")))?;
+    Ok(out)
 }
 
 /// Renders panels like [`render_png`] into memory instead: the pixels, as

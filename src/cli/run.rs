@@ -56,10 +56,7 @@ pub fn run(cli: Cli) -> Result<Option<String>> {
         Command::Census(a) => census(a),
         Command::Microstates(a) => microstates_cmd(a),
         Command::Ensemble(a) => ensemble_cmd(a),
-        Command::Report { out } => {
-            let s = zsum::species::liquefier::write_report(&out)?;
-            Ok(Some(s.lines.join("\n") + "\n"))
-        }
+        Command::Report { out } => report(&out),
         Command::Compare { model, opts } => compare(model, opts),
     }
 }
@@ -704,7 +701,7 @@ fn compare(model: Option<ClassicalModel>, a: CompareArgs) -> Result<Option<Strin
     let text = render(&report, format(a.format))?;
     if let Some(p) = &a.plot {
         let tol_f = num_traits::ToPrimitive::to_f64(&tol).unwrap_or(0.01);
-        zsum::report::figure::write(&report, quantity, tol_f, p)?;
+        write_plot(&report, quantity, tol_f, p)?;
     }
     emit(
         text,
@@ -715,7 +712,66 @@ fn compare(model: Option<ClassicalModel>, a: CompareArgs) -> Result<Option<Strin
     )
 }
 
+/// `zsum report`: writes the report into `out`.
+#[cfg(feature = "plot")]
+fn report(out: &std::path::Path) -> Result<Option<String>> {
+    let s = zsum::species::liquefier::write_report(out)?;
+    Ok(Some(s.lines.join("\n") + "\n"))
+}
+
+/// `zsum report` in a binary built without plotting: refused.
+#[cfg(not(feature = "plot"))]
+fn report(_out: &std::path::Path) -> Result<Option<String>> {
+    Err(Error::invalid(
+        "command",
+        "report",
+        "this zsum was built without plotting (the cargo feature `plot`), which draws the \
+         report's figures; build zsum with its default features to write the report",
+    ))
+}
+
+/// The error for `--plot` in a binary built without plotting.
+#[cfg(not(feature = "plot"))]
+fn without_plotting(p: &std::path::Path) -> Error {
+    Error::invalid(
+        "--plot",
+        p.display(),
+        "this zsum was built without plotting (the cargo feature `plot`); leave out --plot, \
+         or build zsum with its default features",
+    )
+}
+
+/// Writes the error map's figure of `quantity` to `p`.
+#[cfg(feature = "plot")]
+fn write_plot(
+    report: &zsum::report::CompareReport,
+    quantity: Quantity,
+    tol: f64,
+    p: &std::path::Path,
+) -> Result<()> {
+    zsum::report::figure::write(report, quantity, tol, p)
+}
+
+/// Refused: this binary draws no figures ([`check_plot_path`] refuses
+/// `--plot` before any work, so this is not reached).
+#[cfg(not(feature = "plot"))]
+fn write_plot(
+    _report: &zsum::report::CompareReport,
+    _quantity: Quantity,
+    _tol: f64,
+    p: &std::path::Path,
+) -> Result<()> {
+    Err(without_plotting(p))
+}
+
+/// Refuses `--plot` in a binary built without plotting, before any work.
+#[cfg(not(feature = "plot"))]
+fn check_plot_path(p: &std::path::Path) -> Result<()> {
+    Err(without_plotting(p))
+}
+
 /// Refuses a plot path that cannot be written, before any work is done.
+#[cfg(feature = "plot")]
 fn check_plot_path(p: &std::path::Path) -> Result<()> {
     zsum::report::figure::plot_kind(p)?;
     let dir = match p.parent() {
@@ -990,4 +1046,54 @@ fn census(a: CensusArgs) -> Result<Option<String>> {
     }
     let report = CensusReport::new(&c, &a.unit, &budget)?.with_convolved(names);
     emit(render(&report, format(a.out.format))?, &a.out)
+}
+
+/// A binary built without plotting refuses the commands and options that
+/// draw, before any work, naming what was asked and why
+/// (`cargo test --no-default-features --features cli --bin zsum`).
+#[cfg(all(test, not(feature = "plot")))]
+mod without_plotting {
+    use clap::FromArgMatches;
+    use zsum::ErrorKind;
+
+    fn refused(args: &[&str]) -> zsum::Error {
+        let m = super::super::command()
+            .try_get_matches_from(std::iter::once("zsum").chain(args.iter().copied()))
+            .unwrap();
+        let cli = super::Cli::from_arg_matches(&m).unwrap();
+        super::run(cli).unwrap_err()
+    }
+
+    #[test]
+    fn figures_are_refused_with_a_typed_error() {
+        let dir = tempfile::tempdir().unwrap();
+        let png = dir.path().join("map.png");
+        let e = refused(&[
+            "compare",
+            "rotor",
+            "--B",
+            "1",
+            "--unit",
+            "K",
+            "--T",
+            "1:3:1",
+            "--plot",
+            png.to_str().unwrap(),
+        ]);
+        assert_eq!(e.kind(), ErrorKind::InvalidParameter);
+        assert!(e.message().starts_with("--plot "), "{e}");
+        assert!(e.message().contains("map.png"), "{e}");
+        assert!(e.message().contains("built without plotting"), "{e}");
+        let rep = dir.path().join("rep");
+        let e = refused(&["report", "--out", rep.to_str().unwrap()]);
+        assert_eq!(e.kind(), ErrorKind::InvalidParameter);
+        assert_eq!(
+            e.message(),
+            "command report is not allowed: this zsum was built without plotting (the cargo \
+             feature `plot`), which draws the report's figures; build zsum with its default \
+             features to write the report"
+        );
+        // Nothing was written.
+        assert_eq!(std::fs::read_dir(dir.path()).unwrap().count(), 0);
+    }
 }

@@ -1,7 +1,18 @@
 //! CSV output: one header row, then the rows; no comments.
 
-use super::Tabular;
+use super::{Exporter, Tabular};
 use crate::error::{Error, ErrorKind, Result};
+use serde::Serialize;
+
+/// CSV as an [`Exporter`] ([`to_csv`]).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub struct CsvExporter;
+
+impl Exporter for CsvExporter {
+    fn render<T: Serialize + Tabular>(&self, answer: &T) -> Result<String> {
+        to_csv(answer)
+    }
+}
 
 /// Writes a result's columns and rows as CSV.
 pub fn to_csv<T: Tabular>(result: &T) -> Result<String> {

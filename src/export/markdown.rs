@@ -1,6 +1,18 @@
 //! Markdown output: the preamble as a paragraph, then a pipe table.
 
-use super::Tabular;
+use super::{Exporter, Tabular};
+use crate::error::Result;
+use serde::Serialize;
+
+/// The Markdown table as an [`Exporter`] ([`to_markdown`]).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub struct MarkdownExporter;
+
+impl Exporter for MarkdownExporter {
+    fn render<T: Serialize + Tabular>(&self, answer: &T) -> Result<String> {
+        Ok(to_markdown(answer))
+    }
+}
 
 fn cell(text: &str) -> String {
     text.replace('|', "\\|").replace('\n', " ")

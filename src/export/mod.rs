@@ -1,20 +1,23 @@
 //! Output formats. Every answer is one result struct that is both
 //! [`serde::Serialize`] (for JSON) and [`Tabular`] (for CSV and the aligned
-//! table), so the three formats always carry the same values.
+//! table), so the three formats always carry the same values. Every file
+//! zsum writes (outputs, figures, the report) goes through one atomic write,
+//! [`write_atomic_bytes`].
 
+mod atomic;
 mod csv_format;
 mod json;
 mod markdown;
 mod table;
 
-use crate::error::{Error, ErrorKind, Result};
+use crate::error::{Error, Result};
 use serde::Serialize;
-use std::path::Path;
 
-pub use csv_format::to_csv;
-pub use json::to_json;
-pub use markdown::to_markdown;
-pub use table::to_table;
+pub use atomic::{write_atomic, write_atomic_bytes};
+pub use csv_format::{to_csv, CsvExporter};
+pub use json::{to_json, JsonExporter};
+pub use markdown::{to_markdown, MarkdownExporter};
+pub use table::{to_table, TableExporter};
 
 /// One column of a result: the quantity's name, its unit, and the JSON
 /// field that carries the same value. Table, CSV and Markdown headings and
@@ -101,6 +104,45 @@ pub trait Tabular {
     }
 }
 
+/// One output format's writer: lays out an answer (a result that is both
+/// [`Serialize`] and [`Tabular`]) as text. Each format implements it once
+/// ([`TableExporter`], [`JsonExporter`], [`CsvExporter`],
+/// [`MarkdownExporter`]); [`Format`] implements it by dispatching to the
+/// format it names.
+///
+/// ```
+/// use zsum::export::{Column, CsvExporter, Exporter, Format, Tabular};
+///
+/// #[derive(serde::Serialize)]
+/// struct Levels {
+///     energies: Vec<u32>,
+/// }
+/// impl Tabular for Levels {
+///     fn preamble(&self) -> Vec<String> {
+///         vec!["two levels".into()]
+///     }
+///     fn columns(&self) -> Vec<Column> {
+///         vec![Column::with_unit("E", "K")]
+///     }
+///     fn rows(&self) -> Vec<Vec<String>> {
+///         self.energies.iter().map(|e| vec![e.to_string()]).collect()
+///     }
+/// }
+/// let levels = Levels { energies: vec![0, 12] };
+/// assert_eq!(CsvExporter.render(&levels)?, "E (K)\n0\n12\n");
+/// assert_eq!(Format::Table.render(&levels)?, "# two levels\nE (K)\n    0\n   12\n");
+/// assert_eq!(Format::Json.render(&levels)?, "{\n  \"energies\": [\n    0,\n    12\n  ]\n}\n");
+/// # Ok::<(), zsum::Error>(())
+/// ```
+pub trait Exporter {
+    /// `answer` laid out in this format.
+    ///
+    /// # Errors
+    /// [`ErrorKind::Io`](crate::ErrorKind::Io) if the answer cannot be
+    /// serialised (JSON) or written (CSV).
+    fn render<T: Serialize + Tabular>(&self, answer: &T) -> Result<String>;
+}
+
 /// An output format.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
 pub enum Format {
@@ -132,112 +174,18 @@ impl Format {
     }
 }
 
-/// Renders a result in the given format.
+impl Exporter for Format {
+    fn render<T: Serialize + Tabular>(&self, answer: &T) -> Result<String> {
+        match self {
+            Format::Table => TableExporter.render(answer),
+            Format::Json => JsonExporter.render(answer),
+            Format::Csv => CsvExporter.render(answer),
+            Format::Markdown => MarkdownExporter.render(answer),
+        }
+    }
+}
+
+/// Renders a result in the given format (through its [`Exporter`]).
 pub fn render<T: Serialize + Tabular>(result: &T, format: Format) -> Result<String> {
-    match format {
-        Format::Table => Ok(to_table(result)),
-        Format::Json => to_json(result),
-        Format::Csv => to_csv(result),
-        Format::Markdown => Ok(to_markdown(result)),
-    }
-}
-
-/// Creates `path` new (never following an existing file), with the mode
-/// of `like` where given (Unix), else the default.
-fn create_with(path: &Path, like: Option<&std::fs::Permissions>) -> std::io::Result<std::fs::File> {
-    let mut o = std::fs::OpenOptions::new();
-    o.write(true).create_new(true);
-    #[cfg(unix)]
-    if let Some(p) = like {
-        use std::os::unix::fs::{OpenOptionsExt, PermissionsExt};
-        o.mode(p.mode() & 0o7777);
-    }
-    #[cfg(not(unix))]
-    let _ = like;
-    o.open(path)
-}
-
-/// Writes `contents` to `path` all at once: to a temporary file beside it,
-/// then renamed over it, so a failure never leaves a partial file. A
-/// symbolic link is followed to its target (the link stays); something that
-/// is not a regular file (a device, a FIFO) is written through, never
-/// replaced, and a failed write (e.g. a full device) is an error. A regular
-/// file that is replaced keeps its permission bits.
-pub fn write_atomic(path: &Path, contents: &str) -> Result<()> {
-    let io_err = |e: std::io::Error, what: &str, p: &Path| {
-        Error::new(
-            ErrorKind::Io,
-            format!("cannot {what} {:?}: {e}", p.display().to_string()),
-        )
-    };
-    let resolved;
-    let path = match std::fs::symlink_metadata(path) {
-        Ok(m) if m.file_type().is_symlink() => {
-            resolved =
-                std::fs::canonicalize(path).map_err(|e| io_err(e, "follow the link", path))?;
-            resolved.as_path()
-        }
-        _ => path,
-    };
-    if let Ok(m) = std::fs::metadata(path) {
-        if m.is_dir() {
-            return Err(Error::new(
-                ErrorKind::Io,
-                format!(
-                    "output path {:?} is a directory; give a file name",
-                    path.display().to_string()
-                ),
-            ));
-        }
-        if !m.is_file() {
-            use std::io::Write;
-            let mut f = std::fs::OpenOptions::new()
-                .write(true)
-                .open(path)
-                .map_err(|e| io_err(e, "open", path))?;
-            return f
-                .write_all(contents.as_bytes())
-                .and_then(|_| f.flush())
-                .map_err(|e| io_err(e, "write", path));
-        }
-    }
-    let dir = match path.parent() {
-        Some(p) if !p.as_os_str().is_empty() => p.to_path_buf(),
-        _ => std::path::PathBuf::from("."),
-    };
-    let name = path
-        .file_name()
-        .ok_or_else(|| {
-            Error::new(
-                ErrorKind::Io,
-                format!(
-                    "output path {:?} does not name a file",
-                    path.display().to_string()
-                ),
-            )
-        })?
-        .to_string_lossy()
-        .to_string();
-    let tmp = dir.join(format!(".{name}.zsum-tmp-{}", std::process::id()));
-    // A replaced file keeps its permission bits: the new file is created
-    // with them, so a private (600) file is never readable by others, not
-    // even for a moment.
-    let old = std::fs::metadata(path).ok().map(|m| m.permissions());
-    let written = create_with(&tmp, old.as_ref()).and_then(|mut f| {
-        use std::io::Write;
-        f.write_all(contents.as_bytes())?;
-        f.sync_all()?;
-        if let Some(p) = &old {
-            std::fs::set_permissions(&tmp, p.clone())?;
-        }
-        Ok(())
-    });
-    if let Err(e) = written {
-        let _ = std::fs::remove_file(&tmp);
-        return Err(io_err(e, "write", path));
-    }
-    std::fs::rename(&tmp, path).map_err(|e| {
-        let _ = std::fs::remove_file(&tmp);
-        io_err(e, "write", path)
-    })
+    format.render(result)
 }

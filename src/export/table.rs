@@ -1,7 +1,19 @@
 //! The aligned human table: `#` comment lines saying what and in which
 //! units, a header row, right-aligned numeric columns.
 
-use super::Tabular;
+use super::{Exporter, Tabular};
+use crate::error::Result;
+use serde::Serialize;
+
+/// The aligned table as an [`Exporter`] ([`to_table`]).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub struct TableExporter;
+
+impl Exporter for TableExporter {
+    fn render<T: Serialize + Tabular>(&self, answer: &T) -> Result<String> {
+        Ok(to_table(answer))
+    }
+}
 
 /// Lays out a result as an aligned text table.
 pub fn to_table<T: Tabular>(result: &T) -> String {

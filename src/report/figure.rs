@@ -4,9 +4,9 @@
 
 use super::CompareReport;
 use crate::classical::{Quantity, RESOLUTION};
-use crate::error::{Error, ErrorKind, Result};
-use crate::export::write_atomic;
-use crate::plot::{ceil_decade, decade, floor_decade, render_png, render_svg, Panel, Series};
+use crate::error::{Error, Result};
+use crate::export::write_atomic_bytes;
+use crate::plot::{ceil_decade, decade, floor_decade, png_bytes, render_svg, Panel, Series};
 use std::path::Path;
 
 /// The width of the figure, in pixels.
@@ -34,7 +34,7 @@ pub const TOP_DECADE: i32 = 3;
 /// is higher, but always below the tolerance) up to the decade of the
 /// largest error, at most 10^[`TOP_DECADE`]; a curve with nothing in that
 /// range says why in its legend name; errors at or below
-/// [`RESOLUTION`](super::RESOLUTION), which the exact values do not
+/// [`RESOLUTION`], which the exact values do not
 /// resolve (the table writes them `<1e-37`), are not drawn.
 pub fn panels(report: &CompareReport, quantity: Quantity, tol: f64) -> Vec<Panel> {
     let x_label = if report.kelvin {
@@ -233,35 +233,14 @@ pub fn render(report: &CompareReport, quantity: Quantity, tol: f64) -> Result<St
 }
 
 /// Writes the figure to `path`: SVG for `.svg`, PNG for `.png`; the file
-/// appears complete or not at all (written beside it, then renamed).
+/// appears complete or not at all ([`write_atomic_bytes`]: written beside
+/// it, synced, then renamed), and a replaced file keeps its permission bits.
 pub fn write(report: &CompareReport, quantity: Quantity, tol: f64, path: &Path) -> Result<()> {
-    match plot_kind(path)? {
-        PlotKind::Svg => write_atomic(path, &render(report, quantity, tol)?),
-        PlotKind::Png => {
-            let dir = match path.parent() {
-                Some(d) if !d.as_os_str().is_empty() => d.to_path_buf(),
-                _ => std::path::PathBuf::from("."),
-            };
-            let name = path
-                .file_name()
-                .map(|n| n.to_string_lossy().to_string())
-                .unwrap_or_default();
-            let tmp = dir.join(format!(".{name}.zsum-tmp-{}.png", std::process::id()));
-            let done = render_png(&panels(report, quantity, tol), WIDTH, PANEL_HEIGHT, &tmp)
-                .and_then(|_| {
-                    std::fs::rename(&tmp, path).map_err(|e| {
-                        Error::new(
-                            ErrorKind::Io,
-                            format!("cannot write {:?}: {e}", path.display().to_string()),
-                        )
-                    })
-                });
-            if done.is_err() {
-                let _ = std::fs::remove_file(&tmp);
-            }
-            done
-        }
-    }
+    let bytes = match plot_kind(path)? {
+        PlotKind::Svg => render(report, quantity, tol)?.into_bytes(),
+        PlotKind::Png => png_bytes(&panels(report, quantity, tol), WIDTH, PANEL_HEIGHT)?,
+    };
+    write_atomic_bytes(path, &bytes)
 }
 
 /// A plot file's format, from its extension.

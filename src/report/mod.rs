@@ -8,6 +8,7 @@
 mod compare;
 mod count;
 mod crossover;
+#[cfg(feature = "plot")]
 pub mod figure;
 mod levels;
 mod point;

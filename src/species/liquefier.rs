@@ -8,6 +8,11 @@
 //! equilibrium mixture at 20.28 K then releases heat inside the storage
 //! dewar. Every figure is computed by zsum's exact sums; the page names the
 //! source or model of each.
+//!
+//! Only with the `plot` feature (on by default): the page's figures are
+//! drawn by [`crate::plot`].
+
+#![cfg(feature = "plot")]
 
 use super::hydrogen::HydrogenTable;
 use super::molar::{
