@@ -32,30 +32,31 @@
 //! | `diatomic` | `we`, `wexe`, `Be`, optional `weye`, `alpha`, `De`, `spin`, `swap_parity`, `weights`, `only` |
 //! | `levels` | `levels = [{ energy = "0 cm-1", degeneracy = 2, label = "..." }, ...]` or `file = "path"` (relative to the system file) |
 //! | `zeeman` | `J` (e.g. `"7/2"`), `g`, `field` (e.g. `"1 T"`) |
-//! | `box` | `mass` (e.g. `"4.0026 u"`), `side` (e.g. `"10 nm"`), optional `sides` (`"1,1,2"`) or `dims` |
+//! | `box` | `mass` (e.g. `"4.0026 u"`), `side` (e.g. `"10 nm"`), optional `sides` (`"1,1,2"`) and `dims` (which must agree) |
 //!
-//! Every error names the file, the line, the part and the field.
+//! Each part is a [`ModelSpec`] (its fields are the description's, read by
+//! its own deserialiser) and is built by [`ModelSpec::build_in`], which does
+//! every check; this reader only places the errors. Every error names the
+//! file, the line, the part and the field. Every part needs energies of
+//! known size in joules, so that parts combine exactly (a box needs its
+//! `mass` and `side` here).
 
 use crate::error::{Error, ErrorKind, Result};
-use crate::exact::parse_rational;
-use crate::models::diatomic::{ParityWeights, RovibDiatomic};
-use crate::models::level_file::LevelFile;
-use crate::models::oscillator::{AnharmonicOscillator, HarmonicModes};
+use crate::input::excerpt;
 use crate::models::product::{Part, Product};
-use crate::models::rotor::{LinearRotor, SphericalTop, SymmetricTop, TopShape};
-use crate::models::zeeman::ZeemanMultiplet;
-use crate::models::ParticleInBox;
-use crate::spectrum::Spectrum;
+pub use crate::models::spec::{parse_twice_spin, parse_weights, restrict_weights};
+use crate::models::spec::{ModelSpec, SpecError};
 pub use crate::units::parse_energy;
-use crate::units::{parse_length_m, parse_mass_kg, EnergyUnit};
-use num_bigint::BigUint;
-use num_rational::BigRational;
-use num_traits::Zero;
+use crate::units::EnergyUnit;
+use serde::de::{self, DeserializeSeed, IntoDeserializer, MapAccess, Visitor};
 use serde::Deserialize;
-use std::path::{Path, PathBuf};
+use std::collections::BTreeMap;
+use std::ops::Range;
+use std::path::Path;
 use toml::Spanned;
 
-type Field = Option<Spanned<toml::Value>>;
+/// A part's table: every field with its place in the file.
+type RawPart = BTreeMap<String, Spanned<toml::Value>>;
 
 #[derive(Debug, Deserialize)]
 #[serde(deny_unknown_fields)]
@@ -66,44 +67,6 @@ struct RawSystem {
     part: Vec<Spanned<RawPart>>,
 }
 
-#[derive(Debug, Deserialize)]
-#[serde(deny_unknown_fields)]
-#[allow(non_snake_case)]
-struct RawPart {
-    kind: Spanned<String>,
-    name: Option<Spanned<String>>,
-    B: Field,
-    D: Field,
-    H: Field,
-    A: Field,
-    C: Field,
-    DJ: Field,
-    DJK: Field,
-    DK: Field,
-    spin: Field,
-    swap_parity: Field,
-    weights: Field,
-    only: Field,
-    freq: Field,
-    zero_point: Field,
-    we: Field,
-    wexe: Field,
-    weye: Field,
-    dissociation: Field,
-    Be: Field,
-    alpha: Field,
-    De: Field,
-    levels: Field,
-    file: Field,
-    J: Field,
-    g: Field,
-    field: Field,
-    mass: Field,
-    side: Field,
-    sides: Field,
-    dims: Field,
-}
-
 /// A system read from a file: its name, its common unit, and the product of
 /// its parts.
 #[derive(Debug)]
@@ -112,6 +75,9 @@ pub struct System {
     pub name: Option<String>,
     /// The product of the parts.
     pub product: Product,
+    /// Each part's description, in the order of the file (the product's
+    /// parts are built from them).
+    pub specs: Vec<ModelSpec>,
 }
 
 /// Reading context: the file name and its text, to turn byte spans into
@@ -119,32 +85,158 @@ pub struct System {
 struct Ctx<'a> {
     file: &'a str,
     text: &'a str,
-    dir: PathBuf,
 }
 
 impl Ctx<'_> {
-    fn line(&self, span: std::ops::Range<usize>) -> usize {
+    fn line(&self, span: &Range<usize>) -> usize {
         self.text[..span.start.min(self.text.len())]
             .matches('\n')
             .count()
             + 1
     }
 
-    fn err(&self, span: std::ops::Range<usize>, msg: impl std::fmt::Display) -> Error {
+    fn err(&self, kind: ErrorKind, span: &Range<usize>, msg: impl std::fmt::Display) -> Error {
         Error::new(
-            ErrorKind::Parse,
+            kind,
             format!("{}, line {}: {msg}", self.file, self.line(span)),
         )
     }
 }
 
-/// One part being read: its index, kind and fields.
+/// Why a part's fields did not deserialise, with what is needed to place
+/// the message.
+#[derive(Debug)]
+enum FieldError {
+    /// A field the kind needs is absent.
+    Missing(&'static str),
+    /// A field the kind does not have.
+    Unknown {
+        field: String,
+        expected: &'static [&'static str],
+        span: Option<Range<usize>>,
+    },
+    /// A kind that does not exist.
+    Kind(String),
+    /// A field whose value does not fit.
+    Value {
+        field: String,
+        span: Range<usize>,
+        message: String,
+    },
+    /// Anything else, about the part as a whole.
+    Other(String),
+}
+
+impl std::fmt::Display for FieldError {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        match self {
+            FieldError::Missing(field) => write!(f, "missing field `{field}`"),
+            FieldError::Unknown { field, .. } => write!(f, "unknown field `{field}`"),
+            FieldError::Kind(kind) => write!(f, "unknown kind {kind:?}"),
+            FieldError::Value { field, message, .. } => write!(f, "field `{field}`: {message}"),
+            FieldError::Other(message) => f.write_str(message),
+        }
+    }
+}
+
+impl std::error::Error for FieldError {}
+
+impl de::Error for FieldError {
+    fn custom<T: std::fmt::Display>(msg: T) -> Self {
+        FieldError::Other(msg.to_string())
+    }
+
+    fn missing_field(field: &'static str) -> Self {
+        FieldError::Missing(field)
+    }
+
+    fn unknown_field(field: &str, expected: &'static [&'static str]) -> Self {
+        FieldError::Unknown {
+            field: field.to_string(),
+            expected,
+            span: None,
+        }
+    }
+
+    fn unknown_variant(variant: &str, _expected: &'static [&'static str]) -> Self {
+        FieldError::Kind(variant.to_string())
+    }
+}
+
+/// A part's fields (without `kind` and `name`) in the order of the file, as
+/// a map that a description deserialises from; each value's errors carry
+/// its field and place.
+struct PartFields {
+    fields: std::vec::IntoIter<(String, Spanned<toml::Value>)>,
+    value: Option<(String, Spanned<toml::Value>)>,
+}
+
+impl<'de> de::Deserializer<'de> for PartFields {
+    type Error = FieldError;
+
+    fn deserialize_any<V: Visitor<'de>>(self, visitor: V) -> Result<V::Value, FieldError> {
+        visitor.visit_map(self)
+    }
+
+    serde::forward_to_deserialize_any! {
+        bool i8 i16 i32 i64 i128 u8 u16 u32 u64 u128 f32 f64 char str string
+        bytes byte_buf option unit unit_struct newtype_struct seq tuple
+        tuple_struct map struct enum identifier ignored_any
+    }
+}
+
+impl<'de> MapAccess<'de> for PartFields {
+    type Error = FieldError;
+
+    fn next_key_seed<K: DeserializeSeed<'de>>(
+        &mut self,
+        seed: K,
+    ) -> Result<Option<K::Value>, FieldError> {
+        let Some((key, value)) = self.fields.next() else {
+            return Ok(None);
+        };
+        let span = value.span();
+        let k = seed
+            .deserialize(key.clone().into_deserializer())
+            .map_err(|e| match e {
+                FieldError::Unknown {
+                    field, expected, ..
+                } => FieldError::Unknown {
+                    field,
+                    expected,
+                    span: Some(span),
+                },
+                other => other,
+            })?;
+        self.value = Some((key, value));
+        Ok(Some(k))
+    }
+
+    fn next_value_seed<V: DeserializeSeed<'de>>(
+        &mut self,
+        seed: V,
+    ) -> Result<V::Value, FieldError> {
+        let (field, value) = self
+            .value
+            .take()
+            .ok_or_else(|| FieldError::Other("a value was read before its field".into()))?;
+        let span = value.span();
+        seed.deserialize(value.into_inner())
+            .map_err(|e| FieldError::Value {
+                field,
+                span,
+                message: e.message().trim_end().to_string(),
+            })
+    }
+}
+
+/// One part being read: its place, index and kind.
 struct PartReader<'a> {
     ctx: &'a Ctx<'a>,
     index: usize,
     kind: String,
-    span: std::ops::Range<usize>,
-    raw: &'a RawPart,
+    span: Range<usize>,
+    kind_span: Range<usize>,
 }
 
 impl PartReader<'_> {
@@ -152,292 +244,84 @@ impl PartReader<'_> {
         format!("part {} ({})", self.index + 1, self.kind)
     }
 
-    fn field<'b>(&self, name: &str, f: &'b Field) -> Option<&'b Spanned<toml::Value>> {
-        let _ = name;
-        f.as_ref()
-    }
-
-    fn required<'b>(&self, name: &str, f: &'b Field) -> Result<&'b Spanned<toml::Value>> {
-        f.as_ref().ok_or_else(|| {
-            self.ctx.err(
-                self.span.clone(),
-                format!("{} needs the field `{name}`", self.who()),
-            )
-        })
-    }
-
-    fn string(&self, name: &str, v: &Spanned<toml::Value>) -> Result<String> {
-        match v.get_ref() {
-            toml::Value::String(s) => Ok(s.clone()),
-            toml::Value::Integer(i) => Ok(i.to_string()),
-            toml::Value::Float(x) => Err(self.ctx.err(
-                v.span(),
+    /// A deserialising error, placed at its field.
+    fn field_error(&self, e: FieldError) -> Error {
+        let ctx = self.ctx;
+        let who = self.who();
+        match e {
+            FieldError::Missing(field) => ctx.err(
+                ErrorKind::Parse,
+                &self.span,
+                format!("{who} needs the field `{field}`"),
+            ),
+            FieldError::Unknown {
+                field,
+                expected,
+                span,
+            } => ctx.err(
+                ErrorKind::Parse,
+                span.as_ref().unwrap_or(&self.span),
                 format!(
-                    "field `{name}` of {}: write the number {x} as a string (\"{x} <unit>\") so it \
-                     is read exactly",
-                    self.who()
+                    "field `{}` does not belong to {who}; its fields are: {}",
+                    excerpt(&field),
+                    expected.join(", ")
                 ),
-            )),
-            other => Err(self.ctx.err(
-                v.span(),
+            ),
+            FieldError::Kind(kind) => ctx.err(
+                ErrorKind::Parse,
+                &self.kind_span,
                 format!(
-                    "field `{name}` of {}: expected a string, got {other}",
-                    self.who()
+                    "part {}: unknown kind {:?}; kinds are {}",
+                    self.index + 1,
+                    excerpt(&kind),
+                    ModelSpec::KINDS.join(", ")
                 ),
-            )),
-        }
-    }
-
-    fn boolean(&self, name: &str, f: &Field) -> Result<bool> {
-        match f {
-            None => Ok(false),
-            Some(v) => match v.get_ref() {
-                toml::Value::Boolean(b) => Ok(*b),
-                other => Err(self.ctx.err(
-                    v.span(),
-                    format!(
-                        "field `{name}` of {}: expected true or false, got {other}",
-                        self.who()
-                    ),
-                )),
-            },
-        }
-    }
-
-    /// An energy constant `"<number> <unit>"`, converted to `unit` (or
-    /// setting it, if this is the part's first constant).
-    fn energy(
-        &self,
-        name: &str,
-        v: &Spanned<toml::Value>,
-        unit: &mut Option<EnergyUnit>,
-    ) -> Result<BigRational> {
-        let text = self.string(name, v)?;
-        let (value, u) = parse_energy(&text).map_err(|e| {
-            self.ctx
-                .err(v.span(), format!("field `{name}` of {}: {e}", self.who()))
-        })?;
-        match unit {
-            None => {
-                *unit = Some(u);
-                Ok(value)
-            }
-            Some(target) => u.convert(&value, target).map_err(|e| {
-                self.ctx
-                    .err(v.span(), format!("field `{name}` of {}: {e}", self.who()))
-            }),
-        }
-    }
-
-    fn opt_energy(
-        &self,
-        name: &str,
-        f: &Field,
-        unit: &mut Option<EnergyUnit>,
-    ) -> Result<BigRational> {
-        match self.field(name, f) {
-            Some(v) => self.energy(name, v, unit),
-            None => Ok(BigRational::zero()),
-        }
-    }
-
-    fn with_place<T>(&self, span: std::ops::Range<usize>, r: Result<T>) -> Result<T> {
-        r.map_err(|e| {
-            Error::new(
-                e.kind(),
-                format!(
-                    "{}, line {}: {}: {e}",
-                    self.ctx.file,
-                    self.ctx.line(span),
-                    self.who()
-                ),
-            )
-        })
-    }
-
-    /// Fields that do not belong to this kind are refused by name.
-    fn only_fields(&self, allowed: &[&str]) -> Result<()> {
-        let r = self.raw;
-        let all: [(&str, &Field); 30] = [
-            ("B", &r.B),
-            ("D", &r.D),
-            ("H", &r.H),
-            ("A", &r.A),
-            ("C", &r.C),
-            ("DJ", &r.DJ),
-            ("DJK", &r.DJK),
-            ("DK", &r.DK),
-            ("spin", &r.spin),
-            ("swap_parity", &r.swap_parity),
-            ("weights", &r.weights),
-            ("only", &r.only),
-            ("freq", &r.freq),
-            ("zero_point", &r.zero_point),
-            ("we", &r.we),
-            ("wexe", &r.wexe),
-            ("weye", &r.weye),
-            ("dissociation", &r.dissociation),
-            ("Be", &r.Be),
-            ("alpha", &r.alpha),
-            ("De", &r.De),
-            ("levels", &r.levels),
-            ("file", &r.file),
-            ("J", &r.J),
-            ("g", &r.g),
-            ("field", &r.field),
-            ("mass", &r.mass),
-            ("side", &r.side),
-            ("sides", &r.sides),
-            ("dims", &r.dims),
-        ];
-        for (name, f) in all {
-            if let Some(v) = f {
-                if !allowed.contains(&name) {
-                    return Err(self.ctx.err(
-                        v.span(),
-                        format!(
-                            "field `{name}` does not belong to {}; its fields are: {}",
-                            self.who(),
-                            allowed.join(", ")
-                        ),
-                    ));
-                }
-            }
-        }
-        Ok(())
-    }
-
-    fn weights(&self) -> Result<Option<ParityWeights>> {
-        let r = self.raw;
-        let swap = self.boolean("swap_parity", &r.swap_parity)?;
-        match (&r.spin, &r.weights) {
-            (Some(a), Some(_)) => Err(self.ctx.err(
-                a.span(),
-                format!("{}: give `spin` or `weights`, not both", self.who()),
-            )),
-            (Some(v), None) => {
-                let text = self.string("spin", v)?;
-                let twice = parse_twice_spin(&text).map_err(|e| {
-                    self.ctx
-                        .err(v.span(), format!("field `spin` of {}: {e}", self.who()))
-                })?;
-                Ok(Some(ParityWeights::from_nuclear_spin(twice, swap)))
-            }
-            (None, Some(v)) => {
-                let text = self.string("weights", v)?;
-                let w = parse_weights(&text).map_err(|e| {
-                    self.ctx
-                        .err(v.span(), format!("field `weights` of {}: {e}", self.who()))
-                })?;
-                Ok(Some(w))
-            }
-            (None, None) => {
-                if let Some(v) = &r.swap_parity {
-                    return Err(self.ctx.err(
-                        v.span(),
-                        format!("field `swap_parity` of {} needs `spin`", self.who()),
-                    ));
-                }
-                Ok(None)
+            ),
+            FieldError::Value {
+                field,
+                span,
+                message,
+            } => ctx.err(
+                ErrorKind::Parse,
+                &span,
+                format!("field `{field}` of {who}: {}", excerpt_lines(&message)),
+            ),
+            FieldError::Other(message) => {
+                ctx.err(ErrorKind::Parse, &self.span, format!("{who}: {message}"))
             }
         }
     }
 
-    fn only(&self) -> Result<Option<String>> {
-        match &self.raw.only {
-            None => Ok(None),
-            Some(v) => {
-                let s = self.string("only", v)?;
-                if ["even", "odd", "ortho", "para"].contains(&s.as_str()) {
-                    Ok(Some(s))
-                } else {
-                    Err(self.ctx.err(
-                        v.span(),
-                        format!(
-                            "field `only` of {}: {s:?} is not one of even, odd, ortho, para",
-                            self.who()
-                        ),
-                    ))
-                }
+    /// A building error, placed at its field (or at the part).
+    fn build_error(&self, e: SpecError, spans: &[(String, Range<usize>)]) -> Error {
+        let error = e.error();
+        match e.field() {
+            Some(field) => {
+                let span = spans
+                    .iter()
+                    .find(|(name, _)| name == field)
+                    .map_or(&self.span, |(_, s)| s);
+                self.ctx.err(
+                    error.kind(),
+                    span,
+                    format!("field `{field}` of {}: {error}", self.who()),
+                )
             }
+            None => self
+                .ctx
+                .err(error.kind(), &self.span, format!("{}: {error}", self.who())),
         }
     }
 }
 
-/// Reads a nuclear spin I (0, 1/2, 1, 3/2, ...) and returns 2I.
-pub fn parse_twice_spin(text: &str) -> Result<u32> {
-    let v = parse_rational(text)
-        .map_err(|_| Error::parse("nuclear spin", text, "0, 1/2, 1, 3/2, ..."))?;
-    let twice = &v * BigRational::from_integer(2.into());
-    if v < BigRational::zero() || !twice.is_integer() {
-        return Err(Error::invalid(
-            "nuclear spin",
-            text,
-            "it must be a non-negative integer or half-integer (0, 1/2, 1, 3/2, ...)",
-        ));
-    }
-    num_traits::ToPrimitive::to_u32(&twice.to_integer())
-        .filter(|&t| t <= 40)
-        .ok_or_else(|| Error::invalid("nuclear spin", text, "nuclear spins go up to 20"))
-}
-
-/// Reads hand-set parity weights `EVEN:ODD`.
-pub fn parse_weights(text: &str) -> Result<ParityWeights> {
-    let bad = || {
-        Error::parse(
-            "weights",
-            text,
-            "EVEN:ODD with non-negative integers, e.g. 1:3",
-        )
-    };
-    let (a, b) = text.split_once(':').ok_or_else(bad)?;
-    let e: BigUint = a.trim().parse().map_err(|_| bad())?;
-    let o: BigUint = b.trim().parse().map_err(|_| bad())?;
-    ParityWeights::new(e, o)
-}
-
-/// Reads harmonic modes `"1500 cm-1 x2"`; returns frequency, degeneracy.
-fn parse_mode(text: &str) -> Result<(BigRational, EnergyUnit, u32)> {
-    let (body, deg) = match text.rsplit_once('x') {
-        Some((b, d)) if d.trim().chars().all(|c| c.is_ascii_digit()) && !d.trim().is_empty() => {
-            let d: u32 = d.trim().parse().map_err(|_| {
-                Error::parse("mode degeneracy", d, "a positive integer after x, e.g. x2")
-            })?;
-            (b, d)
-        }
-        _ => (text, 1),
-    };
-    let (v, u) = parse_energy(body)?;
-    Ok((v, u, deg))
-}
-
-/// Applies an `only` selection to a rotor-like model's weights.
-pub fn restrict_weights(w: ParityWeights, only: Option<&str>) -> Result<ParityWeights> {
-    let (e, o) = (w.weight(0).clone(), w.weight(1).clone());
-    let keep_even = match only {
-        None => return Ok(w),
-        Some("even") => true,
-        Some("odd") => false,
-        Some("ortho") => e >= o,
-        Some("para") => e < o,
-        Some(other) => {
-            return Err(Error::parse("selection", other, "even, odd, ortho or para"));
-        }
-    };
-    if e == o && matches!(only, Some("ortho") | Some("para")) {
-        return Err(Error::invalid(
-            "selection",
-            only.unwrap_or_default(),
-            "even and odd levels have equal weights, so there is no ortho/para distinction; \
-             use even or odd",
-        ));
-    }
-    let (e2, o2) = if keep_even {
-        (e, BigUint::zero())
-    } else {
-        (BigUint::zero(), o)
-    };
-    ParityWeights::new(e2, o2)
+/// A message on one line (a reader may break a long one).
+fn excerpt_lines(message: &str) -> String {
+    message
+        .lines()
+        .map(str::trim)
+        .filter(|l| !l.is_empty())
+        .collect::<Vec<_>>()
+        .join("; ")
 }
 
 impl System {
@@ -453,11 +337,7 @@ impl System {
     pub fn parse(text: &str, file: &str, dir: &Path) -> Result<Self> {
         let raw: RawSystem =
             toml::from_str(text).map_err(|e| crate::input::toml_error(file, text, &e))?;
-        let ctx = Ctx {
-            file,
-            text,
-            dir: dir.to_path_buf(),
-        };
+        let ctx = Ctx { file, text };
         if raw.part.is_empty() {
             return Err(Error::new(
                 ErrorKind::Parse,
@@ -465,29 +345,56 @@ impl System {
             ));
         }
         let mut parts = Vec::new();
-        for (index, sp) in raw.part.iter().enumerate() {
+        let mut specs = Vec::new();
+        for (index, sp) in raw.part.into_iter().enumerate() {
+            let span = sp.span();
+            let mut fields: Vec<(String, Spanned<toml::Value>)> =
+                sp.into_inner().into_iter().collect();
+            fields.sort_by_key(|(_, v)| v.span().start);
+            let (kind, kind_span, name) = part_kind_and_name(&ctx, index, &span, &mut fields)?;
             let reader = PartReader {
                 ctx: &ctx,
                 index,
-                kind: sp.get_ref().kind.get_ref().clone(),
-                span: sp.span(),
-                raw: sp.get_ref(),
+                kind,
+                span,
+                kind_span,
             };
-            let spectrum = build_part(&reader)?;
-            let name = sp
-                .get_ref()
-                .name
-                .as_ref()
-                .map(|n| n.get_ref().clone())
-                .unwrap_or_else(|| reader.kind.clone());
-            parts.push(Part { name, spectrum });
+            let spans: Vec<(String, Range<usize>)> =
+                fields.iter().map(|(k, v)| (k.clone(), v.span())).collect();
+            let fields = PartFields {
+                fields: fields.into_iter(),
+                value: None,
+            };
+            let spec =
+                ModelSpec::from_kind(&reader.kind, fields).map_err(|e| reader.field_error(e))?;
+            let spectrum = spec
+                .build_in(dir)
+                .map_err(|e| reader.build_error(e, &spans))?;
+            let unit = spectrum.unit();
+            if unit.joules().is_none() {
+                return Err(ctx.err(
+                    ErrorKind::Unit,
+                    &reader.span,
+                    format!(
+                        "{}: its energies are in {unit}, whose size in joules is unknown, but \
+                         the parts of a system need energies of known size to combine exactly \
+                         (a box needs its `mass` and `side`)",
+                        reader.who()
+                    ),
+                ));
+            }
+            parts.push(Part {
+                name: name.unwrap_or_else(|| reader.kind.clone()),
+                spectrum,
+            });
+            specs.push(spec);
         }
         let unit = raw
             .unit
             .as_ref()
             .map(|u| {
                 EnergyUnit::parse(u.get_ref())
-                    .map_err(|e| ctx.err(u.span(), format!("field `unit`: {e}")))
+                    .map_err(|e| ctx.err(ErrorKind::Parse, &u.span(), format!("field `unit`: {e}")))
             })
             .transpose()?;
         let product =
@@ -495,284 +402,50 @@ impl System {
         Ok(System {
             name: raw.name,
             product,
+            specs,
         })
     }
 }
 
-type Boxed = Box<dyn Spectrum + Send + Sync>;
-
-fn build_part(p: &PartReader<'_>) -> Result<Boxed> {
-    let r = p.raw;
-    let mut unit: Option<EnergyUnit> = None;
-    let span = p.span.clone();
-    match p.kind.as_str() {
-        "rotor" => {
-            p.only_fields(&["B", "D", "H", "spin", "swap_parity", "weights", "only"])?;
-            let b = p.energy("B", p.required("B", &r.B)?, &mut unit)?;
-            let d = p.opt_energy("D", &r.D, &mut unit)?;
-            let h = p.opt_energy("H", &r.H, &mut unit)?;
-            let mut rotor = p.with_place(
-                span.clone(),
-                LinearRotor::new(b, d, h, unit.clone().unwrap_or(EnergyUnit::Wavenumber)),
-            )?;
-            let w = p.weights()?.unwrap_or_else(ParityWeights::uniform);
-            let w = p.with_place(span, restrict_weights(w, p.only()?.as_deref()))?;
-            rotor = rotor.with_weights(w);
-            Ok(Box::new(rotor))
-        }
-        "top" => {
-            p.only_fields(&["B", "A", "C", "DJ", "DJK", "DK"])?;
-            let b = p.energy("B", p.required("B", &r.B)?, &mut unit)?;
-            let (shape, unique) = match (&r.A, &r.C) {
-                (Some(a), None) => (TopShape::Prolate, p.energy("A", a, &mut unit)?),
-                (None, Some(c)) => (TopShape::Oblate, p.energy("C", c, &mut unit)?),
-                _ => {
-                    return Err(p.ctx.err(
-                        span,
-                        format!(
-                            "{} needs exactly one of `A` (prolate) or `C` (oblate)",
-                            p.who()
-                        ),
-                    ))
-                }
-            };
-            let dj = p.opt_energy("DJ", &r.DJ, &mut unit)?;
-            let djk = p.opt_energy("DJK", &r.DJK, &mut unit)?;
-            let dk = p.opt_energy("DK", &r.DK, &mut unit)?;
-            let u = unit.unwrap_or(EnergyUnit::Wavenumber);
-            Ok(Box::new(p.with_place(
-                span,
-                SymmetricTop::new(shape, unique, b, dj, djk, dk, u),
-            )?))
-        }
-        "spherical_top" => {
-            p.only_fields(&["B", "D"])?;
-            let b = p.energy("B", p.required("B", &r.B)?, &mut unit)?;
-            let d = p.opt_energy("D", &r.D, &mut unit)?;
-            let u = unit.unwrap_or(EnergyUnit::Wavenumber);
-            Ok(Box::new(p.with_place(span, SphericalTop::new(b, d, u))?))
-        }
-        "oscillator" => {
-            p.only_fields(&["freq", "zero_point"])?;
-            let f = p.required("freq", &r.freq)?;
-            let items: Vec<toml::Value> = match f.get_ref() {
-                toml::Value::Array(a) => a.clone(),
-                other => vec![other.clone()],
-            };
-            let mut modes = Vec::new();
-            for item in items {
-                let text = match item {
-                    toml::Value::String(s) => s,
-                    other => {
-                        return Err(p.ctx.err(
-                            f.span(),
-                            format!("field `freq` of {}: expected strings such as \"1500 cm-1 x2\", got {other}", p.who()),
-                        ))
-                    }
-                };
-                let (v, u, deg) = parse_mode(&text).map_err(|e| {
-                    p.ctx
-                        .err(f.span(), format!("field `freq` of {}: {e}", p.who()))
-                })?;
-                let v = match &unit {
-                    None => {
-                        unit = Some(u);
-                        v
-                    }
-                    Some(t) => u.convert(&v, t)?,
-                };
-                modes.push((v, deg));
-            }
-            let zp = p.boolean("zero_point", &r.zero_point)?;
-            let u = unit.unwrap_or(EnergyUnit::Wavenumber);
-            Ok(Box::new(
-                p.with_place(span, HarmonicModes::new(modes, zp, u))?,
-            ))
-        }
-        "anharmonic" => {
-            p.only_fields(&["we", "wexe", "weye"])?;
-            let we = p.energy("we", p.required("we", &r.we)?, &mut unit)?;
-            let wexe = p.energy("wexe", p.required("wexe", &r.wexe)?, &mut unit)?;
-            let weye = p.opt_energy("weye", &r.weye, &mut unit)?;
-            let u = unit.unwrap_or(EnergyUnit::Wavenumber);
-            Ok(Box::new(p.with_place(
-                span,
-                AnharmonicOscillator::new(we, wexe, weye, u),
-            )?))
-        }
-        "morse" => {
-            p.only_fields(&["we", "dissociation"])?;
-            let we = p.energy("we", p.required("we", &r.we)?, &mut unit)?;
-            let de = p.energy(
-                "dissociation",
-                p.required("dissociation", &r.dissociation)?,
-                &mut unit,
-            )?;
-            let u = unit.unwrap_or(EnergyUnit::Wavenumber);
-            Ok(Box::new(p.with_place(
-                span,
-                AnharmonicOscillator::morse(we, de, u),
-            )?))
-        }
-        "diatomic" => {
-            p.only_fields(&[
-                "we",
-                "wexe",
-                "weye",
-                "Be",
-                "alpha",
-                "De",
-                "spin",
-                "swap_parity",
-                "weights",
-                "only",
-            ])?;
-            let we = p.energy("we", p.required("we", &r.we)?, &mut unit)?;
-            let wexe = p.energy("wexe", p.required("wexe", &r.wexe)?, &mut unit)?;
-            let weye = p.opt_energy("weye", &r.weye, &mut unit)?;
-            let be = p.energy("Be", p.required("Be", &r.Be)?, &mut unit)?;
-            let alpha = p.opt_energy("alpha", &r.alpha, &mut unit)?;
-            let de = p.opt_energy("De", &r.De, &mut unit)?;
-            let u = unit.unwrap_or(EnergyUnit::Wavenumber);
-            let w = p.weights()?.unwrap_or_else(ParityWeights::uniform);
-            let w = p.with_place(span.clone(), restrict_weights(w, p.only()?.as_deref()))?;
-            let vib = p.with_place(
-                span.clone(),
-                AnharmonicOscillator::new(we, wexe, weye, u.clone()),
-            )?;
-            Ok(Box::new(p.with_place(
-                span,
-                RovibDiatomic::new(vib, be, alpha, de, w),
-            )?))
-        }
-        "levels" => {
-            p.only_fields(&["levels", "file"])?;
-            match (&r.levels, &r.file) {
-                (Some(l), None) => {
-                    let arr = match l.get_ref() {
-                        toml::Value::Array(a) => a,
-                        _ => {
-                            return Err(p.ctx.err(
-                                l.span(),
-                                format!("field `levels` of {}: expected a list of {{ energy, degeneracy, label }} tables", p.who()),
-                            ))
-                        }
-                    };
-                    let mut entries = Vec::new();
-                    for (i, item) in arr.iter().enumerate() {
-                        let at = |m: String| {
-                            p.ctx
-                                .err(l.span(), format!("level {} of {}: {m}", i + 1, p.who()))
-                        };
-                        let t = item.as_table().ok_or_else(|| {
-                            at("expected a table { energy = \"0 cm-1\", degeneracy = 1 }".into())
-                        })?;
-                        for key in t.keys() {
-                            if !["energy", "degeneracy", "label"].contains(&key.as_str()) {
-                                return Err(at(format!(
-                                    "unknown field `{key}`; allowed: energy, degeneracy, label"
-                                )));
-                            }
-                        }
-                        let e = t.get("energy").and_then(|v| v.as_str()).ok_or_else(|| {
-                            at("needs `energy` as a string such as \"881 cm-1\"".into())
-                        })?;
-                        let (v, u) = parse_energy(e).map_err(|e| at(e.to_string()))?;
-                        let v = match &unit {
-                            None => {
-                                unit = Some(u);
-                                v
-                            }
-                            Some(target) => u.convert(&v, target).map_err(|e| at(e.to_string()))?,
-                        };
-                        let g = match t.get("degeneracy") {
-                            Some(toml::Value::Integer(g)) if *g > 0 => BigUint::from(*g as u64),
-                            Some(toml::Value::String(s)) => s
-                                .trim()
-                                .parse::<BigUint>()
-                                .ok()
-                                .filter(|g| !g.is_zero())
-                                .ok_or_else(|| {
-                                    at(format!("degeneracy {s:?} must be a positive integer"))
-                                })?,
-                            Some(other) => {
-                                return Err(at(format!(
-                                    "degeneracy {other} must be a positive integer"
-                                )))
-                            }
-                            None => return Err(at("needs `degeneracy`".into())),
-                        };
-                        let label = t.get("label").and_then(|v| v.as_str()).map(String::from);
-                        entries.push((v, g, label));
-                    }
-                    let u = unit.unwrap_or(EnergyUnit::Wavenumber);
-                    Ok(Box::new(p.with_place(
-                        l.span(),
-                        LevelFile::from_entries(u, entries),
-                    )?))
-                }
-                (None, Some(f)) => {
-                    let rel = p.string("file", f)?;
-                    let path = p.ctx.dir.join(&rel);
-                    Ok(Box::new(p.with_place(f.span(), LevelFile::read(&path))?))
-                }
-                _ => Err(p.ctx.err(
-                    span,
-                    format!("{} needs exactly one of `levels` or `file`", p.who()),
-                )),
-            }
-        }
-        "zeeman" => {
-            p.only_fields(&["J", "g", "field"])?;
-            let j = p.string("J", p.required("J", &r.J)?)?;
-            let g = p.string("g", p.required("g", &r.g)?)?;
-            let b = p.string("field", p.required("field", &r.field)?)?;
-            Ok(Box::new(p.with_place(
-                span,
-                ZeemanMultiplet::from_text(&j, &g, &b),
-            )?))
-        }
-        "box" => {
-            p.only_fields(&["mass", "side", "sides", "dims"])?;
-            let mass = p.string("mass", p.required("mass", &r.mass)?)?;
-            let side = p.string("side", p.required("side", &r.side)?)?;
-            let m = p.with_place(span.clone(), parse_mass_kg(&mass))?;
-            let l = p.with_place(span.clone(), parse_length_m(&side))?;
-            let b = match (&r.sides, &r.dims) {
-                (Some(s), None) => {
-                    let text = p.string("sides", s)?;
-                    let ratios: Result<Vec<BigRational>> =
-                        text.split([',', ':']).map(parse_rational).collect();
-                    p.with_place(s.span(), ratios.and_then(ParticleInBox::new))?
-                }
-                (None, Some(d)) => match d.get_ref() {
-                    toml::Value::Integer(n) if (1..=3).contains(n) => {
-                        ParticleInBox::cube(*n as usize)?
-                    }
-                    other => {
-                        return Err(p.ctx.err(
-                            d.span(),
-                            format!("field `dims` of {}: {other} is not 1, 2 or 3", p.who()),
-                        ))
-                    }
-                },
-                (None, None) => ParticleInBox::cube(3)?,
-                (Some(s), Some(_)) => {
-                    return Err(p.ctx.err(
-                        s.span(),
-                        format!("{}: give `sides` or `dims`, not both", p.who()),
-                    ))
-                }
-            };
-            Ok(Box::new(b.with_scale(&m, &l)))
-        }
-        other => Err(p.ctx.err(
-            p.raw.kind.span(),
+/// Takes a part's `kind` (required, with its place) and `name` (optional)
+/// out of its fields.
+fn part_kind_and_name(
+    ctx: &Ctx<'_>,
+    index: usize,
+    span: &Range<usize>,
+    fields: &mut Vec<(String, Spanned<toml::Value>)>,
+) -> Result<(String, Range<usize>, Option<String>)> {
+    let mut take = |key: &str| {
+        fields
+            .iter()
+            .position(|(k, _)| k == key)
+            .map(|i| fields.remove(i).1)
+    };
+    let string = |key: &str, v: Spanned<toml::Value>| match v.get_ref() {
+        toml::Value::String(s) => Ok(s.clone()),
+        other => Err(ctx.err(
+            ErrorKind::Parse,
+            &v.span(),
             format!(
-                "part {}: unknown kind {other:?}; kinds are rotor, top, spherical_top, oscillator, \
-                 anharmonic, morse, diatomic, levels, zeeman, box",
-                p.index + 1
+                "field `{key}` of part {}: expected a string, got {}",
+                index + 1,
+                excerpt(&other.to_string())
             ),
         )),
-    }
+    };
+    let kind = take("kind").ok_or_else(|| {
+        ctx.err(
+            ErrorKind::Parse,
+            span,
+            format!(
+                "part {} needs the field `kind`: one of {}",
+                index + 1,
+                ModelSpec::KINDS.join(", ")
+            ),
+        )
+    })?;
+    let kind_span = kind.span();
+    let kind = string("kind", kind)?;
+    let name = take("name").map(|v| string("name", v)).transpose()?;
+    Ok((kind, kind_span, name))
 }

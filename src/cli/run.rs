@@ -15,11 +15,11 @@ use zsum::classical::{parse_tolerance, Classical, Quantity, SearchRange};
 use zsum::error::{Error, Result};
 use zsum::exact::parse_rational;
 use zsum::export::{render, write_atomic, Format};
-use zsum::models::diatomic::{ParityWeights, RovibDiatomic};
 use zsum::models::level_file::LevelFile;
-use zsum::models::oscillator::{AnharmonicOscillator, HarmonicModes};
-use zsum::models::rotor::{LinearRotor, SphericalTop, SymmetricTop, TopShape};
-use zsum::models::zeeman::ZeemanMultiplet;
+use zsum::models::spec::{
+    AnharmonicSpec, BoxSpec, DiatomicSpec, LevelsSpec, ModelSpec, MorseSpec, OscillatorSpec,
+    RotorSpec, Selection, SpecError, SphericalTopSpec, Text, TopSpec, ZeemanSpec,
+};
 use zsum::models::ParticleInBox;
 use zsum::report::ThermoReport;
 use zsum::report::{check_digits, BoxScale, CountReport, LevelsReport, ListOptions};
@@ -27,7 +27,7 @@ use zsum::species::hydrogen::HydrogenTable;
 use zsum::species::{Basis, Database, Isomer, MolarOptions, MolarTable, Translation, VibModel};
 use zsum::spectrum::Budget;
 use zsum::spectrum::Spectrum;
-use zsum::system::{parse_energy, parse_twice_spin, parse_weights, restrict_weights, System};
+use zsum::system::{parse_energy, System};
 use zsum::thermo::{parse_grid, Per};
 use zsum::units::{parse_length_m, parse_mass_kg, EnergyUnit};
 
@@ -61,47 +61,20 @@ pub fn run(cli: Cli) -> Result<Option<String>> {
     }
 }
 
-fn box_model(shape: &BoxShape) -> Result<ParticleInBox> {
-    let sides: Option<Vec<BigRational>> = shape
-        .sides
-        .as_deref()
-        .map(|text| {
-            text.split([',', ':'])
-                .map(|s| {
-                    parse_rational(s).map_err(|_| {
-                        Error::parse(
-                            "side ratio",
-                            s.trim(),
-                            "positive numbers separated by commas, e.g. 1,1,2 or 2:3:5",
-                        )
-                    })
-                })
-                .collect()
-        })
-        .transpose()?;
-    let dims = match (shape.dims, &sides) {
-        (Some(d), _) if !(1..=3).contains(&d) => {
-            return Err(Error::invalid(
-                "--dims",
-                d,
-                "a box has 1, 2 or 3 dimensions",
-            ))
-        }
-        (Some(d), Some(s)) if s.len() != d as usize => {
-            return Err(Error::invalid(
-                "--sides",
-                shape.sides.as_deref().unwrap_or_default(),
-                &format!("--dims {d} needs exactly {d} side ratios, got {}", s.len()),
-            ))
-        }
-        (Some(d), _) => d as usize,
-        (None, Some(s)) => s.len(),
-        (None, None) => 3,
-    };
-    match sides {
-        Some(s) => ParticleInBox::new(s),
-        None => ParticleInBox::cube(dims),
+/// The box the shape options describe (with a physical scale if `mass`
+/// and `side` are given).
+fn box_spec(shape: &BoxShape, mass: &Option<String>, side: &Option<String>) -> BoxSpec {
+    BoxSpec {
+        mass: mass.as_deref().map(Text::from),
+        side: side.as_deref().map(Text::from),
+        sides: shape.sides.as_deref().map(Text::from),
+        dims: shape.dims.map(i64::from),
     }
+}
+
+/// The box in its own unit h²/(8 m L²).
+fn box_model(shape: &BoxShape) -> Result<ParticleInBox> {
+    built("box", box_spec(shape, &None, &None).build())
 }
 
 fn cutoff(text: &str) -> Result<BigRational> {
@@ -195,11 +168,13 @@ fn number(flag: &str, text: &str) -> Result<BigRational> {
     })
 }
 
-fn opt_number(flag: &str, text: &Option<String>) -> Result<BigRational> {
-    match text {
-        Some(t) => number(flag, t),
-        None => Ok(BigRational::zero()),
-    }
+/// A constant typed as a bare number, in `unit` (the unit --unit sets).
+fn constant(flag: &str, text: &str, unit: &EnergyUnit) -> Result<Text> {
+    Ok(Text::energy(&number(flag, text)?, unit))
+}
+
+fn opt_constant(flag: &str, text: &Option<String>, unit: &EnergyUnit) -> Result<Option<Text>> {
+    text.as_deref().map(|t| constant(flag, t, unit)).transpose()
 }
 
 /// A cutoff in the model's unit, or with its own unit (converted exactly).
@@ -238,39 +213,65 @@ fn list_generic(model: &str, s: &dyn Spectrum, l: &ListArgs) -> Result<Option<St
     emit(render(&report, format(l.out.format))?, &l.out)
 }
 
-fn spin_weights(s: &SpinArgs) -> Result<ParityWeights> {
-    let w = match (&s.spin, &s.weights) {
-        (Some(i), _) => ParityWeights::from_nuclear_spin(parse_twice_spin(i)?, s.swap_parity),
-        (None, Some(w)) => parse_weights(w)?,
-        (None, None) => ParityWeights::uniform(),
-    };
-    let only = s.only.map(|o| match o {
-        OnlyArg::Even => "even",
-        OnlyArg::Odd => "odd",
-        OnlyArg::Ortho => "ortho",
-        OnlyArg::Para => "para",
-    });
-    restrict_weights(w, only)
+/// The option that sets a description's field, where one does.
+fn option_of(kind: &str, field: &str) -> Option<String> {
+    match (kind, field) {
+        (_, "levels" | "file") => None,
+        ("spherical_top", "D") => Some("--DJ".into()),
+        (_, f) => Some(format!("--{}", f.replace('_', "-"))),
+    }
+}
+
+/// A built model; an error about one field ends with the option that set
+/// it.
+fn built<T>(kind: &str, r: std::result::Result<T, SpecError>) -> Result<T> {
+    r.map_err(|e| {
+        let error = e.error();
+        match e.field().and_then(|f| option_of(kind, f)) {
+            Some(option) => Error::new(error.kind(), format!("{} (see {option})", error.message())),
+            None => error.clone(),
+        }
+    })
 }
 
 type Model = Box<dyn Spectrum + Send + Sync>;
 
-fn rotor(a: &RotorModel) -> Result<Model> {
-    let unit = EnergyUnit::parse(&a.unit)?;
-    Ok(Box::new(
-        LinearRotor::new(
-            number("--B", &a.b)?,
-            opt_number("--D", &a.d)?,
-            opt_number("--H", &a.h)?,
-            unit,
-        )?
-        .with_weights(spin_weights(&a.spin)?),
-    ))
+fn build(spec: &ModelSpec) -> Result<Model> {
+    built(spec.kind(), spec.build())
 }
 
-fn top(a: &TopModel) -> Result<Model> {
+/// The nuclear-spin fields: (spin, swap_parity, weights, only).
+fn spin_fields(s: &SpinArgs) -> (Option<Text>, bool, Option<Text>, Option<Selection>) {
+    (
+        s.spin.as_deref().map(Text::from),
+        s.swap_parity,
+        s.weights.as_deref().map(Text::from),
+        s.only.map(|o| match o {
+            OnlyArg::Even => Selection::Even,
+            OnlyArg::Odd => Selection::Odd,
+            OnlyArg::Ortho => Selection::Ortho,
+            OnlyArg::Para => Selection::Para,
+        }),
+    )
+}
+
+fn rotor(a: &RotorModel) -> Result<ModelSpec> {
     let unit = EnergyUnit::parse(&a.unit)?;
-    let b = number("--B", &a.b)?;
+    let (spin, swap_parity, weights, only) = spin_fields(&a.spin);
+    Ok(ModelSpec::Rotor(RotorSpec {
+        b: constant("--B", &a.b, &unit)?,
+        d: opt_constant("--D", &a.d, &unit)?,
+        h: opt_constant("--H", &a.h, &unit)?,
+        spin,
+        swap_parity,
+        weights,
+        only,
+    }))
+}
+
+fn top(a: &TopModel) -> Result<ModelSpec> {
+    let unit = EnergyUnit::parse(&a.unit)?;
+    let b = constant("--B", &a.b, &unit)?;
     if a.spherical {
         if a.djk.is_some() || a.dk.is_some() {
             return Err(Error::invalid(
@@ -279,79 +280,68 @@ fn top(a: &TopModel) -> Result<Model> {
                 "a spherical top takes only --B and --DJ",
             ));
         }
-        return Ok(Box::new(SphericalTop::new(
+        return Ok(ModelSpec::SphericalTop(SphericalTopSpec {
             b,
-            opt_number("--DJ", &a.dj)?,
-            unit,
-        )?));
+            d: opt_constant("--DJ", &a.dj, &unit)?,
+        }));
     }
-    let (shape, unique) = match (&a.a, &a.c) {
-        (Some(x), None) => (TopShape::Prolate, number("--A", x)?),
-        (None, Some(x)) => (TopShape::Oblate, number("--C", x)?),
-        _ => {
-            return Err(Error::invalid(
-                "top",
-                "without --A, --C or --spherical",
-                "give --A (prolate), --C (oblate) or --spherical",
-            ))
-        }
-    };
-    Ok(Box::new(SymmetricTop::new(
-        shape,
-        unique,
+    if a.a.is_none() && a.c.is_none() {
+        return Err(Error::invalid(
+            "top",
+            "without --A, --C or --spherical",
+            "give --A (prolate), --C (oblate) or --spherical",
+        ));
+    }
+    Ok(ModelSpec::Top(TopSpec {
         b,
-        opt_number("--DJ", &a.dj)?,
-        opt_number("--DJK", &a.djk)?,
-        opt_number("--DK", &a.dk)?,
-        unit,
-    )?))
+        a: opt_constant("--A", &a.a, &unit)?,
+        c: opt_constant("--C", &a.c, &unit)?,
+        dj: opt_constant("--DJ", &a.dj, &unit)?,
+        djk: opt_constant("--DJK", &a.djk, &unit)?,
+        dk: opt_constant("--DK", &a.dk, &unit)?,
+    }))
 }
 
-fn parse_modes(text: &str) -> Result<Vec<(BigRational, u32)>> {
+/// `--freq 1000,1500x2`: each frequency a bare number in `unit`, with its
+/// degeneracy after an x (read by the description).
+fn modes(text: &str, unit: &EnergyUnit) -> Result<Vec<Text>> {
     text.split(',')
-        .map(|item| {
-            let (f, d) = match item.split_once(['x', 'X']) {
-                Some((f, d)) => {
-                    let d: u32 = d.trim().parse().ok().filter(|&d| d >= 1).ok_or_else(|| {
-                        Error::parse("mode degeneracy", d, "a positive integer, e.g. 1500x2")
-                    })?;
-                    (f, d)
-                }
-                None => (item, 1),
-            };
-            Ok((number("--freq", f.trim())?, d))
+        .map(|item| match item.split_once(['x', 'X']) {
+            Some((f, d)) => Ok(Text::new(format!(
+                "{} x{}",
+                constant("--freq", f.trim(), unit)?,
+                d.trim()
+            ))),
+            None => constant("--freq", item.trim(), unit),
         })
         .collect()
 }
 
-fn oscillator(a: &OscillatorModel) -> Result<Model> {
+fn oscillator(a: &OscillatorModel) -> Result<ModelSpec> {
     let unit = EnergyUnit::parse(&a.unit)?;
     match (&a.freq, &a.we) {
-        (Some(f), _) => Ok(Box::new(HarmonicModes::new(
-            parse_modes(f)?,
-            a.zero_point,
-            unit,
-        )?)),
+        (Some(f), _) => Ok(ModelSpec::Oscillator(OscillatorSpec {
+            freq: modes(f, &unit)?,
+            zero_point: a.zero_point,
+        })),
         (None, Some(we)) => {
-            let we = number("--we", we)?;
-            Ok(Box::new(match (&a.wexe, &a.dissociation) {
-                (Some(x), None) => AnharmonicOscillator::new(
+            let we = constant("--we", we, &unit)?;
+            match (&a.wexe, &a.dissociation) {
+                (Some(x), None) => Ok(ModelSpec::Anharmonic(AnharmonicSpec {
                     we,
-                    number("--wexe", x)?,
-                    opt_number("--weye", &a.weye)?,
-                    unit,
-                )?,
-                (None, Some(d)) => {
-                    AnharmonicOscillator::morse(we, number("--dissociation", d)?, unit)?
-                }
-                _ => {
-                    return Err(Error::invalid(
-                        "--we",
-                        "without --wexe or --dissociation",
-                        "give --wexe (anharmonic) or --dissociation (Morse)",
-                    ))
-                }
-            }))
+                    wexe: constant("--wexe", x, &unit)?,
+                    weye: opt_constant("--weye", &a.weye, &unit)?,
+                })),
+                (None, Some(d)) => Ok(ModelSpec::Morse(MorseSpec {
+                    we,
+                    dissociation: constant("--dissociation", d, &unit)?,
+                })),
+                _ => Err(Error::invalid(
+                    "--we",
+                    "without --wexe or --dissociation",
+                    "give --wexe (anharmonic) or --dissociation (Morse)",
+                )),
+            }
         }
         (None, None) => Err(Error::invalid(
             "oscillator",
@@ -361,37 +351,44 @@ fn oscillator(a: &OscillatorModel) -> Result<Model> {
     }
 }
 
-fn diatomic(a: &DiatomicModel) -> Result<Model> {
+fn diatomic(a: &DiatomicModel) -> Result<ModelSpec> {
     let unit = EnergyUnit::parse(&a.unit)?;
-    let vib = AnharmonicOscillator::new(
-        number("--we", &a.we)?,
-        number("--wexe", &a.wexe)?,
-        opt_number("--weye", &a.weye)?,
-        unit,
-    )?;
-    Ok(Box::new(RovibDiatomic::new(
-        vib,
-        number("--Be", &a.be)?,
-        opt_number("--alpha", &a.alpha)?,
-        opt_number("--De", &a.de)?,
-        spin_weights(&a.spin)?,
-    )?))
+    let (spin, swap_parity, weights, only) = spin_fields(&a.spin);
+    Ok(ModelSpec::Diatomic(DiatomicSpec {
+        we: constant("--we", &a.we, &unit)?,
+        wexe: constant("--wexe", &a.wexe, &unit)?,
+        weye: opt_constant("--weye", &a.weye, &unit)?,
+        be: constant("--Be", &a.be, &unit)?,
+        alpha: opt_constant("--alpha", &a.alpha, &unit)?,
+        de: opt_constant("--De", &a.de, &unit)?,
+        spin,
+        swap_parity,
+        weights,
+        only,
+    }))
 }
 
-fn file(a: &FileModel) -> Result<Model> {
-    Ok(Box::new(LevelFile::read(&a.path)?))
+fn file(a: &FileModel) -> ModelSpec {
+    ModelSpec::Levels(LevelsSpec {
+        levels: None,
+        file: Some(a.path.clone()),
+    })
 }
 
-fn zeeman(a: &ZeemanModel) -> Result<Model> {
-    Ok(Box::new(ZeemanMultiplet::from_text(&a.j, &a.g, &a.field)?))
+fn zeeman(a: &ZeemanModel) -> ModelSpec {
+    ModelSpec::Zeeman(ZeemanSpec {
+        j: Text::from(a.j.as_str()),
+        g: Text::from(a.g.as_str()),
+        field: Text::from(a.field.as_str()),
+    })
 }
 
 fn levels_rotor(a: RotorLevels) -> Result<Option<String>> {
-    list_generic("rotor", rotor(&a.model)?.as_ref(), &a.list)
+    list_generic("rotor", build(&rotor(&a.model)?)?.as_ref(), &a.list)
 }
 
 fn levels_top(a: TopLevels) -> Result<Option<String>> {
-    let m = top(&a.model)?;
+    let m = build(&top(&a.model)?)?;
     let id = if a.model.spherical {
         "spherical_top"
     } else {
@@ -401,37 +398,36 @@ fn levels_top(a: TopLevels) -> Result<Option<String>> {
 }
 
 fn levels_oscillator(a: OscillatorLevels) -> Result<Option<String>> {
-    list_generic("oscillator", oscillator(&a.model)?.as_ref(), &a.list)
+    let m = build(&oscillator(&a.model)?)?;
+    list_generic("oscillator", m.as_ref(), &a.list)
 }
 
 fn levels_diatomic(a: DiatomicLevels) -> Result<Option<String>> {
-    list_generic("diatomic", diatomic(&a.model)?.as_ref(), &a.list)
+    list_generic("diatomic", build(&diatomic(&a.model)?)?.as_ref(), &a.list)
 }
 
 fn levels_file(a: FileLevels) -> Result<Option<String>> {
-    list_generic("file", file(&a.model)?.as_ref(), &a.list)
+    list_generic("file", build(&file(&a.model))?.as_ref(), &a.list)
 }
 
 fn levels_zeeman(a: ZeemanLevels) -> Result<Option<String>> {
-    list_generic("zeeman", zeeman(&a.model)?.as_ref(), &a.list)
+    list_generic("zeeman", build(&zeeman(&a.model))?.as_ref(), &a.list)
 }
 
 /// A model for sum/thermo, with its identifier and temperature options.
 fn thermo_model(m: ThermoModel) -> Result<(&'static str, Model, TempArgs)> {
-    Ok(match m {
-        ThermoModel::Box(a) => {
-            let mut b = box_model(&a.shape)?;
-            if let (Some(m), Some(s)) = (&a.mass, &a.side) {
-                b = b.with_scale(&parse_mass_kg(m)?, &parse_length_m(s)?);
-            }
-            ("box", Box::new(b), a.temp)
-        }
+    let (id, spec, temp) = match m {
+        ThermoModel::Box(a) => (
+            "box",
+            ModelSpec::Box(box_spec(&a.shape, &a.mass, &a.side)),
+            a.temp,
+        ),
         ThermoModel::Rotor(a) => ("rotor", rotor(&a.model)?, a.temp),
         ThermoModel::Top(a) => ("top", top(&a.model)?, a.temp),
         ThermoModel::Oscillator(a) => ("oscillator", oscillator(&a.model)?, a.temp),
         ThermoModel::Diatomic(a) => ("diatomic", diatomic(&a.model)?, a.temp),
-        ThermoModel::File(a) => ("file", file(&a.model)?, a.temp),
-        ThermoModel::Zeeman(a) => ("zeeman", zeeman(&a.model)?, a.temp),
+        ThermoModel::File(a) => ("file", file(&a.model), a.temp),
+        ThermoModel::Zeeman(a) => ("zeeman", zeeman(&a.model), a.temp),
         ThermoModel::Species(_) => {
             return Err(Error::invalid(
                 "sum",
@@ -439,7 +435,8 @@ fn thermo_model(m: ThermoModel) -> Result<(&'static str, Model, TempArgs)> {
                 "species give standard molar functions: use zsum thermo NAME --T ...",
             ))
         }
-    })
+    };
+    Ok((id, build(&spec)?, temp))
 }
 
 fn run_thermo(
@@ -624,13 +621,9 @@ fn classical_model(
     system: &Option<std::path::PathBuf>,
     what: &str,
 ) -> Result<Model> {
-    Ok(match model {
+    let spec = match model {
         Some(ClassicalModel::Box(BoxPhysical { shape, mass, side })) => {
-            let mut b = box_model(&shape)?;
-            if let (Some(m), Some(s)) = (&mass, &side) {
-                b = b.with_scale(&parse_mass_kg(m)?, &parse_length_m(s)?);
-            }
-            Box::new(b)
+            ModelSpec::Box(box_spec(&shape, &mass, &side))
         }
         Some(ClassicalModel::Rotor(a)) => rotor(&a)?,
         Some(ClassicalModel::Top(a)) => top(&a)?,
@@ -644,9 +637,10 @@ fn classical_model(
                     "name a model (box, rotor, top, oscillator, diatomic) or give --system FILE",
                 )
             })?;
-            Box::new(System::read(path)?.product)
+            return Ok(Box::new(System::read(path)?.product));
         }
-    })
+    };
+    build(&spec)
 }
 
 fn crossover(model: Option<ClassicalModel>, a: CrossoverArgs) -> Result<Option<String>> {

@@ -42,11 +42,10 @@ mod molar;
 
 use crate::error::{Error, ErrorKind, Result};
 use crate::exact::parse_rational;
-use crate::models::diatomic::{ParityWeights, RovibDiatomic};
+use crate::models::diatomic::ParityWeights;
 use crate::models::level_file::LevelFile;
-use crate::models::oscillator::{AnharmonicOscillator, HarmonicModes};
 use crate::models::product::{Part, Product};
-use crate::models::rotor::LinearRotor;
+use crate::models::spec::{DiatomicSpec, OscillatorSpec, RotorSpec, Text};
 use crate::spectrum::Spectrum;
 use crate::units::{parse_mass_kg, EnergyUnit};
 use num_bigint::BigUint;
@@ -303,7 +302,7 @@ impl Species {
                         (None, ParityWeights::uniform())
                     }
                     Some(s) => {
-                        let t = crate::system::parse_twice_spin(s)
+                        let t = crate::models::spec::parse_twice_spin(s)
                             .map_err(|e| field_err(&n, "nuclear_spin", s, &e.to_string()))?;
                         (
                             Some(t),
@@ -385,40 +384,49 @@ impl Species {
             return Ok(el);
         };
         let w = weights.unwrap_or_else(|| m.weights.clone());
-        let zero = BigRational::zero;
+        // The rotation and vibration are described as a system file would
+        // describe them (exact constants in cm-1) and built the same way.
+        let cm1 = |v: &BigRational| Text::energy(v, &EnergyUnit::Wavenumber);
+        let weights = Some(Text::new(format!("{}:{}", w.even(), w.odd())));
         let rovib: Box<dyn Spectrum + Send + Sync> = match model {
-            VibModel::Rovib => {
-                let vib = AnharmonicOscillator::new(
-                    m.we.clone(),
-                    m.wexe.clone(),
-                    zero(),
-                    EnergyUnit::Wavenumber,
-                )?;
-                Box::new(RovibDiatomic::new(
-                    vib,
-                    m.b_e.clone(),
-                    m.alpha_e.clone(),
-                    m.d_e.clone(),
-                    w,
-                )?)
-            }
+            VibModel::Rovib => Box::new(
+                DiatomicSpec {
+                    we: cm1(&m.we),
+                    wexe: cm1(&m.wexe),
+                    weye: None,
+                    be: cm1(&m.b_e),
+                    alpha: Some(cm1(&m.alpha_e)),
+                    de: Some(cm1(&m.d_e)),
+                    spin: None,
+                    swap_parity: false,
+                    weights,
+                    only: None,
+                }
+                .build()?,
+            ),
             VibModel::Rrho => {
                 // Rigid rotor with B_0 and a harmonic vibration with the
                 // fundamental G(1) − G(0) = we − 2 wexe.
                 let two = BigRational::from_integer(2.into());
                 let b0 = &m.b_e - &m.alpha_e / &two;
                 let fundamental = &m.we - &two * &m.wexe;
-                let rot = LinearRotor::rigid(b0, EnergyUnit::Wavenumber)?.with_weights(w);
-                let ho = HarmonicModes::one_d(fundamental, false, EnergyUnit::Wavenumber)?;
+                let rot = RotorSpec {
+                    weights,
+                    ..RotorSpec::new(cm1(&b0))
+                };
+                let ho = OscillatorSpec {
+                    freq: vec![cm1(&fundamental)],
+                    zero_point: false,
+                };
                 Box::new(Product::new(
                     vec![
                         Part {
                             name: "rotation".into(),
-                            spectrum: Box::new(rot),
+                            spectrum: Box::new(rot.build()?),
                         },
                         Part {
                             name: "vibration".into(),
-                            spectrum: Box::new(ho),
+                            spectrum: Box::new(ho.build()?),
                         },
                     ],
                     None,
