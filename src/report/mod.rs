@@ -2,9 +2,19 @@
 //! aligned table all write. Built by the library, so a library user gets
 //! exactly what the command line prints.
 
+mod census;
+mod einstein;
+mod ensemble;
+mod micro;
 mod point;
 pub mod text;
 
+pub use census::{
+    CensusErrorMap, CensusErrorRow, CensusReport, CensusRow, RoundedMode, MAX_APPROX_DIGITS,
+};
+pub use einstein::{EinsteinReport, EinsteinRow};
+pub use ensemble::{BoltzmannCrossing, EnsemblePoint, EnsembleReport};
+pub use micro::{MicroReport, MicroRow};
 pub use point::ThermoPoint;
 
 use crate::error::Result;
