@@ -548,3 +548,26 @@ fn ensemble_sweep_numbers_hold_the_closed_form() {
     let t: f64 = num_traits::ToPrimitive::to_f64(&cross.temperature).unwrap();
     assert!(err(t * 0.995) > 0.2 && err(t * 1.005) < 0.2, "T = {t}");
 }
+
+/// Levels on a grid too fine for the memory budget are refused by name,
+/// and the message names quantities (the cutoff, the memory budget), not
+/// command-line options: 1 K and 1.001 K above the ground share a grid of
+/// 1/1000 K, so a cutoff of 1000 K needs 10^6 energies.
+#[test]
+fn too_fine_a_grid_is_refused_naming_quantities() {
+    let list = LevelFile::parse("0 K 1\n1 K 1\n1.001 K 1\n", "fine").unwrap();
+    let e = microstates(
+        &list,
+        2,
+        Statistics::Distinct,
+        &r("1000"),
+        None,
+        &Budget::bytes(20_000_000),
+    )
+    .unwrap_err();
+    let m = e.message();
+    assert!(m.contains("common grid of 0.001 K"), "{m}");
+    assert!(m.contains("the level at 1.001 K"), "{m}");
+    assert!(m.contains("lower the cutoff"), "{m}");
+    assert!(!m.contains("--"), "{m}");
+}
