@@ -4,7 +4,7 @@
 //! energies with states ([`StateCounts::rows`]), and the error map of the
 //! Whitten–Rabinovitch approximation against that count
 //! ([`census_error_map`]). The printed tables are made from these in
-//! [`crate::report`].
+//! `report/` (above this module).
 
 use super::{beyer_swinehart, stein_rabinovitch_spectrum, whitten_rabinovitch, Mode, StateCounts};
 use crate::error::{Error, Result};

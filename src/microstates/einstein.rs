@@ -3,7 +3,7 @@
 //! Ω(q) = C(q + N − 1, q) exactly, with the microcanonical temperature from
 //! the exact derivative of ln Ω and the canonical ensemble at that
 //! temperature, every value a certified ball. The printed table is made in
-//! [`crate::report`].
+//! `report/` (above this module).
 //!
 //! # The temperature
 //! ln Ω(q) = ln Γ(q + N) − ln Γ(q + 1) − ln Γ(N) continues the exact count

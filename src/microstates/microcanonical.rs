@@ -2,7 +2,7 @@
 //! total energy with states, the exact count Ω(E, N), S/k = ln Ω as a
 //! certified ball, the temperature from the discrete derivative of ln Ω,
 //! and at a few energies the canonical ensemble at that temperature. The
-//! printed table is made in [`crate::report`].
+//! printed table is made in `report/` (above this module).
 
 use super::collection::{Omega, Statistics};
 use super::ensemble::canonical_at;

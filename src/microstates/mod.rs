@@ -2,7 +2,7 @@
 //! is numbers: exact counts (`BigUint`), exact energies (`BigRational`),
 //! certified values ([`Certified`](crate::sum::Certified)) and, where a
 //! value is an uncertified approximation, MPFR or `f64` numbers labelled
-//! so. The printed answers are made from them in [`crate::report`].
+//! so. The printed answers are made from them in `report/` (above this module).
 //!
 //! - [`microstates`] and [`count_on_grid`]: the number of microstates
 //!   Ω(E, N) of N labelled particles, bosons or fermions in one spectrum,
