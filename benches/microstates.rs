@@ -7,11 +7,10 @@
 use criterion::{criterion_group, criterion_main, Criterion};
 use std::hint::black_box;
 use zsum::exact::parse_rational;
-use zsum::microstates::{
-    beyer_swinehart, ensemble_point, microstates, parse_modes, EinsteinReport, Statistics,
-};
+use zsum::microstates::{beyer_swinehart, ensemble_point, microstates, parse_modes, Statistics};
 use zsum::models::oscillator::HarmonicModes;
 use zsum::models::ParticleInBox;
+use zsum::report::EinsteinReport;
 use zsum::spectrum::Budget;
 use zsum::sum::Temperature;
 use zsum::units::EnergyUnit;

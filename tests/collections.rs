@@ -263,7 +263,7 @@ fn recursion_matches_brute_force() {
                     ensemble_point(&list, n as u64, stats, &Temperature::Kelvin(r(t)), 12).unwrap();
                 assert!(p.certified);
                 let want = brute_ln_q(n, stats, t.parse().unwrap());
-                let got: f64 = p.ln_q.parse().unwrap();
+                let got = p.ln_q.to_f64();
                 assert!(
                     (got - want).abs() < 1e-9 * want.abs().max(1.0),
                     "N = {n} {stats:?} T = {t}: {got} vs {want}"
@@ -288,11 +288,7 @@ fn fermions_beyond_a_finite_spectrum_are_refused() {
     .unwrap();
     // All 12 filled: one state, Q = e^{-ΣE/kT}, ΣE = 52 K.
     let want = -52.0 / 3.0;
-    assert!(
-        (p.ln_q.parse::<f64>().unwrap() - want).abs() < 1e-8,
-        "{}",
-        p.ln_q
-    );
+    assert!((p.ln_q.to_f64() - want).abs() < 1e-8, "{:?}", p.ln_q);
     let e = ensemble_point(
         &list,
         13,
@@ -323,8 +319,8 @@ fn harmonic_trap_closed_forms() {
                 ensemble_point(&trap, n, Statistics::Bose, &Temperature::Kelvin(r(t)), 14).unwrap();
             let pf = ensemble_point(&trap, n, Statistics::Fermi, &Temperature::Kelvin(r(t)), 14)
                 .unwrap();
-            let lb: f64 = pb.ln_q.parse().unwrap();
-            let lf: f64 = pf.ln_q.parse().unwrap();
+            let lb = pb.ln_q.to_f64();
+            let lf = pf.ln_q.to_f64();
             let want_f = ln_prod + (n * (n - 1) / 2) as f64 * x.ln();
             assert!(
                 (lb - ln_prod).abs() < 1e-12 * ln_prod.abs().max(1.0),
@@ -349,7 +345,7 @@ fn high_temperature_approaches_boltzmann_counting() {
         for kt in ["100", "1000", "10000"] {
             let p =
                 ensemble_point(&cube, 6, stats, &Temperature::ThermalEnergy(r(kt)), 10).unwrap();
-            let e: f64 = p.boltzmann_error_q.parse().unwrap();
+            let e = p.boltzmann_error_q.to_f64();
             assert!(e.abs() < last, "{stats:?} kT = {kt}: {e}");
             last = e.abs();
         }
@@ -436,5 +432,142 @@ fn fermion_cancellation_raises_precision() {
     assert!(pf.certified);
     assert!(pf.cancelled_bits > 20, "{}", pf.cancelled_bits);
     let want = zsum::sum::float_to_decimal(&ln, 0.0, 0.0, 25).0;
-    assert_eq!(pf.ln_q, want);
+    assert_eq!(pf.ln_q.decimal(25).unwrap(), want);
+}
+
+/// The microcanonical numbers, as a library user gets them: for an Einstein
+/// solid (N oscillators of one quantum, labelled) Ω(q) = C(q + N − 1, q)
+/// against Pascal's rule, the S/k ball holds ln Ω (summed here in 300-bit
+/// MPFR from the exact count), and the central-difference kT equals
+/// 2/ln(Ω(q + 1)/Ω(q − 1)) = 2/ln((q + N)(q + N − 1)/(q(q + 1))) quanta.
+/// At the compared energy the canonical mean energy is N/(e^β − 1) quanta
+/// (standard result) at the rounded β the comparison reports.
+#[test]
+fn microcanonical_numbers_for_an_einstein_solid() {
+    use rug::Float;
+    use zsum::microstates::microcanonical;
+    let n = 6u64;
+    let o = microstates(
+        &unit_osc(),
+        n,
+        Statistics::Distinct,
+        &r("40"),
+        None,
+        &Budget::default(),
+    )
+    .unwrap();
+    let m = microcanonical(&unit_osc(), o, &r("40"), 1, 12).unwrap();
+    assert_eq!(m.rows.len(), 41);
+    assert_eq!((m.particles(), m.statistics()), (n, Statistics::Distinct));
+    for row in &m.rows {
+        let q = row.steps as usize;
+        let want = pascal(q + n as usize - 1, q);
+        assert_eq!(m.count(row), &want, "q = {q}");
+        assert_eq!(m.energy(row), r(&q.to_string()));
+        let exact = Float::with_val(
+            300,
+            rug::Integer::from_str_radix(&want.to_string(), 10).unwrap(),
+        );
+        let ln = exact.ln();
+        let (lo, hi) = row.s_over_k.interval();
+        assert!(lo <= ln && ln <= hi, "q = {q}");
+        if (1..40).contains(&q) {
+            let (qf, nf) = (q as f64, n as f64);
+            let kt = 2.0 / ((qf + nf) * (qf + nf - 1.0) / (qf * (qf + 1.0))).ln();
+            let got = row.kt.as_ref().unwrap().to_f64();
+            assert!((got - kt).abs() < 1e-12 * kt, "q = {q}: {got} against {kt}");
+        }
+    }
+    let compared: Vec<_> = m.rows.iter().filter_map(|r| r.canonical.as_ref()).collect();
+    assert_eq!(compared.len(), 1);
+    let c = compared[0];
+    let beta = num_traits::ToPrimitive::to_f64(&c.beta).unwrap();
+    let u = n as f64 / beta.exp_m1();
+    assert!(
+        (c.u.to_f64() - u).abs() < 1e-10 * u,
+        "{:?} against {u}",
+        c.u
+    );
+}
+
+/// The ensemble sweep's numbers: every ln Q_N ball holds the closed form
+/// for bosons in a 1D harmonic trap, ln Q_N = −Σ_{j=1}^{N} ln(1 − x^j),
+/// x = e^{−1/T} (standard result), evaluated here in 300-bit MPFR; the
+/// crossing found brackets the tolerance: the Boltzmann error, computed
+/// afresh, exceeds it just below and not just above.
+#[test]
+fn ensemble_sweep_numbers_hold_the_closed_form() {
+    use rug::Float;
+    use zsum::budget::Meter;
+    use zsum::microstates::ensemble_sweep;
+    let trap = unit_osc();
+    let n = 4u64;
+    let grid = [r("0.5"), r("3"), r("40")];
+    let e = ensemble_sweep(
+        &trap,
+        n,
+        Statistics::Bose,
+        &grid,
+        true,
+        15,
+        &r("0.2"),
+        &Meter::unlimited(),
+    )
+    .unwrap();
+    assert_eq!(e.points.len(), 3);
+    for (p, t) in e.points.iter().zip(["0.5", "3", "40"]) {
+        assert_eq!(p.temperature, Temperature::Kelvin(r(t)));
+        assert!(p.certified);
+        let x = Float::with_val(
+            300,
+            -Float::with_val(300, 1) / Float::with_val(300, t.parse::<f64>().unwrap()),
+        )
+        .exp();
+        let mut ln = Float::with_val(300, 0);
+        for j in 1..=n as u32 {
+            let xj = Float::with_val(300, rug::ops::Pow::pow(&x, j));
+            ln -= Float::with_val(300, 1 - xj).ln();
+        }
+        let (lo, hi) = p.ln_q.interval();
+        assert!(lo <= ln && ln <= hi, "T = {t}");
+        // S/k = ln Q + U/kT, as balls.
+        let s = p.ln_q.add(&p.u_over_kt);
+        assert_eq!(s.decimal(15), p.s_over_k.decimal(15));
+    }
+    assert_eq!(e.crossings.len(), 1);
+    let cross = &e.crossings[0];
+    assert!(cross.exceeds_below);
+    let err = |t: f64| {
+        let tr = num_rational::BigRational::from_float(t).unwrap();
+        zsum::microstates::ensemble_point(&trap, n, Statistics::Bose, &Temperature::Kelvin(tr), 10)
+            .unwrap()
+            .boltzmann_error_q
+            .to_f64()
+            .abs()
+    };
+    let t: f64 = num_traits::ToPrimitive::to_f64(&cross.temperature).unwrap();
+    assert!(err(t * 0.995) > 0.2 && err(t * 1.005) < 0.2, "T = {t}");
+}
+
+/// Levels on a grid too fine for the memory budget are refused by name,
+/// and the message names quantities (the cutoff, the memory budget), not
+/// command-line options: 1 K and 1.001 K above the ground share a grid of
+/// 1/1000 K, so a cutoff of 1000 K needs 10^6 energies.
+#[test]
+fn too_fine_a_grid_is_refused_naming_quantities() {
+    let list = LevelFile::parse("0 K 1\n1 K 1\n1.001 K 1\n", "fine").unwrap();
+    let e = microstates(
+        &list,
+        2,
+        Statistics::Distinct,
+        &r("1000"),
+        None,
+        &Budget::bytes(20_000_000),
+    )
+    .unwrap_err();
+    let m = e.message();
+    assert!(m.contains("common grid of 0.001 K"), "{m}");
+    assert!(m.contains("the level at 1.001 K"), "{m}");
+    assert!(m.contains("lower the cutoff"), "{m}");
+    assert!(!m.contains("--"), "{m}");
 }

@@ -280,7 +280,8 @@ fn free_rotor_extra_counts_integer_points() {
 /// known behaviour, from memory).
 #[test]
 fn whitten_rabinovitch_is_consistent_and_close_above_half_the_zero_point() {
-    use zsum::microstates::{whitten_rabinovitch, CensusErrorMap};
+    use zsum::microstates::whitten_rabinovitch;
+    use zsum::report::CensusErrorMap;
     let freqs: Vec<f64> = [
         3400.0, 3000.0, 3000.0, 1600.0, 1500.0, 1500.0, 1100.0, 1000.0, 1000.0, 900.0, 800.0,
         800.0, 400.0, 400.0, 400.0,
@@ -303,7 +304,8 @@ fn whitten_rabinovitch_is_consistent_and_close_above_half_the_zero_point() {
         &Budget::default(),
     )
     .unwrap();
-    let rep = CensusErrorMap::new(&c, "cm-1", 20, 6).unwrap();
+    let map = zsum::microstates::census_error_map(&c, 20).unwrap();
+    let rep = CensusErrorMap::new(&map, "cm-1", 6).unwrap();
     let mut far = 0;
     for row in &rep.rows {
         let ep: f64 = row.e_over_ez.parse().unwrap();
@@ -330,7 +332,7 @@ fn whitten_rabinovitch_is_consistent_and_close_above_half_the_zero_point() {
 /// 1e-9 of a rounding boundary).
 #[test]
 fn census_log10_column_is_correctly_rounded() {
-    use zsum::microstates::CensusReport;
+    use zsum::report::CensusReport;
     let rows = |modes: &str, up_to: &str| {
         let c = beyer_swinehart(
             &parse_modes(modes).unwrap(),
@@ -339,9 +341,7 @@ fn census_log10_column_is_correctly_rounded() {
             &Budget::default(),
         )
         .unwrap();
-        CensusReport::new(&c, "cm-1", &Budget::default())
-            .unwrap()
-            .rows
+        CensusReport::new(&c, "cm-1", &[]).rows
     };
     let one = rows("1", "999");
     assert_eq!(one[0].log10_sum, "0.0000");
@@ -377,7 +377,7 @@ fn harmonic_difference(n: u64, q: u64) -> num_rational::BigRational {
 #[test]
 fn einstein_temperature_is_the_exact_harmonic_difference() {
     use zsum::exact::format_sig;
-    use zsum::microstates::EinsteinReport;
+    use zsum::report::EinsteinReport;
     let c = pascal(620);
     for n in [2u64, 3, 7, 50, 300] {
         for digits in [10u32, 25] {
@@ -406,7 +406,7 @@ fn einstein_temperature_is_the_exact_harmonic_difference() {
 /// half to even; one oscillator has a flat ln Ω and an infinite temperature.
 #[test]
 fn einstein_table_settles_halfway_values_and_one_oscillator() {
-    use zsum::microstates::EinsteinReport;
+    use zsum::report::EinsteinReport;
     let rep = EinsteinReport::build(2, &r("7"), 1, &Budget::default()).unwrap();
     assert_eq!(rep.rows[3].beta_hw, "0.2");
     assert_eq!(rep.rows[3].kt_over_hw, "4");
@@ -435,7 +435,7 @@ fn einstein_table_settles_halfway_values_and_one_oscillator() {
 /// agrees with that O(1/q²) estimate to within 2%.
 #[test]
 fn einstein_temperature_approaches_stirling_and_the_central_difference() {
-    use zsum::microstates::EinsteinReport;
+    use zsum::report::EinsteinReport;
     let n = 1000u64;
     let rep = EinsteinReport::build(n, &r("1001"), 15, &Budget::default()).unwrap();
     let nf = n as f64;
@@ -469,19 +469,20 @@ fn einstein_temperature_approaches_stirling_and_the_central_difference() {
 #[test]
 fn einstein_canonical_holds_q_quanta_at_the_continuum_temperature() {
     use rug::Float;
-    use zsum::microstates::{einstein_canonical, EinsteinReport};
+    use zsum::microstates::einstein_canonical;
+    use zsum::report::EinsteinReport;
     for (n, q) in [(300u64, 1000u64), (1000, 200), (2, 5)] {
         let (nf, qf) = (n as f64, q as f64);
         let x = Float::with_val(300, Float::with_val(300, n) / q).ln_1p();
         let c = einstein_canonical(n, &x, 10).unwrap();
         assert_eq!(
-            c.u_over_hw,
+            c.u_over_hw.decimal(10).unwrap(),
             zsum::exact::format_sig(&r(&q.to_string()), 10),
             "N = {n}, q = {q}"
         );
         let occ = qf / nf;
         let stirling = nf * ((1.0 + occ) * (1.0 + occ).ln() - occ * occ.ln());
-        let s: f64 = c.s_over_k.parse().unwrap();
+        let s = c.s_over_k.to_f64();
         assert!((s / stirling - 1.0).abs() < 1e-9, "{s} against {stirling}");
     }
     let n = 1000u64;
@@ -498,4 +499,174 @@ fn einstein_canonical_holds_q_quanta_at_the_continuum_temperature() {
     // e^x beyond MPFR's exponent range: refused, not a panic or a hang.
     assert!(einstein_canonical(3, &Float::with_val(64, 1e30), 10).is_err());
     assert!(einstein_canonical(0, &Float::with_val(64, 1), 10).is_err());
+}
+
+/// The numbers behind the Einstein table, as a library user gets them: Ω
+/// in big integers against Pascal's triangle, summed over q against the
+/// hockey-stick identity Σ_{q≤Q} C(q + N − 1, q) = C(Q + N, Q) (standard
+/// result); every βħω ball holds the exact harmonic sum x = Σ 1/k,
+/// k = q + 1..q + N − 1, and kT/ħω is its reciprocal; the canonical quanta
+/// U/ħω = N/(e^x − 1) are at most N/x ≤ N(q + N − 1)/(N − 1), since
+/// e^x − 1 ≥ x and each of the N − 1 terms is at least 1/(q + N − 1).
+#[test]
+fn einstein_numbers_are_exact_counts_and_certified_balls() {
+    use zsum::microstates::einstein_table;
+    let c = pascal(100);
+    for n in [2u64, 5, 30] {
+        let t = einstein_table(n, &r("40"), 12, &Budget::default()).unwrap();
+        assert_eq!((t.oscillators, t.quanta_up_to, t.digits), (n, 40, 12));
+        let mut total = BigUint::from(0u32);
+        for row in &t.rows {
+            let q = row.quanta;
+            assert_eq!(
+                row.omega,
+                c[(q + n - 1) as usize][q as usize],
+                "N {n} q {q}"
+            );
+            total += &row.omega;
+            let h = harmonic_difference(n, q);
+            let exact = rug::Rational::from_str_radix(&h.to_string(), 10).unwrap();
+            let (lo, hi) = row.beta_hw.interval();
+            assert!(
+                lo <= exact && exact <= hi,
+                "N {n} q {q}: βħω ball misses {h}"
+            );
+            let kt = row.kt_over_hw.as_ref().unwrap().to_f64();
+            assert!((kt * row.beta_hw.to_f64() - 1.0).abs() < 1e-14);
+            let u = row.canonical.as_ref().unwrap().u_over_hw.to_f64();
+            let bound = (n * (q + n - 1)) as f64 / (n - 1) as f64;
+            assert!(u > 0.0 && u <= bound, "N {n} q {q}: U/ħω = {u}");
+            let ln_omega: f64 = (1..n).map(|i| ((q + i) as f64 / i as f64).ln()).sum();
+            assert!((row.s_over_k.to_f64() - ln_omega).abs() <= 1e-12 * ln_omega.max(1.0));
+        }
+        assert_eq!(total, c[(40 + n) as usize][40], "N {n}");
+    }
+    // One oscillator: Ω = 1 at every q and an infinite temperature.
+    let one = einstein_table(1, &r("3"), 10, &Budget::default()).unwrap();
+    assert!(one.rows.iter().all(|r| r.omega == BigUint::from(1u32)
+        && r.kt_over_hw.is_none()
+        && r.canonical.is_none()
+        && r.beta_hw.to_f64() == 0.0));
+}
+
+/// The census as one library call, used for its numbers: one mode of w
+/// steps has exactly one state at every multiple of w (its generating
+/// function 1/(1 − x^w)), so N(E) = ⌊E/w⌋ + 1 and ρ = 1/step there; with a
+/// second, identical mode the count at k·w is k + 1 (C(k + 1, 1)). The
+/// certified log₁₀ N(E) holds log₁₀ of the exact count.
+#[test]
+fn census_numbers_for_one_and_two_modes() {
+    use zsum::microstates::census;
+    use zsum::units::EnergyUnit;
+    let wn = EnergyUnit::Wavenumber;
+    let c = census(
+        &parse_modes("700").unwrap(),
+        &r("50"),
+        &r("10000"),
+        &wn,
+        &[],
+        &Budget::default(),
+    )
+    .unwrap();
+    assert_eq!(c.rounded, [(14, 1)]);
+    let rows: Vec<_> = c.rows().collect();
+    assert_eq!(rows.len(), 10000 / 700 + 1);
+    for (i, e) in rows.iter().enumerate() {
+        assert_eq!(e.steps, 14 * i as u64);
+        assert_eq!(e.energy, r(&(700 * i).to_string()));
+        assert_eq!(e.in_step, BigUint::from(1u32));
+        assert_eq!(e.sum_of_states, BigUint::from(i as u64 + 1));
+        assert_eq!(e.density, r("1/50"));
+        let want = ((i + 1) as f64).log10();
+        assert!((e.log10_sum.to_f64() - want).abs() < 1e-12, "{i}");
+    }
+    let two = census(
+        &parse_modes("700x2").unwrap(),
+        &r("50"),
+        &r("10000"),
+        &wn,
+        &[],
+        &Budget::default(),
+    )
+    .unwrap();
+    for e in two.rows() {
+        let k = e.steps / 14;
+        assert_eq!(e.in_step, BigUint::from(k + 1));
+        // Σ_{j≤k} (j + 1) = (k + 1)(k + 2)/2.
+        assert_eq!(e.sum_of_states, BigUint::from((k + 1) * (k + 2) / 2));
+    }
+}
+
+/// Convolving a spectrum through `census` gives the same counts as the
+/// Stein–Rabinovitch step by hand, and the report names what was
+/// convolved in.
+#[test]
+fn census_convolves_each_extra_spectrum() {
+    use zsum::microstates::{census, stein_rabinovitch_spectrum};
+    use zsum::models::rotor::LinearRotor;
+    use zsum::spectrum::Spectrum;
+    use zsum::units::EnergyUnit;
+    let wn = EnergyUnit::Wavenumber;
+    let rotor = LinearRotor::rigid(r("1"), wn.clone()).unwrap();
+    let modes = parse_modes("5,9x2").unwrap();
+    let extras: [&dyn Spectrum; 2] = [&rotor, &rotor];
+    let c = census(&modes, &r("1"), &r("60"), &wn, &extras, &Budget::default()).unwrap();
+    let mut by_hand = beyer_swinehart(&modes, &r("1"), &r("60"), &Budget::default()).unwrap();
+    for _ in 0..2 {
+        by_hand = stein_rabinovitch_spectrum(by_hand, &rotor, &wn, &Budget::default()).unwrap();
+    }
+    assert_eq!(c, by_hand);
+    // The two rotors alone (modes far above): the states of two rotors up
+    // to E, each level J with 2J + 1 states at J(J + 1).
+    let far = census(
+        &parse_modes("1000").unwrap(),
+        &r("1"),
+        &r("30"),
+        &wn,
+        &extras,
+        &Budget::default(),
+    )
+    .unwrap();
+    let mut want = 0u64;
+    for j1 in 0u64..6 {
+        for j2 in 0u64..6 {
+            if j1 * (j1 + 1) + j2 * (j2 + 1) <= 30 {
+                want += (2 * j1 + 1) * (2 * j2 + 1);
+            }
+        }
+    }
+    assert_eq!(far.sums()[30], BigUint::from(want));
+    let rep = zsum::report::CensusReport::new(&far, "cm-1", &extras);
+    assert_eq!(rep.convolved.len(), 2);
+    assert_eq!(rep.convolved[0], rotor.describe());
+}
+
+/// The error map's numbers: exact sums C(k + 3, 3) for three modes of one
+/// quantum, exact E/E_z, and the approximation's relative error consistent
+/// with its own logarithm.
+#[test]
+fn error_map_numbers() {
+    use zsum::microstates::census_error_map;
+    let c = beyer_swinehart(
+        &parse_modes("1000x3").unwrap(),
+        &r("1"),
+        &r("12500"),
+        &Budget::default(),
+    )
+    .unwrap();
+    let map = census_error_map(&c, 4).unwrap();
+    assert_eq!(
+        (map.zero_point.clone(), map.window.clone()),
+        (r("1500"), r("1000"))
+    );
+    let binom = pascal(20);
+    for p in &map.points {
+        let k = (p.steps / 1000) as usize;
+        assert_eq!(p.sum_exact, binom[k + 3][3]);
+        assert_eq!(p.e_over_ez, &p.energy / r("1500"));
+        let exact: f64 = p.sum_exact.to_string().parse().unwrap();
+        let rel = p.ln_sum_approx.exp() / exact - 1.0;
+        assert!((rel - p.sum_rel_error.unwrap()).abs() < 1e-12);
+    }
+    assert!(census_error_map(&c, 0).is_err());
 }

@@ -933,17 +933,14 @@ fn hydrogen(a: HydrogenArgs) -> Result<Option<String>> {
 }
 
 fn microstates_cmd(a: MicrostatesArgs) -> Result<Option<String>> {
-    use zsum::microstates::{microstates, EinsteinReport, MicroReport, Statistics};
+    use zsum::microstates::{einstein_unit, microstates, Statistics};
+    use zsum::report::{EinsteinReport, MicroReport};
     let digits = check_digits(a.digits)?;
     let budget = budgets(&a.memory_budget, &a.time_budget)?;
     let (path, stats) = match (&a.system, &a.stats) {
         (Some(path), Some(stats)) if !a.einstein => (path, Statistics::parse(stats)?),
         _ => {
-            let quanta = EnergyUnit::Natural {
-                symbol: "ħω".into(),
-                joules: None,
-            };
-            let up_to = cutoff_in(&a.up_to, &quanta)?;
+            let up_to = cutoff_in(&a.up_to, &einstein_unit())?;
             let report = EinsteinReport::build(u64::from(a.particles), &up_to, digits, &budget)?;
             return emit(render(&report, format(a.out.format))?, &a.out);
         }
@@ -965,12 +962,13 @@ fn microstates_cmd(a: MicrostatesArgs) -> Result<Option<String>> {
         &budget,
     )?;
     let cached = zsum::sum::Cached::new(&spectrum);
-    let report = MicroReport::build(&cached, &omega, &up_to, a.compare as usize, digits)?;
+    let report = MicroReport::build(&cached, omega, &up_to, a.compare as usize, digits)?;
     emit(render(&report, format(a.out.format))?, &a.out)
 }
 
 fn ensemble_cmd(a: EnsembleArgs) -> Result<Option<String>> {
-    use zsum::microstates::{check_particles, EnsembleReport, Statistics};
+    use zsum::microstates::{check_particles, Statistics};
+    use zsum::report::EnsembleReport;
     let stats = Statistics::parse(&a.stats)?;
     check_particles(u64::from(a.particles))?;
     let (grid, kelvin) = match (&a.t, &a.kt) {
@@ -1010,8 +1008,8 @@ fn ensemble_cmd(a: EnsembleArgs) -> Result<Option<String>> {
 }
 
 fn census(a: CensusArgs) -> Result<Option<String>> {
-    use zsum::microstates::{beyer_swinehart, parse_modes, stein_rabinovitch_spectrum};
-    use zsum::microstates::{CensusErrorMap, CensusReport};
+    use zsum::microstates::{census, parse_modes};
+    use zsum::report::{CensusErrorMap, CensusReport};
     let unit = EnergyUnit::parse(&a.unit)?;
     let budget = budgets(&a.memory_budget, &a.time_budget)?;
     // Every file is read and checked before any counting.
@@ -1023,22 +1021,24 @@ fn census(a: CensusArgs) -> Result<Option<String>> {
             Box::new(LevelFile::read(path)?)
         });
     }
-    let mut c = beyer_swinehart(
-        &parse_modes(&a.modes)?,
-        &number("--step", &a.step)?,
-        &number("--up-to", &a.up_to)?,
-        &budget,
-    )?;
+    let extras: Vec<&dyn Spectrum> = extras.iter().map(|s| &**s).collect();
+    let modes = parse_modes(&a.modes)?;
+    let step = number("--step", &a.step)?;
+    let up_to = number("--up-to", &a.up_to)?;
     if let Some(points) = a.error_map {
-        let report = CensusErrorMap::new(&c, &a.unit, points as usize, a.digits)?;
+        let report = CensusErrorMap::build(
+            &modes,
+            &step,
+            &up_to,
+            &a.unit,
+            points as usize,
+            a.digits,
+            &budget,
+        )?;
         return emit(render(&report, format(a.out.format))?, &a.out);
     }
-    let mut names = Vec::new();
-    for spectrum in &extras {
-        c = stein_rabinovitch_spectrum(c, &**spectrum, &unit, &budget)?;
-        names.push(spectrum.describe());
-    }
-    let report = CensusReport::new(&c, &a.unit, &budget)?.with_convolved(names);
+    let counts = census(&modes, &step, &up_to, &unit, &extras, &budget)?;
+    let report = CensusReport::new(&counts, &a.unit, &extras);
     emit(render(&report, format(a.out.format))?, &a.out)
 }
 

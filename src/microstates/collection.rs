@@ -856,8 +856,8 @@ fn finest_level_error(levels: &LevelList, grid: &Grid, bins: &BigInt, budget: &B
     Error::budget(format!(
         "the levels lie on a common grid of {} {unit} (the level at {finest} sets how fine), so \
          the count needs {bins} energies per particle number, more than the memory budget of {} \
-         allows; the energies cannot be put on a coarser integer grid exactly: lower --up-to, or \
-         round the levels in the file to a coarser grid",
+         allows; the energies cannot be put on a coarser integer grid exactly: lower the cutoff, \
+         or round the levels to a coarser grid",
         energy_text(&grid.step),
         human_bytes(budget.limit() as f64)
     ))

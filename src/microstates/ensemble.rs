@@ -22,14 +22,14 @@
 //! (Ziv's strategy); the precision used and the bits lost are reported.
 
 use super::collection::{check_particles, lowest_filling, Statistics};
+use crate::classical::bisect;
 use crate::error::{Error, Result};
 use crate::spectrum::Spectrum;
-use crate::sum::ball::{mag, up_add, Ball, RP};
-use crate::sum::{float_to_decimal, precision_for, stats_of, to_rug, Stats, Temperature};
+use crate::sum::ball::{mag, up_add, up_mul, Ball, RP};
+use crate::sum::{ball_decimal, precision_for, stats_of, to_rug, Certified, Stats, Temperature};
 use num_rational::BigRational;
 use num_traits::ToPrimitive;
 use rug::Float;
-use serde::Serialize;
 
 /// The most bits the fermion recursion may cancel before it is refused.
 const MAX_LOST_BITS: u32 = 8192;
@@ -306,43 +306,43 @@ fn recursion(qs: &[Jet], stats: Statistics, prec: u32) -> (Jet, u32) {
     (q.pop().expect("Q_N"), lost.ceil().max(0.0) as u32)
 }
 
-/// One temperature of `zsum ensemble`: the N-particle functions and the
-/// Boltzmann and labelled approximations' errors.
-#[derive(Debug, Clone, Serialize)]
-pub struct EnsemblePoint {
-    /// The temperature as given.
-    #[serde(rename = "T")]
-    pub t: String,
+/// The N-particle functions at one temperature, with the Boltzmann and
+/// labelled approximations and their errors: certified balls where the
+/// value is exact statistics, MPFR numbers at the working precision
+/// (centres only, not certified) for the errors of the approximations.
+#[derive(Debug, Clone)]
+pub struct EnsembleValues {
+    /// The temperature.
+    pub temperature: Temperature,
     /// ln Q_N, exact statistics.
-    pub ln_q: String,
+    pub ln_q: Certified,
     /// U/kT of the N particles.
-    #[serde(rename = "U_over_kT")]
-    pub u_over_kt: String,
+    pub u_over_kt: Certified,
     /// Cv/k of the N particles.
-    #[serde(rename = "Cv_over_k")]
-    pub cv_over_k: String,
+    pub cv_over_k: Certified,
     /// S/k of the N particles.
-    #[serde(rename = "S_over_k")]
-    pub s_over_k: String,
-    /// ln(q^N/N!).
-    pub ln_q_boltzmann: String,
-    /// ln(q^N).
-    pub ln_q_labelled: String,
-    /// (q^N/N!)/Q_N − 1.
-    pub boltzmann_error_q: String,
-    /// Relative error of U from q^N/N! (or q^N: the same).
-    pub boltzmann_error_u: String,
-    /// Relative error of Cv from q^N/N! (or q^N: the same).
-    pub boltzmann_error_cv: String,
-    /// S/k from q^N/N! minus the exact S/k.
-    pub boltzmann_error_s: String,
-    /// q^N/Q_N − 1.
-    pub labelled_error_q: String,
+    pub s_over_k: Certified,
+    /// ln(q^N/N!), the Boltzmann count.
+    pub ln_q_boltzmann: Certified,
+    /// ln(q^N), the labelled count.
+    pub ln_q_labelled: Certified,
+    /// (q^N/N!)/Q_N − 1 (not certified; NaN where undefined).
+    pub boltzmann_error_q: Float,
+    /// Relative error of U from q^N/N! (or q^N: the same); not certified.
+    pub boltzmann_error_u: Float,
+    /// Relative error of Cv from q^N/N! (or q^N: the same); not certified.
+    pub boltzmann_error_cv: Float,
+    /// S/k from q^N/N! minus the exact S/k; not certified.
+    pub boltzmann_error_s: Float,
+    /// q^N/Q_N − 1; not certified.
+    pub labelled_error_q: Float,
+    /// The significant digits asked for.
+    pub digits: u32,
     /// Working precision, bits.
     pub precision_bits: u32,
     /// Bits the alternating fermion sum cancelled.
     pub cancelled_bits: u32,
-    /// Whether every exact value's digits are proved.
+    /// Whether ln Q, U/kT, Cv/k and S/k are proved to `digits` digits.
     pub certified: bool,
 }
 
@@ -361,7 +361,8 @@ pub struct EnsemblePoint {
 /// let p = ensemble_point(&trap, 2, Statistics::Bose, &Temperature::Kelvin(parse_rational("1")?), 12)?;
 /// let x = (-1f64).exp();
 /// let want = -((1.0 - x) * (1.0 - x * x)).ln();
-/// assert!((p.ln_q.parse::<f64>().unwrap() - want).abs() < 1e-11);
+/// assert!((p.ln_q.to_f64() - want).abs() < 1e-12);
+/// assert!(p.certified && p.ln_q.radius().to_f64() < 1e-13);
 /// # Ok::<(), zsum::Error>(())
 /// ```
 pub fn ensemble_point(
@@ -370,7 +371,7 @@ pub fn ensemble_point(
     stats: Statistics,
     temperature: &Temperature,
     digits: u32,
-) -> Result<EnsemblePoint> {
+) -> Result<EnsembleValues> {
     if !(1..=60).contains(&digits) {
         return Err(Error::invalid(
             "digits",
@@ -380,37 +381,43 @@ pub fn ensemble_point(
     }
     let beta = temperature.beta(&spectrum.unit())?;
     let c = canonical_at(spectrum, n, stats, &beta, digits)?;
-    let t_text = match temperature {
-        Temperature::Kelvin(t) | Temperature::ThermalEnergy(t) => {
-            crate::exact::exact_decimal(t, 40)
-        }
-    };
-    Ok(point_from(&c, n, t_text, digits))
+    Ok(values_of(&c, n, temperature.clone(), digits))
 }
 
-/// ln(q^N/N!), the Boltzmann count.
-fn ln_boltzmann(c: &Canonical, n: u64) -> Float {
+/// ln(q^N), the labelled count, as a ball at the working precision.
+fn ln_labelled(c: &Canonical, n: u64) -> Ball {
+    let ln_q = c.one.ln_q();
+    let r = up_mul(&ln_q.r, &Float::with_val(RP, n));
+    Ball::rounded(Float::with_val(c.prec, &ln_q.c * n), r)
+}
+
+/// ln(q^N/N!), the Boltzmann count, as a ball at the working precision.
+fn ln_boltzmann(c: &Canonical, n: u64) -> Ball {
     let p = c.prec;
     let ln_fact = Float::with_val(p, Float::with_val(p, n + 1).ln_gamma_ref());
-    Float::with_val(p, &c.one.ln_q().c * n) - ln_fact
+    ln_labelled(c, n).sub(&Ball::rounded(ln_fact, Float::new(RP)))
 }
 
 /// ln(q^N/N!) − ln Q_N: the log of the Boltzmann count's ratio to the exact.
 pub(crate) fn boltzmann_log_ratio(c: &Canonical, n: u64) -> Float {
-    Float::with_val(c.prec, ln_boltzmann(c, n) - &c.ln_q.c)
+    Float::with_val(c.prec, &ln_boltzmann(c, n).c - &c.ln_q.c)
 }
 
-/// The printed point of a canonical result.
-pub(crate) fn point_from(c: &Canonical, n: u64, t_text: String, digits: u32) -> EnsemblePoint {
+/// The values of a canonical result at `temperature`.
+pub(crate) fn values_of(
+    c: &Canonical,
+    n: u64,
+    temperature: Temperature,
+    digits: u32,
+) -> EnsembleValues {
     let p = c.prec;
-    let s = Float::with_val(p, &c.ln_q.c + &c.u.c);
-    let (ln_q, ok1) = float_to_decimal(&c.ln_q.c, c.ln_q.err(), 0.0, digits);
-    let (u, ok2) = float_to_decimal(&c.u.c, c.u.err(), 0.0, digits);
-    let (cv, ok3) = float_to_decimal(&c.cv.c, c.cv.err(), 0.0, digits);
-    let (s_t, ok4) = float_to_decimal(&s, c.ln_q.err() + c.u.err(), 0.0, digits);
-    let nf = Float::with_val(p, n);
-    let ln_lab = Float::with_val(p, &c.one.ln_q().c * &nf);
+    let s = c.ln_q.add(&c.u);
+    let certified = [&c.ln_q, &c.u, &c.cv, &s]
+        .iter()
+        .all(|b| ball_decimal(b, digits).1);
+    let ln_lab = ln_labelled(c, n);
     let ln_b = ln_boltzmann(c, n);
+    let nf = Float::with_val(p, n);
     let u_b = Float::with_val(p, &c.one.u().c * &nf);
     let cv_b = Float::with_val(p, &c.one.cv.c * &nf);
     let rel = |a: &Float, b: &Float| -> Float {
@@ -422,23 +429,156 @@ pub(crate) fn point_from(c: &Canonical, n: u64, t_text: String, digits: u32) -> 
     };
     let ratm1 =
         |ln_a: &Float| Float::with_val(p, Float::with_val(p, ln_a - &c.ln_q.c).exp_m1_ref());
-    let s_b = Float::with_val(p, &ln_b + &u_b);
-    let et = crate::report::text::error_text;
-    EnsemblePoint {
-        t: t_text,
-        ln_q,
-        u_over_kt: u,
-        cv_over_k: cv,
-        s_over_k: s_t,
-        ln_q_boltzmann: crate::report::text::value_text(&ln_b, digits),
-        ln_q_labelled: crate::report::text::value_text(&ln_lab, digits),
-        boltzmann_error_q: et(&ratm1(&ln_b)),
-        boltzmann_error_u: et(&rel(&u_b, &c.u.c)),
-        boltzmann_error_cv: et(&rel(&cv_b, &c.cv.c)),
-        boltzmann_error_s: et(&Float::with_val(p, &s_b - &s)),
-        labelled_error_q: et(&ratm1(&ln_lab)),
+    let s_b = Float::with_val(p, &ln_b.c + &u_b);
+    EnsembleValues {
+        temperature,
+        boltzmann_error_q: ratm1(&ln_b.c),
+        boltzmann_error_u: rel(&u_b, &c.u.c),
+        boltzmann_error_cv: rel(&cv_b, &c.cv.c),
+        boltzmann_error_s: Float::with_val(p, &s_b - &s.c),
+        labelled_error_q: ratm1(&ln_lab.c),
+        ln_q: Certified(c.ln_q.clone()),
+        u_over_kt: Certified(c.u.clone()),
+        cv_over_k: Certified(c.cv.clone()),
+        s_over_k: Certified(s),
+        ln_q_boltzmann: Certified(ln_b),
+        ln_q_labelled: Certified(ln_lab),
+        digits,
         precision_bits: p,
         cancelled_bits: c.lost_bits,
-        certified: ok1 && ok2 && ok3 && ok4,
+        certified,
     }
+}
+
+/// A temperature where the Boltzmann count q^N/N! crosses the tolerance.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct Crossing {
+    /// The temperature (kelvin, or kT in the spectrum's unit, as the grid
+    /// is), located to 4 significant digits: the end of the final bracket
+    /// on the side of the first temperature given (the colder).
+    pub temperature: BigRational,
+    /// Whether the error exceeds the tolerance below this temperature.
+    pub exceeds_below: bool,
+}
+
+/// Q_N over a temperature grid, with where q^N/N! fails.
+#[derive(Debug, Clone)]
+pub struct EnsembleSweep {
+    /// The statistics.
+    pub statistics: Statistics,
+    /// Number of particles.
+    pub particles: u64,
+    /// Whether the grid is of temperatures in kelvin (else of kT in the
+    /// spectrum's unit).
+    pub kelvin: bool,
+    /// The tolerance on the relative error of q^N/N! in Q.
+    pub tolerance: BigRational,
+    /// One point per temperature, in the order given.
+    pub points: Vec<EnsembleValues>,
+    /// Where |q^N/N! / Q − 1| crosses the tolerance, coldest first.
+    pub crossings: Vec<Crossing>,
+}
+
+/// Q_N of `n` particles of `stats` at every temperature of `grid` (kelvin
+/// if `kelvin`, else kT in the spectrum's unit), to `digits` digits, and
+/// the temperatures where q^N/N! crosses `tol` (relative error in Q). The
+/// temperatures are timed by `meter` (hottest, costliest, first), which
+/// refuses the rest once their projected time exceeds its budget.
+///
+/// ```
+/// use zsum::budget::Meter;
+/// use zsum::microstates::{ensemble_sweep, Statistics};
+/// use zsum::models::oscillator::HarmonicModes;
+/// use zsum::exact::parse_rational;
+/// use zsum::units::EnergyUnit;
+/// let r = |s: &str| parse_rational(s).unwrap();
+/// let trap = HarmonicModes::one_d(r("1"), false, EnergyUnit::Kelvin)?;
+/// let e = ensemble_sweep(&trap, 10, Statistics::Bose, &[r("1"), r("100"), r("10000")],
+///     true, 8, &r("0.01"), &Meter::unlimited())?;
+/// assert_eq!(e.points.len(), 3);
+/// // q^N/N! errs by about N(N − 1)/(4T) here, so by more than 1% below
+/// // roughly 2250 K.
+/// assert_eq!(e.crossings.len(), 1);
+/// assert!(e.crossings[0].exceeds_below);
+/// assert!(r("2000") < e.crossings[0].temperature && e.crossings[0].temperature < r("2500"));
+/// # Ok::<(), zsum::Error>(())
+/// ```
+#[allow(clippy::too_many_arguments)]
+pub fn ensemble_sweep(
+    spectrum: &dyn Spectrum,
+    n: u64,
+    stats: Statistics,
+    grid: &[BigRational],
+    kelvin: bool,
+    digits: u32,
+    tol: &BigRational,
+    meter: &crate::budget::Meter,
+) -> Result<EnsembleSweep> {
+    let temp = |t: &BigRational| {
+        if kelvin {
+            Temperature::Kelvin(t.clone())
+        } else {
+            Temperature::ThermalEnergy(t.clone())
+        }
+    };
+    let tol_f = Float::with_val(64, to_rug(tol));
+    let exceeds = |c: &Canonical| -> bool {
+        let e = Float::with_val(c.prec, boltzmann_log_ratio(c, n).exp_m1_ref());
+        *e.as_abs() > tol_f
+    };
+    let cached = crate::sum::Cached::new(spectrum);
+    // Memory: the recursion keeps Q_0..Q_N as balls on jets (under a
+    // kilobyte each at the working precision) and the answer a row per
+    // temperature (about a kilobyte of numbers, six balls and five MPFR
+    // values, and half a kilobyte of text).
+    crate::spectrum::Budget::default().check(
+        &format!("Q_N of {n} particles over {} temperatures", grid.len()),
+        n as f64 * 1024.0 + grid.len() as f64 * 1536.0,
+        "give fewer temperatures or particles",
+    )?;
+    // Hottest first: the costliest temperature is timed first.
+    let mut order: Vec<usize> = (0..grid.len()).collect();
+    order.sort_by(|&a, &b| grid[b].cmp(&grid[a]));
+    let mut slots = vec![None; grid.len()];
+    let mut states = Vec::with_capacity(grid.len());
+    for (count, &i) in order.iter().enumerate() {
+        let t = &grid[i];
+        let beta = temp(t).beta(&spectrum.unit())?;
+        let c = canonical_at(&cached, n, stats, &beta, digits)?;
+        states.push((t.clone(), exceeds(&c)));
+        slots[i] = Some(values_of(&c, n, temp(t), digits));
+        meter.at(count as f64 + 1.0)?;
+    }
+    let points: Vec<EnsembleValues> = slots.into_iter().flatten().collect();
+    let mut sorted = states;
+    sorted.sort_by(|a, b| a.0.cmp(&b.0));
+    sorted.dedup_by(|a, b| a.0 == b.0);
+    let mut crossings = Vec::new();
+    for w in sorted.windows(2) {
+        if w[0].1 == w[1].1 {
+            continue;
+        }
+        let x = bisect(
+            w[0].0.clone(),
+            w[1].0.clone(),
+            w[0].1,
+            |x| super::round_sig(x, 4),
+            |mid| {
+                let beta = temp(mid).beta(&spectrum.unit())?;
+                Ok(exceeds(&canonical_at(&cached, n, stats, &beta, 8)?))
+            },
+        )?;
+        crossings.push(Crossing {
+            temperature: x,
+            exceeds_below: w[0].1,
+        });
+    }
+    Ok(EnsembleSweep {
+        statistics: stats,
+        particles: n,
+        kelvin,
+        tolerance: tol.clone(),
+        points,
+        crossings,
+    })
 }

@@ -1,19 +1,26 @@
-//! Exact counts for collections of particles and modes.
+//! Exact counts for collections of particles and modes. Every answer here
+//! is numbers: exact counts (`BigUint`), exact energies (`BigRational`),
+//! certified values ([`Certified`](crate::sum::Certified)) and, where a
+//! value is an uncertified approximation, MPFR or `f64` numbers labelled
+//! so. The printed answers are made from them in `report/` (above this module).
 //!
 //! - [`microstates`] and [`count_on_grid`]: the number of microstates
 //!   Ω(E, N) of N labelled particles, bosons or fermions in one spectrum,
-//!   for every total energy up to a cutoff, in big integers; [`MicroReport`]
-//!   adds S = k ln Ω, the microcanonical temperature and the canonical
-//!   comparison.
-//! - [`ensemble_point`] and [`EnsembleReport`]: canonical Q_N of ideal
+//!   for every total energy up to a cutoff, in big integers;
+//!   [`microcanonical`] adds S = k ln Ω, the microcanonical temperature and
+//!   the canonical comparison.
+//! - [`ensemble_point`] and [`ensemble_sweep`]: canonical Q_N of ideal
 //!   bosons and fermions by the cycle recursion, certified, against q^N/N!
 //!   and q^N, with the temperature where q^N/N! breaks down.
 //! - [`beyer_swinehart`], [`stein_rabinovitch`], [`whitten_rabinovitch`]:
 //!   vibrational sums and densities of states, exactly and approximately;
-//!   [`CensusReport`] and [`CensusErrorMap`] lay them out (`zsum census`).
-//! - [`einstein_solid`]: C(q + N − 1, q); [`EinsteinReport`] tabulates the
+//!   [`census`] chains them (the count, then every extra degree of freedom
+//!   convolved in), [`StateCounts::rows`] lists the energies with states and
+//!   [`census_error_map`] compares the approximation with the count.
+//! - [`einstein_solid`]: C(q + N − 1, q); [`einstein_table`] tabulates the
 //!   Einstein solid by number of quanta, with the microcanonical temperature
-//!   from the exact derivative ψ(q + N) − ψ(q + 1) of ln Ω.
+//!   from the exact derivative ψ(q + N) − ψ(q + 1) of ln Ω, in the quantum
+//!   of [`einstein_unit`].
 //!
 //! The Beyer–Swinehart algorithm counts the states of independent harmonic
 //! modes on an energy grid of width `step`: starting from one state at zero
@@ -28,16 +35,22 @@ mod census;
 mod collection;
 mod einstein;
 mod ensemble;
-mod reports;
+mod microcanonical;
 mod vibration;
-pub use census::{CensusErrorMap, CensusErrorRow, CensusReport, CensusRow, RoundedMode};
+pub(crate) use census::round_to_decimals;
+pub use census::{census, census_error_map, CensusEntry, ErrorMap, ErrorMapPoint, LOG10_DECIMALS};
 pub use collection::{
     check_particles, count_on_grid, count_seconds, einstein_omega, microstates, table_bytes, Grid,
     Omega, Statistics, MAX_PARTICLES,
 };
-pub use einstein::{einstein_canonical, EinsteinCanonical, EinsteinReport, EinsteinRow};
-pub use ensemble::{ensemble_point, EnsemblePoint};
-pub use reports::{BoltzmannCrossing, EnsembleReport, MicroReport, MicroRow};
+pub use einstein::{
+    einstein_canonical, einstein_table, einstein_unit, EinsteinCanonical, EinsteinState,
+    EinsteinTable,
+};
+pub use ensemble::{ensemble_point, ensemble_sweep, Crossing, EnsembleSweep, EnsembleValues};
+pub use microcanonical::{
+    microcanonical, CanonicalComparison, MicroEnergy, Microcanonical, COMPARISON_DIGITS,
+};
 pub use vibration::{stein_rabinovitch, stein_rabinovitch_spectrum, whitten_rabinovitch};
 
 use crate::error::{Error, Result};
@@ -331,70 +344,42 @@ pub(crate) fn biguint_ball(x: &BigUint, prec: u32) -> crate::sum::ball::Ball {
     }
 }
 
-/// The ball `b` rounded to `decimals` decimal places, if every value in it
-/// rounds alike (`None` when the ball straddles a rounding boundary).
-pub(crate) fn fixed_decimals(b: &crate::sum::ball::Ball, decimals: u32) -> Option<String> {
-    use rug::float::Round;
-    use rug::Float;
-    let p = b.prec().max(64) + 16;
-    let scale = Float::with_val(p, rug::Integer::from(rug::Integer::u_pow_u(10, decimals)));
-    let end = |x: Float, round: Round| {
-        let scaled = Float::with_val_round(p, &x * &scale, round).0;
-        Float::with_val_round(p, scaled + 0.5f64, round)
-            .0
-            .floor()
-            .to_integer()
-    };
-    let lo = end(
-        Float::with_val_round(p, &b.c - &b.r, Round::Down).0,
-        Round::Down,
-    )?;
-    let hi = end(
-        Float::with_val_round(p, &b.c + &b.r, Round::Up).0,
-        Round::Up,
-    )?;
-    if lo != hi {
-        return None;
+/// `x` rounded to `digits` significant digits, half to even, exactly (zero
+/// stays zero).
+pub(crate) fn round_sig(x: &BigRational, digits: u32) -> BigRational {
+    use crate::exact::{decimal_exponent, pow10, round_half_even};
+    if x.is_zero() {
+        return x.clone();
     }
-    let neg = lo < 0;
-    let digits = lo.abs().to_string();
-    let d = decimals as usize;
-    let padded = format!(
-        "{}{digits}",
-        "0".repeat((d + 1).saturating_sub(digits.len()))
-    );
-    let (int, frac) = padded.split_at(padded.len() - d);
-    let body = if d == 0 {
-        int.to_string()
-    } else {
-        format!("{int}.{frac}")
-    };
-    Some(if neg { format!("-{body}") } else { body })
+    let a = x.abs();
+    let mut e = decimal_exponent(&a);
+    loop {
+        let shift = digits as i64 - 1 - e;
+        let scale = BigRational::from_integer(pow10(shift.unsigned_abs() as u32));
+        let scaled = if shift >= 0 { &a * &scale } else { &a / &scale };
+        let m = round_half_even(&scaled);
+        if m >= pow10(digits) {
+            // Rounding carried into a new digit (e.g. 9.99 -> 10.0).
+            e += 1;
+            continue;
+        }
+        let m = BigRational::from_integer(m);
+        let r = if shift >= 0 { m / scale } else { m * scale };
+        return if x.is_negative() { -r } else { r };
+    }
 }
 
-/// log₁₀ of a positive integer, correctly rounded to `decimals` decimal
-/// places: computed in ball arithmetic from the exact integer, the
-/// precision raised until both ends of the ball round alike (log₁₀ of an
-/// integer is never halfway between two roundings).
-pub(crate) fn log10_fixed(x: &BigUint, decimals: u32) -> String {
-    use crate::sum::ball::Ball;
-    if x.is_zero() {
-        return "-inf".into();
-    }
-    let mut prec = 96 + 2 * decimals;
-    loop {
-        let ln10 = rug::Float::with_val(prec, rug::Float::with_val(prec, 10).ln_ref());
-        let value = biguint_ball(x, prec)
-            .ln()
-            .and_then(|l| l.div(&Ball::rounded(ln10, rug::Float::new(crate::sum::ball::RP))));
-        if let Some(text) = value.as_ref().and_then(|v| fixed_decimals(v, decimals)) {
-            return text;
-        }
-        if prec > 1 << 16 {
-            // Unreachable for x ≥ 1 (see above); the nearest rounding then.
-            let v = value.map(|v| v.c.to_f64()).unwrap_or(f64::NAN);
-            return format!("{v:.*}", decimals as usize);
-        }
-        prec *= 2;
-    }
+/// An MPFR number as the exact rational it is; `None` if not finite.
+pub(crate) fn float_rational(x: &rug::Float) -> Option<BigRational> {
+    use num_bigint::{BigInt, Sign};
+    let r = x.to_rational()?;
+    let big = |i: &rug::Integer| {
+        let sign = if i.is_negative() {
+            Sign::Minus
+        } else {
+            Sign::Plus
+        };
+        BigInt::from_bytes_le(sign, &i.to_digits::<u8>(rug::integer::Order::Lsf))
+    };
+    Some(BigRational::new(big(r.numer()), big(r.denom())))
 }

@@ -5,12 +5,16 @@
 //! only place text is made from numbers; it stands above every computing
 //! module and none of them imports it.
 
+mod census;
 mod compare;
 mod count;
 mod crossover;
+mod einstein;
+mod ensemble;
 #[cfg(feature = "plot")]
 pub mod figure;
 mod levels;
+mod micro;
 mod point;
 pub mod text;
 mod thermo;
@@ -20,6 +24,12 @@ pub use crossover::{CrossingRow, CrossoverReport};
 pub use levels::{BoxScale, LevelRow, LevelsReport, ListOptions, PhysicalScale, Quantum};
 pub use thermo::{ThermoReport, ThermoRow};
 
+pub use census::{
+    CensusErrorMap, CensusErrorRow, CensusReport, CensusRow, RoundedMode, MAX_APPROX_DIGITS,
+};
+pub use einstein::{EinsteinReport, EinsteinRow};
+pub use ensemble::{BoltzmannCrossing, EnsemblePoint, EnsembleReport};
+pub use micro::{MicroReport, MicroRow};
 pub use point::ThermoPoint;
 
 pub use crate::exact::{check_digits, APPROX_DIGITS, DEFAULT_DIGITS};
