@@ -29,7 +29,7 @@ use zsum::spectrum::Budget;
 use zsum::spectrum::Spectrum;
 use zsum::system::{parse_energy, parse_twice_spin, parse_weights, restrict_weights, System};
 use zsum::thermo::{parse_grid, Per, ThermoReport};
-use zsum::units::{parse_length_m, parse_mass_kg, EnergyUnit};
+use zsum::units::{parse_length_m, parse_mass_kg, parse_pressure, EnergyUnit};
 
 /// Runs a parsed command line; returns text for standard output (`None` when
 /// the output went to a file).
@@ -759,32 +759,6 @@ fn vib_model(text: &str) -> Result<VibModel> {
     }
 }
 
-/// Reads a pressure in Pa: a number, or with Pa, kPa, MPa, bar or atm.
-fn parse_pressure(text: &str) -> Result<BigRational> {
-    let t = text.trim();
-    let allowed = "a pressure: a number in Pa or with a unit, e.g. 100000, 1bar, 101.325kPa, 1atm";
-    let (num, factor) = [
-        ("MPa", "1000000"),
-        ("kPa", "1000"),
-        ("Pa", "1"),
-        ("bar", "100000"),
-        ("atm", "101325"),
-    ]
-    .iter()
-    .find_map(|(u, f)| t.strip_suffix(u).map(|n| (n.trim(), *f)))
-    .unwrap_or((t, "1"));
-    let v = parse_rational(num).map_err(|_| Error::parse("--p", text, allowed))?
-        * parse_rational(factor)?;
-    if v <= BigRational::zero() {
-        return Err(Error::invalid(
-            "--p",
-            text,
-            "the pressure must be greater than zero",
-        ));
-    }
-    Ok(v)
-}
-
 fn species_thermo(args: &[String]) -> Result<Option<String>> {
     use clap::{CommandFactory, FromArgMatches};
     let parsed = super::values_as_written(SpeciesThermo::command())
@@ -806,7 +780,8 @@ fn species_thermo(args: &[String]) -> Result<Option<String>> {
     let db = database(&a.species_file)?;
     let sp = db.find(&a.species)?;
     let options = MolarOptions {
-        pressure: parse_pressure(&a.p)?,
+        pressure: parse_pressure(&a.p)
+            .map_err(|e| Error::new(e.kind(), format!("{} (see --p)", e.message())))?,
         model: vib_model(&a.model)?,
         translation: match &a.box_side {
             None => Translation::SackurTetrode,
