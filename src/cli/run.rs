@@ -806,11 +806,8 @@ fn species_thermo(args: &[String]) -> Result<Option<String>> {
     )
     .observed(&observe);
     let table = MolarTable::build_metered(sp, &grid, &options, &meter)?;
-    let text = match (format(a.out.format), table.rows.as_slice()) {
-        (Format::Json, [one]) => zsum::export::to_json(one)?,
-        (f, _) => render(&table, f)?,
-    };
-    let out = emit(text, &a.out)?;
+    // JSON keeps one shape, a list of rows, whatever the grid's length.
+    let out = emit(render(&table, format(a.out.format))?, &a.out)?;
     for w in table.warnings() {
         eprintln!("zsum: warning: {w}");
     }
