@@ -57,7 +57,7 @@ pub fn run(cli: Cli) -> Result<Option<String>> {
         Command::Microstates(a) => microstates_cmd(a),
         Command::Ensemble(a) => ensemble_cmd(a),
         Command::Report { out } => {
-            let s = zsum::species::liquefier::write_report(&out)?;
+            let s = zsum::report::liquefier::write_report(&out)?;
             Ok(Some(s.lines.join("\n") + "\n"))
         }
         Command::Compare { model, opts } => compare(model, opts),

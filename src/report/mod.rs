@@ -2,6 +2,7 @@
 //! aligned table all write. Built by the library, so a library user gets
 //! exactly what the command line prints.
 
+pub mod liquefier;
 mod point;
 pub mod text;
 

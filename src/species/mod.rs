@@ -37,8 +37,7 @@
 //! [`ErrorKind::Degenerate`](crate::error::ErrorKind::Degenerate) error.
 
 pub mod hydrogen;
-pub mod liquefier;
-mod molar;
+pub(crate) mod molar;
 
 use crate::error::{Error, ErrorKind, Result};
 use crate::exact::parse_rational;

@@ -9,15 +9,13 @@
 //! dewar. Every figure is computed by zsum's exact sums; the page names the
 //! source or model of each.
 
-use super::hydrogen::HydrogenTable;
-use super::molar::{
-    degeneracy_cells, degeneracy_note, tables, Basis, Isomer, MolarOptions, MolarTable,
-};
-use super::Database;
 use crate::error::{Error, ErrorKind, Result};
 use crate::exact::parse_rational;
 use crate::export::{to_csv, write_atomic, Column, Tabular};
 use crate::plot::{render_svg, Panel, Series};
+use crate::species::hydrogen::HydrogenTable;
+use crate::species::molar::{degeneracy_cells, degeneracy_note};
+use crate::species::{tables, Basis, Database, Isomer, MolarOptions, MolarTable};
 use crate::thermo::parse_grid;
 use std::path::{Path, PathBuf};
 
