@@ -469,3 +469,45 @@ fn negative_entropies_never_print_unflagged() {
     assert!((h2.degeneracy.n_lambda3 / x - 1.0).abs() < 1e-12);
     assert!(h2.s.parse::<f64>().unwrap() > 0.0, "{}", h2.s);
 }
+
+/// Every constant of a species is an exact number in its unit beside the
+/// text it was written as: NO's ω_e is written `1904.20` cm⁻¹ in the
+/// built-in file (Huber–Herzberg 1979, the file's source), so the number
+/// is 190420/100 exactly while the card keeps the written trailing zero;
+/// the masses in u are exact (Ar 39.948 u, CIAAW 2013, the file's source).
+#[test]
+fn species_constants_are_exact_numbers_and_cards_keep_the_written_text() {
+    use zsum::report::{SpeciesCard, SpeciesList};
+    use zsum::species::Quantity;
+    let db = Database::builtin().unwrap();
+    let no = db.find("NO").unwrap();
+    let we = no
+        .constants()
+        .unwrap()
+        .into_iter()
+        .find(|c| c.quantity == Quantity::We)
+        .unwrap();
+    assert_eq!(we.value, parse_rational("1904.2").unwrap());
+    assert_eq!(we.written, "1904.20");
+    assert_eq!(we.unit, "cm-1");
+    let card = SpeciesCard::new(no).unwrap();
+    let row = card.constants.iter().find(|c| c.quantity == "we").unwrap();
+    assert_eq!(row.value, "1904.20");
+    // The nuclear spin of N2 (I = 1) is exact, and its weights 6 : 3.
+    let n2 = db.find("N2").unwrap().constants().unwrap();
+    let spin = n2
+        .iter()
+        .find(|c| matches!(c.quantity, Quantity::NuclearSpin { .. }))
+        .unwrap();
+    assert_eq!(spin.value, parse_rational("1").unwrap());
+    assert_eq!(
+        db.find("Ar").unwrap().mass_u(),
+        parse_rational("39.948").unwrap()
+    );
+    let list = SpeciesList::new(&db);
+    assert_eq!(list.species.len(), db.all().len());
+    assert!(list
+        .species
+        .iter()
+        .any(|s| s.name == "Ar" && s.mass == "39.948"));
+}

@@ -22,7 +22,7 @@ use zsum::models::rotor::{LinearRotor, SphericalTop, SymmetricTop, TopShape};
 use zsum::models::zeeman::ZeemanMultiplet;
 use zsum::models::ParticleInBox;
 use zsum::report::{check_digits, BoxScale, CountReport, LevelsReport};
-use zsum::report::{ListOptions, SpectrumLevelsReport};
+use zsum::report::{ListOptions, SpeciesCard, SpeciesList, SpectrumLevelsReport};
 use zsum::species::hydrogen::HydrogenTable;
 use zsum::species::{Basis, Database, Isomer, MolarOptions, MolarTable, Translation, VibModel};
 use zsum::spectrum::Budget;
@@ -818,7 +818,7 @@ fn species(c: SpeciesCommand) -> Result<Option<String>> {
     match c {
         SpeciesCommand::List { species_file, out } => {
             let db = database(&species_file)?;
-            emit(render(&db.list(), format(out.format))?, &out)
+            emit(render(&SpeciesList::new(&db), format(out.format))?, &out)
         }
         SpeciesCommand::Show {
             name,
@@ -826,7 +826,8 @@ fn species(c: SpeciesCommand) -> Result<Option<String>> {
             out,
         } => {
             let db = database(&species_file)?;
-            emit(render(&db.find(&name)?.show(), format(out.format))?, &out)
+            let card = SpeciesCard::new(db.find(&name)?)?;
+            emit(render(&card, format(out.format))?, &out)
         }
     }
 }

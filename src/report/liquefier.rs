@@ -219,12 +219,15 @@ pub fn build_report() -> Result<Vec<(String, String)>> {
     let sources = html_table(&SourceRows(
         db.all()
             .iter()
-            .flat_map(|sp| {
-                sp.show()
+            .map(|sp| {
+                Ok(super::SpeciesCard::new(sp)?
                     .constants
                     .into_iter()
-                    .map(move |c| [sp.name.clone(), c.quantity, c.value, c.unit, c.source])
+                    .map(move |c| [sp.name.clone(), c.quantity, c.value, c.unit, c.source]))
             })
+            .collect::<Result<Vec<_>>>()?
+            .into_iter()
+            .flatten()
             .collect(),
     ))
     .replace("<table>", "<table class=\"text\">");

@@ -4,9 +4,11 @@
 
 pub mod liquefier;
 mod point;
+mod species;
 pub mod text;
 
 pub use point::ThermoPoint;
+pub use species::{ConstantRow, SpeciesCard, SpeciesList, SpeciesSummary};
 
 use crate::error::Result;
 use crate::exact::{exact_decimal, format_sig, parse_rational, rational_string};
