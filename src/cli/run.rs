@@ -22,9 +22,10 @@ use zsum::models::rotor::{LinearRotor, SphericalTop, SymmetricTop, TopShape};
 use zsum::models::zeeman::ZeemanMultiplet;
 use zsum::models::ParticleInBox;
 use zsum::report::{check_digits, BoxScale, CountReport, LevelsReport};
+use zsum::report::{HydrogenTable, MolarTable};
 use zsum::report::{ListOptions, SpeciesCard, SpeciesList, SpectrumLevelsReport};
-use zsum::species::hydrogen::HydrogenTable;
-use zsum::species::{Basis, Database, Isomer, MolarOptions, MolarTable, Translation, VibModel};
+use zsum::species::hydrogen::HydrogenGrid;
+use zsum::species::{Basis, Database, Isomer, MolarGrid, MolarOptions, Translation, VibModel};
 use zsum::spectrum::Budget;
 use zsum::spectrum::Spectrum;
 use zsum::system::{parse_energy, parse_twice_spin, parse_weights, restrict_weights, System};
@@ -805,7 +806,7 @@ fn species_thermo(args: &[String]) -> Result<Option<String>> {
         &budget,
     )
     .observed(&observe);
-    let table = MolarTable::build_metered(sp, &grid, &options, &meter)?;
+    let table = MolarTable::new(&MolarGrid::compute_metered(sp, &grid, &options, &meter)?);
     // JSON keeps one shape, a list of rows, whatever the grid's length.
     let out = emit(render(&table, format(a.out.format))?, &a.out)?;
     for w in table.warnings() {
@@ -851,7 +852,9 @@ fn hydrogen(a: HydrogenArgs) -> Result<Option<String>> {
         &budget,
     )
     .observed(&observe);
-    let table = HydrogenTable::build_metered(sp, &grid, &isomer, &options, &meter)?;
+    let table = HydrogenTable::new(&HydrogenGrid::compute_metered(
+        sp, &grid, &isomer, &options, &meter,
+    )?);
     let out = emit(render(&table, format(a.out.format))?, &a.out)?;
     for w in table.warnings() {
         eprintln!("zsum: warning: {w}");

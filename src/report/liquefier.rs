@@ -9,13 +9,14 @@
 //! dewar. Every figure is computed by zsum's exact sums; the page names the
 //! source or model of each.
 
+use super::molar::{degeneracy_cells, degeneracy_note};
+use super::{HydrogenTable, MolarTable};
 use crate::error::{Error, ErrorKind, Result};
 use crate::exact::parse_rational;
 use crate::export::{to_csv, write_atomic, Column, Tabular};
 use crate::plot::{render_svg, Panel, Series};
-use crate::species::hydrogen::HydrogenTable;
-use crate::species::molar::{degeneracy_cells, degeneracy_note};
-use crate::species::{tables, Basis, Database, Isomer, MolarOptions, MolarTable};
+use crate::species::hydrogen::HydrogenGrid;
+use crate::species::{molar_grids, Basis, Database, Isomer, MolarOptions};
 use crate::thermo::parse_grid;
 use std::path::{Path, PathBuf};
 
@@ -111,7 +112,7 @@ fn panel(title: &str, y: &str, s: Vec<Series>) -> Panel {
 }
 
 /// One hydrogen figure: title, y label, and per curve its name, its column
-/// of [`HydrogenTable::series`] and its colour slot.
+/// of [`HydrogenGrid::series`] and its colour slot.
 type FigureSpec = (
     &'static str,
     &'static str,
@@ -133,7 +134,7 @@ pub fn figures() -> Result<[Vec<Panel>; 3]> {
     };
     let (low, high) = FIGURE_T;
     let grid = parse_grid("--T", &format!("log:{low}:{high}:{FIGURE_POINTS}"))?;
-    let curves = HydrogenTable::build(db.find("H2")?, &grid, &Isomer::Normal, &o)?;
+    let curves = HydrogenGrid::compute(db.find("H2")?, &grid, &Isomer::Normal, &o)?;
     let spec: [FigureSpec; 3] = [
         (
             "H2 heat capacity Cp: normal, equilibrium and para",
@@ -169,9 +170,14 @@ pub fn build_report() -> Result<Vec<(String, String)>> {
         ..MolarOptions::default()
     };
     let grid = parse_grid("--T", "10:400:5")?;
-    let curves = HydrogenTable::build(h2, &grid, &Isomer::Normal, &o)?;
+    let curves = HydrogenTable::new(&HydrogenGrid::compute(h2, &grid, &Isomer::Normal, &o)?);
     let nbp = parse_rational("20.28")?;
-    let at_nbp = HydrogenTable::build(h2, std::slice::from_ref(&nbp), &Isomer::Normal, &o)?;
+    let at_nbp = HydrogenTable::new(&HydrogenGrid::compute(
+        h2,
+        std::slice::from_ref(&nbp),
+        &Isomer::Normal,
+        &o,
+    )?);
     let row = &at_nbp.rows[0];
     let num = |s: &str| s.parse::<f64>().unwrap_or(f64::NAN);
     let q_mol = num(&row.conversion_heat);
@@ -181,14 +187,7 @@ pub fn build_report() -> Result<Vec<(String, String)>> {
     let para_eq = 1.0 - num(&row.equilibrium_ortho_fraction);
     let all: Vec<_> = db.all().iter().collect();
     let t298 = vec![parse_rational("298.15")?];
-    let species_tables: Vec<MolarTable> = tables(&all, &t298, &o)?;
-    let species_rows = MolarTable {
-        basis: o.basis,
-        rows: species_tables
-            .into_iter()
-            .flat_map(|t| t.rows.into_iter())
-            .collect(),
-    };
+    let species_rows = MolarTable::joined(&molar_grids(&all, &t298, &o)?, o.basis);
     let warnings: Vec<String> = species_rows
         .warnings()
         .into_iter()

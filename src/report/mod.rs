@@ -2,11 +2,18 @@
 //! aligned table all write. Built by the library, so a library user gets
 //! exactly what the command line prints.
 
+mod hydrogen;
 pub mod liquefier;
+mod molar;
 mod point;
 mod species;
 pub mod text;
 
+pub use hydrogen::{HydrogenRow, HydrogenTable};
+pub use molar::{
+    basis_name, basis_units, degeneracy_warnings, isomer_name, reference_text, MolarPoint,
+    MolarTable,
+};
 pub use point::ThermoPoint;
 pub use species::{ConstantRow, SpeciesCard, SpeciesList, SpeciesSummary};
 

@@ -37,7 +37,7 @@
 //! [`ErrorKind::Degenerate`](crate::error::ErrorKind::Degenerate) error.
 
 pub mod hydrogen;
-pub(crate) mod molar;
+mod molar;
 
 use crate::error::{Error, ErrorKind, Result};
 use crate::exact::parse_rational;
@@ -55,8 +55,8 @@ use serde::{Deserialize, Serialize};
 use std::path::Path;
 
 pub use molar::{
-    degeneracy_warnings, molar, reference_text, tables, Basis, Degeneracy, Isomer, MolarOptions,
-    MolarPoint, MolarTable, Translation, VibModel, DEGENERACY_G,
+    molar, molar_grids, Basis, Degeneracy, Isomer, MolarGrid, MolarOptions, MolarValues, Reference,
+    Translation, VibModel, DEGENERACY_G,
 };
 
 /// The built-in database text.
