@@ -620,3 +620,34 @@ fn printed_molar_digits_are_proved_by_the_radii() {
         }
     }
 }
+
+/// The hydrogen table's values are proved the same way: the conversion
+/// heats (differences of isomer enthalpies, which cancel at high T), the
+/// Cp curves and the equilibrium ortho fraction of H2 and D2, 10 K to
+/// 400 K, every printed digit within the radius at 8 and 10 digits.
+#[test]
+fn printed_hydrogen_digits_are_proved_by_the_radii() {
+    let db = Database::builtin().unwrap();
+    let grid = zsum::thermo::parse_grid("--T", "10:400:30").unwrap();
+    for (name, digits) in [("H2", 8), ("H2", 10), ("D2", 10)] {
+        let o = MolarOptions {
+            digits,
+            ..MolarOptions::default()
+        };
+        let g = HydrogenGrid::compute(db.find(name).unwrap(), &grid, &Isomer::Normal, &o).unwrap();
+        assert_eq!(g.rows.len(), 14);
+        for r in &g.rows {
+            for (what, v) in [
+                ("conversion heat", &r.conversion_heat),
+                ("per kg", &r.conversion_heat_per_kg),
+                ("to ground isomer", &r.heat_to_ground_isomer),
+                ("eq. ortho fraction", &r.equilibrium_ortho_fraction),
+                ("Cp normal", &r.cp_normal),
+                ("Cp equilibrium", &r.cp_equilibrium),
+                ("Cp para", &r.cp_para),
+            ] {
+                assert!(v.decimal(digits).is_some(), "{name} {} {what}: {v:?}", r.t);
+            }
+        }
+    }
+}

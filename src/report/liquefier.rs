@@ -1,37 +1,23 @@
-//! `zsum report`: a worked scenario written as one self-contained HTML page
-//! (inline SVG plots, tables, sources) plus CSV files.
-//!
-//! The scenario is invented: the small hydrogen liquefier of the fictional
-//! Harrow Fen cryogenics laboratory makes 10 L of liquid hydrogen an hour.
-//! Freshly liquefied hydrogen keeps the ortho fraction of the warm gas
-//! (normal, 3/4) unless a catalyst converts it; the conversion to the
-//! equilibrium mixture at 20.28 K then releases heat inside the storage
-//! dewar. Every figure is computed by zsum's exact sums; the page names the
-//! source or model of each.
+//! `zsum report`: the invented liquefier scenario
+//! ([`crate::species::liquefier`]) written as one self-contained HTML page
+//! (inline SVG plots, tables, sources) plus CSV files. The page names the
+//! source or model of every figure.
 
 use super::molar::{degeneracy_cells, degeneracy_note};
-use super::{HydrogenTable, MolarTable};
+use super::{HydrogenTable, MolarTable, SpeciesCard};
 use crate::error::{Error, ErrorKind, Result};
-use crate::exact::parse_rational;
 use crate::export::{to_csv, write_atomic, Column, Tabular};
 use crate::plot::{render_svg, Panel, Series};
-use crate::species::hydrogen::HydrogenGrid;
-use crate::species::{molar_grids, Basis, Database, Isomer, MolarOptions};
-use crate::thermo::parse_grid;
+use crate::species::liquefier::{
+    curves, Liquefier, BOILING_POINT_K, FIGURE_T, LATENT_HEAT_J_PER_MOL, LIQUID_DENSITY,
+    LITRES_PER_HOUR,
+};
+use crate::species::{Basis, Database};
 use std::path::{Path, PathBuf};
 
 /// The caution every report carries.
 pub const CAUTION: &str = "These are ideal-gas model values; design decisions follow certified \
                            property data, local codes and licensed engineering practice.";
-
-/// Liquid hydrogen production of the fictional liquefier, L/h.
-const LITRES_PER_HOUR: f64 = 10.0;
-/// Density of liquid para-rich hydrogen at the normal boiling point, kg/m³
-/// (common practice, from memory).
-const LIQUID_DENSITY: f64 = 70.8;
-/// Latent heat of vaporisation of hydrogen at the normal boiling point,
-/// about 0.9 kJ/mol (common practice, from memory).
-const LATENT_HEAT_J_PER_MOL: f64 = 900.0;
 
 /// What `zsum report` wrote.
 #[derive(Debug, Clone)]
@@ -89,15 +75,6 @@ fn series(name: &str, points: Vec<(f64, f64)>, colour: usize) -> Series {
     }
 }
 
-/// The normal boiling point of normal hydrogen at 1 atm, K (common
-/// practice, from memory), marked on every hydrogen figure.
-const BOILING_POINT_K: f64 = 20.28;
-
-/// The temperature range of the hydrogen figures, K.
-const FIGURE_T: (f64, f64) = (10.0, 400.0);
-/// How many temperatures of that range are computed, evenly spaced in log T.
-const FIGURE_POINTS: usize = 61;
-
 fn panel(title: &str, y: &str, s: Vec<Series>) -> Panel {
     Panel {
         title: title.into(),
@@ -112,7 +89,8 @@ fn panel(title: &str, y: &str, s: Vec<Series>) -> Panel {
 }
 
 /// One hydrogen figure: title, y label, and per curve its name, its column
-/// of [`HydrogenGrid::series`] and its colour slot.
+/// of [`crate::species::hydrogen::HydrogenGrid::series`] and its colour
+/// slot.
 type FigureSpec = (
     &'static str,
     &'static str,
@@ -127,14 +105,7 @@ type FigureSpec = (
 /// below 75 K), with the normal boiling point marked. One state keeps one
 /// colour across them.
 pub fn figures() -> Result<[Vec<Panel>; 3]> {
-    let db = Database::builtin()?;
-    let o = MolarOptions {
-        digits: 8,
-        ..MolarOptions::default()
-    };
-    let (low, high) = FIGURE_T;
-    let grid = parse_grid("--T", &format!("log:{low}:{high}:{FIGURE_POINTS}"))?;
-    let curves = HydrogenGrid::compute(db.find("H2")?, &grid, &Isomer::Normal, &o)?;
+    let curves = curves()?;
     let spec: [FigureSpec; 3] = [
         (
             "H2 heat capacity Cp: normal, equilibrium and para",
@@ -164,30 +135,18 @@ pub fn figures() -> Result<[Vec<Panel>; 3]> {
 /// Builds the report's files in memory: `(file name, contents)`.
 pub fn build_report() -> Result<Vec<(String, String)>> {
     let db = Database::builtin()?;
-    let h2 = db.find("H2")?;
-    let o = MolarOptions {
-        digits: 8,
-        ..MolarOptions::default()
-    };
-    let grid = parse_grid("--T", "10:400:5")?;
-    let curves = HydrogenTable::new(&HydrogenGrid::compute(h2, &grid, &Isomer::Normal, &o)?);
-    let nbp = parse_rational("20.28")?;
-    let at_nbp = HydrogenTable::new(&HydrogenGrid::compute(
-        h2,
-        std::slice::from_ref(&nbp),
-        &Isomer::Normal,
-        &o,
-    )?);
-    let row = &at_nbp.rows[0];
-    let num = |s: &str| s.parse::<f64>().unwrap_or(f64::NAN);
-    let q_mol = num(&row.conversion_heat);
-    let q_kg = num(&row.conversion_heat_per_kg);
-    let kg_per_h = LITRES_PER_HOUR * 1e-3 * LIQUID_DENSITY;
-    let load_w = kg_per_h * q_kg * 1000.0 / 3600.0;
-    let para_eq = 1.0 - num(&row.equilibrium_ortho_fraction);
-    let all: Vec<_> = db.all().iter().collect();
-    let t298 = vec![parse_rational("298.15")?];
-    let species_rows = MolarTable::joined(&molar_grids(&all, &t298, &o)?, o.basis);
+    let scenario = Liquefier::compute()?;
+    let curves = HydrogenTable::new(&scenario.hydrogen);
+    let species_rows = MolarTable::joined(&scenario.species, Basis::Mole);
+    let Liquefier {
+        kg_per_hour: kg_per_h,
+        equilibrium_para_fraction: para_eq,
+        conversion_heat: q_mol,
+        conversion_heat_per_kg: q_kg,
+        latent_heat_ratio,
+        load_w,
+        ..
+    } = scenario;
     let warnings: Vec<String> = species_rows
         .warnings()
         .into_iter()
@@ -219,7 +178,7 @@ pub fn build_report() -> Result<Vec<(String, String)>> {
         db.all()
             .iter()
             .map(|sp| {
-                Ok(super::SpeciesCard::new(sp)?
+                Ok(SpeciesCard::new(sp)?
                     .constants
                     .into_iter()
                     .map(move |c| [sp.name.clone(), c.quantity, c.value, c.unit, c.source]))
@@ -321,7 +280,7 @@ and latent heat: common practice, from memory.</li>
         qmol = q_mol,
         qkg = q_kg,
         latent = LATENT_HEAT_J_PER_MOL,
-        ratio = q_mol / LATENT_HEAT_J_PER_MOL,
+        ratio = latent_heat_ratio,
         load = load_w,
         note = esc(&note),
         species_count = species_rows.rows.len(),

@@ -37,6 +37,7 @@
 //! [`ErrorKind::Degenerate`](crate::error::ErrorKind::Degenerate) error.
 
 pub mod hydrogen;
+pub mod liquefier;
 mod molar;
 
 use crate::error::{Error, ErrorKind, Result};
