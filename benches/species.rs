@@ -3,7 +3,7 @@
 
 use criterion::{criterion_group, criterion_main, Criterion};
 use std::hint::black_box;
-use zsum::species::{tables, Database, MolarOptions};
+use zsum::species::{molar_grids, Database, MolarOptions};
 use zsum::thermo::parse_grid;
 
 fn all_species(c: &mut Criterion) {
@@ -19,7 +19,7 @@ fn all_species(c: &mut Criterion) {
     let mut g = c.benchmark_group("species");
     g.sample_size(10);
     g.bench_function("all_13_species_300_temperatures_20_digits", |b| {
-        b.iter(|| black_box(tables(&species, &grid, &o).unwrap()))
+        b.iter(|| black_box(molar_grids(&species, &grid, &o).unwrap()))
     });
     g.finish();
 }

@@ -330,6 +330,51 @@ pub fn parse_length_m(text: &str) -> Result<BigRational> {
     )
 }
 
+/// The pressure units [`parse_pressure`] reads, each with its size in
+/// pascals (exact: the bar is 10⁵ Pa and the standard atmosphere 101 325 Pa
+/// by definition). Longer names come first, so `kPa` is not read as `Pa`.
+pub const PRESSURE_UNITS: [(&str, u32); 5] = [
+    ("MPa", 1_000_000),
+    ("kPa", 1000),
+    ("Pa", 1),
+    ("bar", 100_000),
+    ("atm", 101_325),
+];
+
+/// Reads a pressure and returns it in pascals, exactly: a number in Pa, or
+/// a number followed by one of [`PRESSURE_UNITS`] (`MPa`, `kPa`, `Pa`,
+/// `bar`, `atm`), with or without a space. The pressure must be greater
+/// than zero.
+///
+/// ```
+/// use zsum::units::parse_pressure;
+/// use zsum::exact::parse_rational;
+/// assert_eq!(parse_pressure("1bar")?, parse_rational("100000")?);
+/// assert_eq!(parse_pressure("101.325 kPa")?, parse_pressure("1atm")?);
+/// assert_eq!(parse_pressure("0.1MPa")?, parse_pressure("100000")?);
+/// assert!(parse_pressure("0").unwrap_err().to_string().contains("pressure"));
+/// assert!(parse_pressure("1 psi").is_err());
+/// # Ok::<(), zsum::Error>(())
+/// ```
+pub fn parse_pressure(text: &str) -> Result<BigRational> {
+    let t = text.trim();
+    let allowed = "a pressure: a number in Pa or with a unit, e.g. 100000, 1bar, 101.325kPa, 1atm";
+    let (num, factor) = PRESSURE_UNITS
+        .iter()
+        .find_map(|(u, f)| t.strip_suffix(u).map(|n| (n.trim(), *f)))
+        .unwrap_or((t, 1));
+    let v = parse_rational(num).map_err(|_| Error::parse("pressure", text, allowed))?
+        * BigRational::from_integer(BigInt::from(factor));
+    if !v.is_positive() {
+        return Err(Error::invalid(
+            "pressure",
+            text,
+            "the pressure must be greater than zero",
+        ));
+    }
+    Ok(v)
+}
+
 /// The particle-in-a-box energy unit h²/(8 m L²) in joules, for mass `m`
 /// (kg) and reference side `L` (m), exactly.
 pub fn box_unit_joules(mass_kg: &BigRational, side_m: &BigRational) -> BigRational {

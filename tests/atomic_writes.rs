@@ -195,7 +195,7 @@ mod figures {
         let index = out.join("index.html");
         std::fs::write(&index, "old").unwrap();
         set_mode(&index, 0o600);
-        let summary = zsum::species::liquefier::write_report(&out).unwrap();
+        let summary = zsum::report::liquefier::write_report(&out).unwrap();
         assert_eq!(summary.files.len(), 4);
         assert_eq!(mode(&index), 0o600);
         let html = std::fs::read_to_string(&index).unwrap();

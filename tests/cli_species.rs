@@ -8,9 +8,12 @@ use common::{json, n_lambda3, refused, run, sig4};
 /// (from memory); Cp° = 29.124 J/(mol K) (same source, from memory).
 #[test]
 fn thermo_of_a_species_as_json() {
-    let v = json(&[
+    // JSON keeps one shape: a list of rows, one for one temperature.
+    let rows = json(&[
         "thermo", "N2", "--T", "298.15", "--per", "mole", "--format", "json",
     ]);
+    assert_eq!(rows.as_array().unwrap().len(), 1);
+    let v = &rows[0];
     assert_eq!(v["species"], "N2");
     assert_eq!(v["T"], "298.15");
     assert_eq!(v["p"], "100000");
@@ -20,7 +23,7 @@ fn thermo_of_a_species_as_json() {
     assert!((cp - 29.124).abs() < 0.01, "{cp}");
     assert_eq!(v["units"]["S"], "J/(mol K)");
     assert!(v["H_minus_H0"].as_str().is_some());
-    // A grid gives a list; 1 atm lowers S by R ln(1.01325).
+    // A grid gives a longer list; 1 atm lowers S by R ln(1.01325).
     let g = json(&[
         "thermo",
         "Ar",
@@ -33,7 +36,7 @@ fn thermo_of_a_species_as_json() {
     ]);
     assert_eq!(g.as_array().unwrap().len(), 3);
     let s_atm: f64 = g[2]["S"].as_str().unwrap().parse().unwrap();
-    let s_bar: f64 = json(&["thermo", "Ar", "--T", "300", "--format", "json"])["S"]
+    let s_bar: f64 = json(&["thermo", "Ar", "--T", "300", "--format", "json"])[0]["S"]
         .as_str()
         .unwrap()
         .parse()
@@ -176,7 +179,7 @@ fn report_writes_a_folder_or_refuses() {
 fn helium_at_4_2_k_is_flagged_in_every_format() {
     let want = n_lambda3(4.002602, 4.2, 1e5);
     assert!((want - 0.13).abs() < 0.01, "{want}");
-    let v = json(&["thermo", "He", "--T", "4.2", "--format", "json"]);
+    let v = &json(&["thermo", "He", "--T", "4.2", "--format", "json"])[0];
     let got = v["n_lambda3"].as_f64().unwrap();
     assert!((got / want - 1.0).abs() < 1e-12, "{got} vs {want}");
     assert_eq!(v["quantum_flag"], true);
@@ -231,7 +234,8 @@ fn helium_at_300_k_is_not_flagged_at_6_digits() {
         "thermo", "He", "--T", "300", "--digits", "6", "--format", "json",
     ]);
     assert!(out.status.success());
-    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let rows: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let v = &rows[0];
     assert!((v["n_lambda3"].as_f64().unwrap() / want - 1.0).abs() < 1e-12);
     assert_eq!(v["quantum_flag"], false);
     assert!(
@@ -244,7 +248,7 @@ fn helium_at_300_k_is_not_flagged_at_6_digits() {
     assert!(!text.contains("warning"), "{text}");
     assert!(!text.lines().last().unwrap().contains('*'), "{text}");
     let v = json(&["thermo", "He", "--T", "300", "--format", "json"]);
-    assert_eq!(v["quantum_flag"], true);
+    assert_eq!(v[0]["quantum_flag"], true);
 }
 
 /// Issue case: `zsum thermo He --T 0.1` printed S = −40.1 J/(mol K). nΛ³ ≈
@@ -313,7 +317,7 @@ fn degenerate_rows_are_refused_and_nothing_partial_is_written() {
     let v = json(&[
         "thermo", "He", "--T", "1", "--p", "10kPa", "--format", "json",
     ]);
-    let got = v["n_lambda3"].as_f64().unwrap();
+    let got = v[0]["n_lambda3"].as_f64().unwrap();
     assert!((got / n_lambda3(4.002602, 1.0, 1e4) - 1.0).abs() < 1e-12);
 }
 

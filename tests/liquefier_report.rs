@@ -4,7 +4,7 @@
 mod common;
 
 use common::n_lambda3;
-use zsum::species::liquefier::{build_report, write_report, CAUTION};
+use zsum::report::liquefier::{build_report, write_report, CAUTION};
 
 #[test]
 fn the_report_is_well_formed_and_complete() {

@@ -832,7 +832,7 @@ fn an_error_panel_with_nothing_resolved_says_so() {
 
 #[test]
 fn report_figures_keep_their_titles_inside_and_mark_the_boiling_point() {
-    use zsum::species::liquefier::{figures, FIGURE_SIZE};
+    use zsum::report::liquefier::{figures, FIGURE_SIZE};
     let dir = tempfile::tempdir().unwrap();
     for (i, panels) in figures().unwrap().iter().enumerate() {
         let what = format!("report figure {i}");

@@ -5,8 +5,9 @@ mod common;
 
 use common::{n_lambda3, sig4};
 use zsum::exact::parse_rational;
-use zsum::species::hydrogen::HydrogenTable;
-use zsum::species::{molar, Database, Isomer, MolarOptions, Translation, VibModel};
+use zsum::report::{HydrogenTable, MolarPoint};
+use zsum::species::hydrogen::HydrogenGrid;
+use zsum::species::{molar, Database, Isomer, MolarOptions, Reference, Translation, VibModel};
 
 fn s_at(name: &str, model: VibModel) -> f64 {
     let db = Database::builtin().unwrap();
@@ -20,7 +21,7 @@ fn s_at(name: &str, model: VibModel) -> f64 {
         &o,
     )
     .unwrap();
-    p.s.parse().unwrap()
+    p.s.to_f64()
 }
 
 /// CODATA Key Values for Thermodynamics (Cox, Wagman and Medvedev, 1989):
@@ -67,27 +68,32 @@ fn standard_entropies_match_codata_key_values() {
 fn hydrogen_conversion_at_the_boiling_point() {
     let db = Database::builtin().unwrap();
     let h2 = db.find("H2").unwrap();
-    let t = HydrogenTable::build(
+    let grid = HydrogenGrid::compute(
         h2,
         &[parse_rational("20.28").unwrap()],
         &Isomer::Normal,
         &MolarOptions::default(),
     )
     .unwrap();
-    let row = &t.rows[0];
-    let para = 1.0 - row.equilibrium_ortho_fraction.parse::<f64>().unwrap();
+    let point = &grid.rows[0];
+    let para = 1.0 - point.equilibrium_ortho_fraction.to_f64();
     assert!((para - 0.998).abs() < 0.0005, "para fraction {para}");
-    let q: f64 = row.conversion_heat.parse().unwrap();
+    let q = point.conversion_heat.to_f64();
     assert!((q - 1060.0).abs() < 10.0, "conversion heat {q} J/mol");
-    let per_kg: f64 = row.conversion_heat_per_kg.parse().unwrap();
+    let per_kg = point.conversion_heat_per_kg.to_f64();
     assert!((per_kg - 525.0).abs() < 5.0, "{per_kg} kJ/kg");
     assert!(q > 900.0);
+    // Every printed digit of the conversion heat is proved by its radius.
+    assert!(point.conversion_heat.decimal(grid.digits).is_some());
     // Normal hydrogen is frozen at 3/4 ortho.
+    let table = HydrogenTable::new(&grid);
+    let row = &table.rows[0];
     assert_eq!(row.ortho_fraction, "0.7500000000");
     // The ortho → para heat is close to R·E(J=1)/k with E(J=1) = 118.5 cm-1
     // (H2 J=1 term value, Huber–Herzberg, from memory) = 170.5 K R.
+    assert_eq!(point.ground_isomer, Isomer::Para);
     assert_eq!(row.ground_isomer, "para");
-    let o2p: f64 = row.heat_to_ground_isomer.parse().unwrap();
+    let o2p = point.heat_to_ground_isomer.to_f64();
     assert!((o2p - 8.314462618 * 170.5).abs() < 5.0, "{o2p}");
 }
 
@@ -99,22 +105,24 @@ fn hydrogen_conversion_at_the_boiling_point() {
 fn deuterium_converts_para_to_ortho_with_heat_released() {
     let db = Database::builtin().unwrap();
     let d2 = db.find("D2").unwrap();
-    let t = HydrogenTable::build(
+    let grid = HydrogenGrid::compute(
         d2,
         &[parse_rational("20").unwrap()],
         &Isomer::Normal,
         &MolarOptions::default(),
     )
     .unwrap();
-    let row = &t.rows[0];
+    let point = &grid.rows[0];
+    assert_eq!(point.ground_isomer, Isomer::Ortho);
+    let row = &HydrogenTable::new(&grid).rows[0];
     assert_eq!(row.ground_isomer, "ortho");
-    let heat: f64 = row.heat_to_ground_isomer.parse().unwrap();
+    let heat = point.heat_to_ground_isomer.to_f64();
     assert!(heat > 0.0, "{heat}");
     assert!((heat / (8.314462618 * 86.0) - 1.0).abs() < 0.03, "{heat}");
     // Normal D2 is frozen at 2/3 ortho; converting it to equilibrium
     // releases heat too.
     assert_eq!(row.ortho_fraction, "0.6666666667");
-    assert!(row.conversion_heat.parse::<f64>().unwrap() > 0.0);
+    assert!(point.conversion_heat.to_f64() > 0.0);
 }
 
 /// A frozen mixture keeps each isomer's own lowest level as H0: for normal
@@ -135,16 +143,21 @@ fn normal_hydrogen_is_measured_from_each_isomers_lowest_level() {
         molar(h2, &t, &o).unwrap()
     };
     let n = at(Isomer::Normal);
-    let h: f64 = n.h.parse().unwrap();
+    let h = n.h_minus_h0.to_f64();
     assert!((h / (2.5 * 8.314462618 * 20.0) - 1.0).abs() < 1e-3, "{h}");
-    assert!(n.g.parse::<f64>().unwrap() > 0.0, "{}", n.g);
-    assert!(n.reference.contains("own lowest level"), "{}", n.reference);
+    let g = n.minus_g_minus_h0_over_t.to_f64();
+    assert!(g > 0.0, "{g}");
+    assert_eq!(n.reference, Reference::EachIsomerLowestLevel);
+    let text = MolarPoint::new(&n).reference;
+    assert!(text.contains("own lowest level"), "{text}");
     let e = at(Isomer::Equilibrium);
-    assert_eq!(e.reference, "H0 = the lowest level");
+    assert_eq!(e.reference, Reference::LowestLevel);
+    assert_eq!(MolarPoint::new(&e).reference, "H0 = the lowest level");
     // The default state is normal.
     let d = molar(h2, &t, &MolarOptions::default()).unwrap();
-    assert_eq!(d.isomer.as_deref(), Some("normal"));
-    assert_eq!(d.s, n.s);
+    assert_eq!(d.isomer, Some(Isomer::Normal));
+    assert_eq!(MolarPoint::new(&d).isomer.as_deref(), Some("normal"));
+    assert_eq!(d.s.value(), n.s.value());
 }
 
 /// Normal and equilibrium hydrogen agree at high temperature (the
@@ -163,18 +176,18 @@ fn isomer_states_are_consistent() {
         molar(h2, &parse_rational(t).unwrap(), &o).unwrap()
     };
     let (n, e) = (at(Isomer::Normal, "1000"), at(Isomer::Equilibrium, "1000"));
-    let (sn, se): (f64, f64) = (n.s.parse().unwrap(), e.s.parse().unwrap());
+    let (sn, se) = (n.s.to_f64(), e.s.to_f64());
     assert!((sn - se).abs() < 1e-4, "{sn} vs {se}");
-    let (tn, te): (f64, f64) = (n.s_total.parse().unwrap(), e.s_total.parse().unwrap());
+    let (tn, te) = (n.s_total.to_f64(), e.s_total.to_f64());
     assert!((tn - te).abs() < 1e-4);
     let r = 8.314462618;
     assert!((te - se - r * 4f64.ln()).abs() < 1e-6);
-    let cp = |iso, t| at(iso, t).cp.parse::<f64>().unwrap();
+    let cp = |iso, t| at(iso, t).cp.to_f64();
     assert!((cp(Isomer::Normal, "300") / cp(Isomer::Equilibrium, "300") - 1.0).abs() < 1e-3);
     assert!(cp(Isomer::Para, "150") > 3.5 * r * 1.05);
     // fraction=0.75 is normal.
     let f = at(Isomer::Fraction(parse_rational("0.75").unwrap()), "50");
-    assert_eq!(f.cp, at(Isomer::Normal, "50").cp);
+    assert_eq!(f.cp.value(), at(Isomer::Normal, "50").cp.value());
     // Species without spin isomers refuse them.
     let o = MolarOptions {
         isomer: Some(Isomer::Para),
@@ -211,7 +224,10 @@ fn sackur_tetrode_matches_the_exact_box_sum() {
         },
     )
     .unwrap();
-    let (a, b): (f64, f64) = (st.s.parse().unwrap(), boxed.s.parse().unwrap());
+    let (a, b) = (
+        MolarPoint::new(&st).s.parse::<f64>().unwrap(),
+        MolarPoint::new(&boxed).s.parse::<f64>().unwrap(),
+    );
     assert_eq!(
         format!("{a:.7}"),
         format!("{b:.7}"),
@@ -224,7 +240,7 @@ fn sackur_tetrode_matches_the_exact_box_sum() {
     let lambda = h / (2.0 * std::f64::consts::PI * m * k * 300.0).sqrt();
     let want = -0.75 * 8.314462618 * lambda / 0.01;
     assert!(((b - a) / want - 1.0).abs() < 0.01, "{} vs {want}", b - a);
-    let (ha, hb): (f64, f64) = (st.h.parse().unwrap(), boxed.h.parse().unwrap());
+    let (ha, hb) = (st.h_minus_h0.to_f64(), boxed.h_minus_h0.to_f64());
     // H − H0 moves by +(3/4) RT Λ/L/(5/2): relative 1.5e-9 here.
     let want_h = 0.75 * lambda / 0.01 / 2.5;
     assert!(
@@ -304,7 +320,7 @@ const HE_U: f64 = 4.002602;
 /// H2: 2 × 1.00782503223 u (AME2016, from memory; the built-in value).
 const H2_U: f64 = 2.01565006446;
 
-fn at(name: &str, t: &str, o: &MolarOptions) -> zsum::Result<zsum::species::MolarPoint> {
+fn at(name: &str, t: &str, o: &MolarOptions) -> zsum::Result<zsum::species::MolarValues> {
     let db = Database::builtin().unwrap();
     molar(db.find(name).unwrap(), &parse_rational(t).unwrap(), o)
 }
@@ -334,7 +350,7 @@ fn helium_at_4_2_k_carries_its_degeneracy_and_is_flagged() {
     // c ≈ 0.0235: about one significant digit stands.
     assert_eq!(d.trusted_digits(), 1);
     // JSON carries the number and the flag.
-    let v: serde_json::Value = serde_json::to_value(&p).unwrap();
+    let v: serde_json::Value = serde_json::to_value(MolarPoint::new(&p)).unwrap();
     assert!((v["n_lambda3"].as_f64().unwrap() / want - 1.0).abs() < 1e-12);
     assert_eq!(v["quantum_flag"], true);
     assert_eq!(v["units"]["n_lambda3"], "dimensionless");
@@ -388,10 +404,10 @@ fn degenerate_gases_are_refused_with_a_typed_error() {
         .map(|t| parse_rational(t).unwrap())
         .collect();
     let e =
-        zsum::species::MolarTable::build(db.find("He").unwrap(), &grid, &MolarOptions::default())
+        zsum::species::MolarGrid::compute(db.find("He").unwrap(), &grid, &MolarOptions::default())
             .unwrap_err();
     assert_eq!(e.kind(), zsum::error::ErrorKind::Degenerate);
-    let e = HydrogenTable::build(
+    let e = HydrogenGrid::compute(
         db.find("H2").unwrap(),
         &[parse_rational("2").unwrap()],
         &Isomer::Normal,
@@ -438,8 +454,8 @@ fn negative_entropies_never_print_unflagged() {
                     continue;
                 };
                 seen += 1;
-                let s: f64 = p.s.parse().unwrap();
-                let st: f64 = p.s_total.parse().unwrap();
+                let s = p.s.to_f64();
+                let st = p.s_total.to_f64();
                 assert!(p.degeneracy.n_lambda3 < 1.0);
                 if s < 0.0 || st < 0.0 {
                     assert!(p.degeneracy.quantum_flag && p.degeneracy.negative_entropy);
@@ -467,5 +483,171 @@ fn negative_entropies_never_print_unflagged() {
     let x = n_lambda3(H2_U, 2.9, 1e5);
     assert!(x > 0.9 && x < 1.0, "{x}");
     assert!((h2.degeneracy.n_lambda3 / x - 1.0).abs() < 1e-12);
-    assert!(h2.s.parse::<f64>().unwrap() > 0.0, "{}", h2.s);
+    assert!(h2.s.to_f64() > 0.0, "{:?}", h2.s);
+}
+
+/// Every constant of a species is an exact number in its unit beside the
+/// text it was written as: NO's ω_e is written `1904.20` cm⁻¹ in the
+/// built-in file (Huber–Herzberg 1979, the file's source), so the number
+/// is 190420/100 exactly while the card keeps the written trailing zero;
+/// the masses in u are exact (Ar 39.948 u, CIAAW 2013, the file's source).
+#[test]
+fn species_constants_are_exact_numbers_and_cards_keep_the_written_text() {
+    use zsum::report::{SpeciesCard, SpeciesList};
+    use zsum::species::Quantity;
+    let db = Database::builtin().unwrap();
+    let no = db.find("NO").unwrap();
+    let we = no
+        .constants()
+        .unwrap()
+        .into_iter()
+        .find(|c| c.quantity == Quantity::We)
+        .unwrap();
+    assert_eq!(we.value, parse_rational("1904.2").unwrap());
+    assert_eq!(we.written, "1904.20");
+    assert_eq!(we.unit, "cm-1");
+    let card = SpeciesCard::new(no).unwrap();
+    let row = card.constants.iter().find(|c| c.quantity == "we").unwrap();
+    assert_eq!(row.value, "1904.20");
+    // The nuclear spin of N2 (I = 1) is exact, and its weights 6 : 3.
+    let n2 = db.find("N2").unwrap().constants().unwrap();
+    let spin = n2
+        .iter()
+        .find(|c| matches!(c.quantity, Quantity::NuclearSpin { .. }))
+        .unwrap();
+    assert_eq!(spin.value, parse_rational("1").unwrap());
+    assert_eq!(
+        db.find("Ar").unwrap().mass_u(),
+        parse_rational("39.948").unwrap()
+    );
+    let list = SpeciesList::new(&db);
+    assert_eq!(list.species.len(), db.all().len());
+    assert!(list
+        .species
+        .iter()
+        .any(|s| s.name == "Ar" && s.mass == "39.948"));
+}
+
+/// A library user computes with the certified numbers: the entropy of one
+/// mole of Ar plus one mole of N2, each at 298.15 K and 1 bar, is the sum
+/// of the two standard entropies, added in ball arithmetic so the sum's
+/// radius covers both radii. CODATA Key Values for Thermodynamics (Cox,
+/// Wagman and Medvedev, 1989; from memory): S°(Ar) = 154.846 ± 0.003,
+/// S°(N2) = 191.609 ± 0.005 J/(mol K), so 346.455 J/K together; our model
+/// is within 0.002 (Ar) and 0.01 (N2, vibrating rotor) of them (see
+/// `standard_entropies_match_codata_key_values`). Scaling Ar's molar value
+/// by the exact 1/M gives its value per kilogram, and that agrees with the
+/// library's own per-kilogram basis to every printed digit.
+#[test]
+fn certified_entropies_add_and_scale_within_their_radii() {
+    use zsum::species::Basis;
+    let db = Database::builtin().unwrap();
+    let t = parse_rational("298.15").unwrap();
+    let o = MolarOptions::default();
+    let ar = molar(db.find("Ar").unwrap(), &t, &o).unwrap();
+    let n2 = molar(db.find("N2").unwrap(), &t, &o).unwrap();
+    // Each value's printed digits are proved by its radius.
+    assert!(ar.s.decimal(o.digits).is_some() && n2.s.decimal(o.digits).is_some());
+    let both = ar.s.add(&n2.s);
+    // The sum's radius covers both radii, and its interval holds the sum
+    // of the two centres.
+    let radii = ar.s.radius().to_f64() + n2.s.radius().to_f64();
+    assert!(both.radius().to_f64() >= radii, "{:?}", both.radius());
+    assert!(both.radius().to_f64() < 1e-9 * both.to_f64());
+    let exact_sum = rug::Float::with_val(256, ar.s.value() + n2.s.value());
+    let (lo, hi) = both.interval();
+    assert!(lo <= exact_sum && exact_sum <= hi);
+    let codata = 154.846 + 191.609;
+    assert!(
+        (both.to_f64() - codata).abs() < 0.012,
+        "{} vs {codata}",
+        both.to_f64()
+    );
+    // Per kilogram: S/M with M = 39.948 g/mol (the built-in mass, CIAAW
+    // 2013), by exact scaling; against the library's per-kilogram basis.
+    let m = db.find("Ar").unwrap().molar_mass();
+    let per_kg =
+        ar.s.scale(&(num_rational::BigRational::from_integer(1.into()) / m));
+    let direct = molar(
+        db.find("Ar").unwrap(),
+        &t,
+        &MolarOptions {
+            basis: Basis::Kilogram,
+            ..MolarOptions::default()
+        },
+    )
+    .unwrap();
+    assert!((per_kg.to_f64() / 154.846 * 39.948e-3 - 1.0).abs() < 2e-5);
+    let (a, b) = (per_kg.interval(), direct.s.interval());
+    assert!(a.0 <= b.1 && b.0 <= a.1, "the two intervals overlap");
+    assert_eq!(per_kg.decimal(o.digits), direct.s.decimal(o.digits));
+    assert!(per_kg.decimal(o.digits).is_some());
+}
+
+/// Every printed value of a table is proved by its radius at the default
+/// 10 digits: the guard digits of the computation stand for S, Cp, H and
+/// −(G − H0)/T over a grid, spin isomers included.
+#[test]
+fn printed_molar_digits_are_proved_by_the_radii() {
+    let db = Database::builtin().unwrap();
+    let grid: Vec<_> = ["20", "100", "298.15", "1000"]
+        .iter()
+        .map(|t| parse_rational(t).unwrap())
+        .collect();
+    for name in ["H2", "N2", "O2", "He"] {
+        let g = zsum::species::MolarGrid::compute(
+            db.find(name).unwrap(),
+            &grid,
+            &MolarOptions::default(),
+        )
+        .unwrap();
+        for r in &g.rows {
+            for (what, v) in [
+                ("S", &r.s),
+                ("S_total", &r.s_total),
+                ("Cp", &r.cp),
+                ("Cv", &r.cv),
+                ("H-H0", &r.h_minus_h0),
+                ("-(G-H0)/T", &r.minus_g_minus_h0_over_t),
+            ] {
+                assert!(
+                    v.decimal(g.digits).is_some(),
+                    "{name} {} {what}: {:?}",
+                    r.t,
+                    v
+                );
+            }
+        }
+    }
+}
+
+/// The hydrogen table's values are proved the same way: the conversion
+/// heats (differences of isomer enthalpies, which cancel at high T), the
+/// Cp curves and the equilibrium ortho fraction of H2 and D2, 10 K to
+/// 400 K, every printed digit within the radius at 8 and 10 digits.
+#[test]
+fn printed_hydrogen_digits_are_proved_by_the_radii() {
+    let db = Database::builtin().unwrap();
+    let grid = zsum::thermo::parse_grid("--T", "10:400:30").unwrap();
+    for (name, digits) in [("H2", 8), ("H2", 10), ("D2", 10)] {
+        let o = MolarOptions {
+            digits,
+            ..MolarOptions::default()
+        };
+        let g = HydrogenGrid::compute(db.find(name).unwrap(), &grid, &Isomer::Normal, &o).unwrap();
+        assert_eq!(g.rows.len(), 14);
+        for r in &g.rows {
+            for (what, v) in [
+                ("conversion heat", &r.conversion_heat),
+                ("per kg", &r.conversion_heat_per_kg),
+                ("to ground isomer", &r.heat_to_ground_isomer),
+                ("eq. ortho fraction", &r.equilibrium_ortho_fraction),
+                ("Cp normal", &r.cp_normal),
+                ("Cp equilibrium", &r.cp_equilibrium),
+                ("Cp para", &r.cp_para),
+            ] {
+                assert!(v.decimal(digits).is_some(), "{name} {} {what}: {v:?}", r.t);
+            }
+        }
+    }
 }

@@ -129,6 +129,7 @@ const OPTION_OF: &[(&str, &str)] = &[
     ("error-map points", "--error-map"),
     ("physical units", "--per"),
     ("species file", "--species-file"),
+    ("pressure", "--p"),
 ];
 
 /// `message` followed by the options of the quantities it names (whole

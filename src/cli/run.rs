@@ -9,7 +9,6 @@ use super::args::{
     TopLevels, TopModel, ZeemanLevels, ZeemanModel,
 };
 use num_rational::BigRational;
-use num_traits::Zero;
 use zsum::budget::Meter;
 use zsum::classical::{parse_tolerance, Classical, Quantity, SearchRange};
 use zsum::error::{Error, Result};
@@ -21,15 +20,16 @@ use zsum::models::spec::{
     RotorSpec, Selection, SpecError, SphericalTopSpec, Text, TopSpec, ZeemanSpec,
 };
 use zsum::models::ParticleInBox;
-use zsum::report::ThermoReport;
 use zsum::report::{check_digits, BoxScale, CountReport, LevelsReport, ListOptions};
-use zsum::species::hydrogen::HydrogenTable;
-use zsum::species::{Basis, Database, Isomer, MolarOptions, MolarTable, Translation, VibModel};
+use zsum::report::{HydrogenTable, MolarTable, ThermoReport};
+use zsum::report::{SpeciesCard, SpeciesList};
+use zsum::species::hydrogen::HydrogenGrid;
+use zsum::species::{Basis, Database, Isomer, MolarGrid, MolarOptions, Translation, VibModel};
 use zsum::spectrum::Budget;
 use zsum::spectrum::Spectrum;
 use zsum::system::{parse_energy, System};
 use zsum::thermo::{parse_grid, Per};
-use zsum::units::{parse_length_m, parse_mass_kg, EnergyUnit};
+use zsum::units::{parse_length_m, parse_mass_kg, parse_pressure, EnergyUnit};
 
 /// Runs a parsed command line; returns text for standard output (`None` when
 /// the output went to a file).
@@ -709,7 +709,7 @@ fn compare(model: Option<ClassicalModel>, a: CompareArgs) -> Result<Option<Strin
 /// `zsum report`: writes the report into `out`.
 #[cfg(feature = "plot")]
 fn report(out: &std::path::Path) -> Result<Option<String>> {
-    let s = zsum::species::liquefier::write_report(out)?;
+    let s = zsum::report::liquefier::write_report(out)?;
     Ok(Some(s.lines.join("\n") + "\n"))
 }
 
@@ -805,32 +805,6 @@ fn vib_model(text: &str) -> Result<VibModel> {
     }
 }
 
-/// Reads a pressure in Pa: a number, or with Pa, kPa, MPa, bar or atm.
-fn parse_pressure(text: &str) -> Result<BigRational> {
-    let t = text.trim();
-    let allowed = "a pressure: a number in Pa or with a unit, e.g. 100000, 1bar, 101.325kPa, 1atm";
-    let (num, factor) = [
-        ("MPa", "1000000"),
-        ("kPa", "1000"),
-        ("Pa", "1"),
-        ("bar", "100000"),
-        ("atm", "101325"),
-    ]
-    .iter()
-    .find_map(|(u, f)| t.strip_suffix(u).map(|n| (n.trim(), *f)))
-    .unwrap_or((t, "1"));
-    let v = parse_rational(num).map_err(|_| Error::parse("--p", text, allowed))?
-        * parse_rational(factor)?;
-    if v <= BigRational::zero() {
-        return Err(Error::invalid(
-            "--p",
-            text,
-            "the pressure must be greater than zero",
-        ));
-    }
-    Ok(v)
-}
-
 fn species_thermo(args: &[String]) -> Result<Option<String>> {
     use clap::{CommandFactory, FromArgMatches};
     let parsed = super::values_as_written(SpeciesThermo::command())
@@ -876,12 +850,9 @@ fn species_thermo(args: &[String]) -> Result<Option<String>> {
         &budget,
     )
     .observed(&observe);
-    let table = MolarTable::build_metered(sp, &grid, &options, &meter)?;
-    let text = match (format(a.out.format), table.rows.as_slice()) {
-        (Format::Json, [one]) => zsum::export::to_json(one)?,
-        (f, _) => render(&table, f)?,
-    };
-    let out = emit(text, &a.out)?;
+    let table = MolarTable::new(&MolarGrid::compute_metered(sp, &grid, &options, &meter)?);
+    // JSON keeps one shape, a list of rows, whatever the grid's length.
+    let out = emit(render(&table, format(a.out.format))?, &a.out)?;
     for w in table.warnings() {
         eprintln!("zsum: warning: {w}");
     }
@@ -892,7 +863,7 @@ fn species(c: SpeciesCommand) -> Result<Option<String>> {
     match c {
         SpeciesCommand::List { species_file, out } => {
             let db = database(&species_file)?;
-            emit(render(&db.list(), format(out.format))?, &out)
+            emit(render(&SpeciesList::new(&db), format(out.format))?, &out)
         }
         SpeciesCommand::Show {
             name,
@@ -900,7 +871,8 @@ fn species(c: SpeciesCommand) -> Result<Option<String>> {
             out,
         } => {
             let db = database(&species_file)?;
-            emit(render(&db.find(&name)?.show(), format(out.format))?, &out)
+            let card = SpeciesCard::new(db.find(&name)?)?;
+            emit(render(&card, format(out.format))?, &out)
         }
     }
 }
@@ -924,7 +896,9 @@ fn hydrogen(a: HydrogenArgs) -> Result<Option<String>> {
         &budget,
     )
     .observed(&observe);
-    let table = HydrogenTable::build_metered(sp, &grid, &isomer, &options, &meter)?;
+    let table = HydrogenTable::new(&HydrogenGrid::compute_metered(
+        sp, &grid, &isomer, &options, &meter,
+    )?);
     let out = emit(render(&table, format(a.out.format))?, &a.out)?;
     for w in table.warnings() {
         eprintln!("zsum: warning: {w}");

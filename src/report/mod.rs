@@ -13,9 +13,14 @@ mod einstein;
 mod ensemble;
 #[cfg(feature = "plot")]
 pub mod figure;
+mod hydrogen;
 mod levels;
+#[cfg(feature = "plot")]
+pub mod liquefier;
 mod micro;
+mod molar;
 mod point;
+mod species;
 pub mod text;
 mod thermo;
 pub use compare::{ApproxRow, CompareReport, CompareRow, ExactRow, RelErrors};
@@ -29,8 +34,14 @@ pub use census::{
 };
 pub use einstein::{EinsteinReport, EinsteinRow};
 pub use ensemble::{BoltzmannCrossing, EnsemblePoint, EnsembleReport};
+pub use hydrogen::{HydrogenRow, HydrogenTable};
 pub use micro::{MicroReport, MicroRow};
+pub use molar::{
+    basis_name, basis_units, degeneracy_warnings, isomer_name, reference_text, MolarPoint,
+    MolarTable,
+};
 pub use point::ThermoPoint;
+pub use species::{ConstantRow, SpeciesCard, SpeciesList, SpeciesSummary};
 
 pub use crate::exact::{check_digits, APPROX_DIGITS, DEFAULT_DIGITS};
 

@@ -1,509 +1,130 @@
-//! `zsum report`: a worked scenario written as one self-contained HTML page
-//! (inline SVG plots, tables, sources) plus CSV files.
-//!
-//! The scenario is invented: the small hydrogen liquefier of the fictional
-//! Harrow Fen cryogenics laboratory makes 10 L of liquid hydrogen an hour.
-//! Freshly liquefied hydrogen keeps the ortho fraction of the warm gas
-//! (normal, 3/4) unless a catalyst converts it; the conversion to the
-//! equilibrium mixture at 20.28 K then releases heat inside the storage
-//! dewar. Every figure is computed by zsum's exact sums; the page names the
-//! source or model of each.
-//!
-//! Only with the `plot` feature (on by default): the page's figures are
-//! drawn by [`crate::plot`].
+//! The invented scenario behind `zsum report`, as numbers: the small
+//! hydrogen liquefier of the fictional Harrow Fen cryogenics laboratory
+//! makes 10 L of liquid hydrogen an hour. Freshly liquefied hydrogen keeps
+//! the ortho fraction of the warm gas (normal, 3/4) unless a catalyst
+//! converts it; the conversion to the equilibrium mixture at the normal
+//! boiling point then releases heat inside the storage dewar. Every
+//! hydrogen and species value comes from the exact sums; the page that
+//! shows them is written by the report layer.
 
-#![cfg(feature = "plot")]
-
-use super::hydrogen::HydrogenTable;
-use super::molar::{
-    degeneracy_cells, degeneracy_note, tables, Basis, Isomer, MolarOptions, MolarTable,
-};
-use super::Database;
-use crate::error::{Error, ErrorKind, Result};
-use crate::exact::parse_rational;
-use crate::export::{to_csv, write_atomic, Column, Tabular};
-use crate::plot::{render_svg, Panel, Series};
+use super::hydrogen::HydrogenGrid;
+use super::{molar_grids, Database, Isomer, MolarGrid, MolarOptions};
+use crate::error::Result;
 use crate::thermo::parse_grid;
-use std::path::{Path, PathBuf};
-
-/// The caution every report carries.
-pub const CAUTION: &str = "These are ideal-gas model values; design decisions follow certified \
-                           property data, local codes and licensed engineering practice.";
+use num_rational::BigRational;
 
 /// Liquid hydrogen production of the fictional liquefier, L/h.
-const LITRES_PER_HOUR: f64 = 10.0;
+pub const LITRES_PER_HOUR: f64 = 10.0;
 /// Density of liquid para-rich hydrogen at the normal boiling point, kg/m³
 /// (common practice, from memory).
-const LIQUID_DENSITY: f64 = 70.8;
+pub const LIQUID_DENSITY: f64 = 70.8;
 /// Latent heat of vaporisation of hydrogen at the normal boiling point,
 /// about 0.9 kJ/mol (common practice, from memory).
-const LATENT_HEAT_J_PER_MOL: f64 = 900.0;
-
-/// What `zsum report` wrote.
-#[derive(Debug, Clone)]
-pub struct ReportSummary {
-    /// The folder.
-    pub dir: PathBuf,
-    /// Every file written.
-    pub files: Vec<PathBuf>,
-    /// A short summary for the terminal.
-    pub lines: Vec<String>,
-}
-
-fn esc(s: &str) -> String {
-    s.replace('&', "&amp;")
-        .replace('<', "&lt;")
-        .replace('>', "&gt;")
-        .replace('"', "&quot;")
-}
-
-fn html_table<T: Tabular>(t: &T) -> String {
-    let mut out = String::from("<div class=\"wide\"><table>\n<thead><tr>");
-    for c in t.columns() {
-        out.push_str(&format!("<th>{}</th>", esc(&c.heading())));
-    }
-    out.push_str("</tr></thead>\n<tbody>\n");
-    for r in t.rows() {
-        out.push_str("<tr>");
-        for c in r {
-            out.push_str(&format!("<td>{}</td>", esc(&c)));
-        }
-        out.push_str("</tr>\n");
-    }
-    out.push_str("</tbody>\n</table></div>\n");
-    out
-}
-
-/// The size of each figure of the report, in pixels: width, panel height.
-pub const FIGURE_SIZE: (u32, u32) = (860, 380);
-
-fn inline_svg(panels: &[Panel]) -> Result<String> {
-    let svg = render_svg(panels, FIGURE_SIZE.0, FIGURE_SIZE.1)?;
-    let body = match svg.find("<svg") {
-        Some(i) => &svg[i..],
-        None => svg.as_str(),
-    };
-    Ok(format!("<figure>\n{body}\n</figure>\n"))
-}
-
-fn series(name: &str, points: Vec<(f64, f64)>, colour: usize) -> Series {
-    Series {
-        name: name.into(),
-        points,
-        dashed: false,
-        colour: Some(colour),
-    }
-}
-
+pub const LATENT_HEAT_J_PER_MOL: f64 = 900.0;
 /// The normal boiling point of normal hydrogen at 1 atm, K (common
-/// practice, from memory), marked on every hydrogen figure.
-const BOILING_POINT_K: f64 = 20.28;
+/// practice, from memory).
+pub const BOILING_POINT_K: f64 = 20.28;
+/// The significant digits of every value of the scenario.
+pub const DIGITS: u32 = 8;
+/// The temperature range of the hydrogen curves, K.
+pub const FIGURE_T: (f64, f64) = (10.0, 400.0);
+/// How many temperatures of that range the curves take, evenly spaced in
+/// log T.
+pub const FIGURE_POINTS: usize = 61;
+/// The hydrogen table's temperature grid, K: 10 K to 400 K in 5 K steps.
+pub const TABLE_GRID: &str = "10:400:5";
+/// The temperature of the species table, K.
+pub const SPECIES_T: &str = "298.15";
 
-/// The temperature range of the hydrogen figures, K.
-const FIGURE_T: (f64, f64) = (10.0, 400.0);
-/// How many temperatures of that range are computed, evenly spaced in log T.
-const FIGURE_POINTS: usize = 61;
-
-fn panel(title: &str, y: &str, s: Vec<Series>) -> Panel {
-    Panel {
-        title: title.into(),
-        x_label: "T / K".into(),
-        y_label: y.into(),
-        log_x: true,
-        series: s,
-        vlines: vec![(format!("n.b.p. {BOILING_POINT_K} K"), BOILING_POINT_K)],
-        x_range: Some(FIGURE_T),
-        ..Panel::default()
+/// The options of every computation of the scenario: ideal gas at 1 bar,
+/// the vibrating rotor, [`DIGITS`] digits, per mole.
+pub fn options() -> MolarOptions {
+    MolarOptions {
+        digits: DIGITS,
+        ..MolarOptions::default()
     }
 }
 
-/// One hydrogen figure: title, y label, and per curve its name, its column
-/// of [`HydrogenTable::series`] and its colour slot.
-type FigureSpec = (
-    &'static str,
-    &'static str,
-    &'static [(&'static str, usize, usize)],
-);
+/// The normal boiling point, exactly.
+pub fn boiling_point() -> BigRational {
+    BigRational::new(2028.into(), 100.into())
+}
 
-/// The report's hydrogen figures, each one panel: Cp of normal,
-/// equilibrium and para hydrogen; the equilibrium ortho fraction; the heats
-/// of conversion. All are drawn against a logarithmic T axis from 10 K to
-/// 400 K, so that 10–30 K around the boiling point is not squeezed, at 61
-/// temperatures evenly spaced in log T (closer than the table's 5 K steps
-/// below 75 K), with the normal boiling point marked. One state keeps one
-/// colour across them.
-pub fn figures() -> Result<[Vec<Panel>; 3]> {
+/// Normal H2 at [`FIGURE_POINTS`] temperatures evenly spaced in log T over
+/// [`FIGURE_T`]: the curves of the report's figures.
+pub fn curves() -> Result<HydrogenGrid> {
     let db = Database::builtin()?;
-    let o = MolarOptions {
-        digits: 8,
-        ..MolarOptions::default()
-    };
     let (low, high) = FIGURE_T;
     let grid = parse_grid("--T", &format!("log:{low}:{high}:{FIGURE_POINTS}"))?;
-    let curves = HydrogenTable::build(db.find("H2")?, &grid, &Isomer::Normal, &o)?;
-    let spec: [FigureSpec; 3] = [
-        (
-            "H2 heat capacity Cp: normal, equilibrium and para",
-            "Cp / (J/(mol K))",
-            &[("normal", 0, 0), ("equilibrium", 1, 1), ("para", 2, 2)],
-        ),
-        (
-            "equilibrium ortho fraction of H2",
-            "equilibrium ortho fraction",
-            &[("equilibrium ortho fraction", 3, 1)],
-        ),
-        (
-            "H2 heats of conversion",
-            "heat / (J/mol)",
-            &[("normal to equilibrium", 4, 3), ("ortho to para", 5, 4)],
-        ),
-    ];
-    Ok(spec.map(|(title, y, lines)| {
-        let s = lines
-            .iter()
-            .map(|&(name, column, colour)| series(name, curves.series(column), colour))
-            .collect();
-        vec![panel(title, y, s)]
-    }))
+    HydrogenGrid::compute(db.find("H2")?, &grid, &Isomer::Normal, &options())
 }
 
-/// Builds the report's files in memory: `(file name, contents)`.
-pub fn build_report() -> Result<Vec<(String, String)>> {
-    let db = Database::builtin()?;
-    let h2 = db.find("H2")?;
-    let o = MolarOptions {
-        digits: 8,
-        ..MolarOptions::default()
-    };
-    let grid = parse_grid("--T", "10:400:5")?;
-    let curves = HydrogenTable::build(h2, &grid, &Isomer::Normal, &o)?;
-    let nbp = parse_rational("20.28")?;
-    let at_nbp = HydrogenTable::build(h2, std::slice::from_ref(&nbp), &Isomer::Normal, &o)?;
-    let row = &at_nbp.rows[0];
-    let num = |s: &str| s.parse::<f64>().unwrap_or(f64::NAN);
-    let q_mol = num(&row.conversion_heat);
-    let q_kg = num(&row.conversion_heat_per_kg);
-    let kg_per_h = LITRES_PER_HOUR * 1e-3 * LIQUID_DENSITY;
-    let load_w = kg_per_h * q_kg * 1000.0 / 3600.0;
-    let para_eq = 1.0 - num(&row.equilibrium_ortho_fraction);
-    let all: Vec<_> = db.all().iter().collect();
-    let t298 = vec![parse_rational("298.15")?];
-    let species_tables: Vec<MolarTable> = tables(&all, &t298, &o)?;
-    let species_rows = MolarTable {
-        basis: o.basis,
-        rows: species_tables
-            .into_iter()
-            .flat_map(|t| t.rows.into_iter())
-            .collect(),
-    };
-    let warnings: Vec<String> = species_rows
-        .warnings()
-        .into_iter()
-        .chain(curves.warnings())
-        .collect();
-    let flagged = |rows: &mut dyn Iterator<Item = bool>| rows.filter(|f| *f).count();
-    let species_flagged = flagged(&mut species_rows.rows.iter().map(|r| r.degeneracy.quantum_flag));
-    let hydrogen_flagged = flagged(&mut curves.rows.iter().map(|r| r.degeneracy.quantum_flag));
-    let note = degeneracy_note(
-        species_rows
-            .rows
-            .first()
-            .map(|r| r.degeneracy.quantum_tolerance)
-            .unwrap_or(0.0),
-    );
-    let warning_html: String = warnings
-        .iter()
-        .map(|w| format!("<li>{}</li>\n", esc(w)))
-        .collect();
-    let hydrogen_csv = to_csv(&curves)?;
-    let species_csv = to_csv(&SpeciesRows(&species_rows))?;
-
-    let [cp_plot, fraction_plot, heat_plot] = figures()?;
-    let cp_plot = inline_svg(&cp_plot)?;
-    let fraction_plot = inline_svg(&fraction_plot)?;
-    let heat_plot = inline_svg(&heat_plot)?;
-
-    let sources = html_table(&SourceRows(
-        db.all()
-            .iter()
-            .flat_map(|sp| {
-                sp.show()
-                    .constants
-                    .into_iter()
-                    .map(move |c| [sp.name.clone(), c.quantity, c.value, c.unit, c.source])
-            })
-            .collect(),
-    ))
-    .replace("<table>", "<table class=\"text\">");
-    let html = format!(
-        r#"<!DOCTYPE html>
-<html lang="en">
-<head>
-<meta charset="utf-8"/>
-<title>Conversion load of the Harrow Fen hydrogen liquefier (zsum report)</title>
-<style>
-body {{ font-family: sans-serif; max-width: 60em; margin: 2em auto; line-height: 1.45; color: #111; }}
-table {{ border-collapse: collapse; font-size: 0.85em; margin: 1em 0; }}
-th, td {{ border: 1px solid #bbb; padding: 0.2em 0.5em; text-align: right; }}
-th {{ background: #eee; }}
-.caution {{ border: 2px solid #a33; background: #fff3f3; padding: 0.6em 1em; }}
-figure {{ margin: 1em 0; }}
-.wide {{ overflow-x: auto; }}
-table.text td {{ text-align: left; }}
-table.text td:nth-child(4) {{ white-space: nowrap; }}
-</style>
-</head>
-<body>
-<h1>Conversion load of the Harrow Fen hydrogen liquefier</h1>
-<p class="caution"><strong>Caution.</strong> {caution}</p>
-<p>A worked scenario (fictional): the Harrow Fen cryogenics laboratory runs a small
-liquefier making {litres} L of liquid hydrogen an hour ({kg:.3} kg/h at a liquid density
-of {rho} kg/m<sup>3</sup>, common practice). Warm hydrogen is normal: three quarters ortho.
-Liquefied without a conversion catalyst it keeps that ortho fraction and then converts
-slowly towards equilibrium at 20.28 K, releasing heat in the dewar.</p>
-<h2>Result at the normal boiling point, 20.28 K</h2>
-<ul>
-<li>equilibrium para fraction: <strong>{para:.4}</strong></li>
-<li>heat released converting normal to equilibrium hydrogen: <strong>{qmol:.1} J/mol</strong>
-= <strong>{qkg:.1} kJ/kg</strong></li>
-<li>compared with the latent heat of vaporisation, about {latent:.0} J/mol (common practice,
-from memory): the conversion heat is {ratio:.2} times larger, enough to boil off the
-liquid it is released in</li>
-<li>continuous heat load if the whole product were left unconverted:
-<strong>{load:.1} W</strong> ({kg:.3} kg/h × {qkg:.1} kJ/kg)</li>
-</ul>
-<p>For comparison, the standard compilation of hydrogen's ortho/para properties
-(Woolley, Scott and Brickwedde, 1948, from memory) gives about 0.998 for the para
-fraction and about 1.06 kJ/mol (525 kJ/kg) for the conversion heat.</p>
-<h2>Heat capacity of normal, equilibrium and para hydrogen</h2>
-{cp_plot}
-<h2>Equilibrium ortho fraction</h2>
-{fraction_plot}
-<h2>Heats of conversion</h2>
-{heat_plot}
-<h2>Standard molar functions at 298.15 K and 1 bar</h2>
-<p>{reference}. {note}.</p>
-{species_table}
-<h2>Hydrogen from 10 K to 400 K (normal hydrogen, ortho fraction 0.75: S and H − H0 from each isomer's own lowest level; Cp of each state; conversion heats)</h2>
-{hydrogen_table}
-<h2>Where classical translation is not exact</h2>
-<p>Sackur–Tetrode translation counts the molecules by Boltzmann statistics. The first
-correction for their Bose or Fermi statistics is of relative size nΛ<sup>3</sup>/2<sup>5/2</sup>
-(n = p/kT, Λ = h/sqrt(2π m kT); standard result); rows where it exceeds the tolerance
-of the printed digits are marked * ({species_flagged} of {species_count} species rows,
-{hydrogen_flagged} of {hydrogen_count} hydrogen rows). The conversion heats are internal
-and do not depend on it.</p>
-<ul class="warnings">
-{warning_html}</ul>
-<h2>Sources and models</h2>
-<ul>
-<li>Model: ideal gas at 1 bar; translation by Sackur–Tetrode; rotation and vibration
-by exact sums over the vibrating-rotor levels (anharmonic G(v), B<sub>v</sub> = B<sub>e</sub> −
-α<sub>e</sub>(v + 1/2), centrifugal D<sub>e</sub>) with nuclear-spin statistics
-(H2: para even J weight 1, ortho odd J weight 3); electronic levels as listed per species.
-Every printed digit of every sum is certified by zsum's engine; where the
-first quantum-statistics correction to Sackur–Tetrode translation exceeds the printed
-tolerance, the row is marked * (see above).</li>
-<li>Conventions: H0 is the lowest level; for a frozen spin-isomer mixture (normal
-hydrogen, the state of freshly liquefied gas) each isomer keeps its own lowest level as
-its H0, so that H − H0 and −(G − H0)/T start from zero; conventional entropy S excludes
-nuclear spin as the standard tables do; S_total includes it.</li>
-<li>Constants: SI 2019 exact defining constants; atomic mass constant CODATA 2018.</li>
-<li>Comparison values: Woolley, Scott and Brickwedde (1948), from memory; liquid density
-and latent heat: common practice, from memory.</li>
-</ul>
-<h3>Every constant of every species, with its unit and source</h3>
-{sources}
-<p>Files: <a href="hydrogen.csv">hydrogen.csv</a>, <a href="species_298K.csv">species_298K.csv</a>.</p>
-</body>
-</html>
-"#,
-        caution = esc(CAUTION),
-        litres = LITRES_PER_HOUR,
-        kg = kg_per_h,
-        rho = LIQUID_DENSITY,
-        para = para_eq,
-        qmol = q_mol,
-        qkg = q_kg,
-        latent = LATENT_HEAT_J_PER_MOL,
-        ratio = q_mol / LATENT_HEAT_J_PER_MOL,
-        load = load_w,
-        note = esc(&note),
-        species_count = species_rows.rows.len(),
-        hydrogen_count = curves.rows.len(),
-        reference = esc(&species_rows.reference_line()),
-        species_table = html_table(&SpeciesRows(&species_rows)),
-        hydrogen_table = html_table(&HydrogenRows(&curves)),
-    );
-    Ok(vec![
-        ("index.html".into(), html),
-        ("hydrogen.csv".into(), hydrogen_csv),
-        ("species_298K.csv".into(), species_csv),
-        (
-            "summary.txt".into(),
-            summary_lines(
-                para_eq,
-                q_mol,
-                q_kg,
-                load_w,
-                species_flagged + hydrogen_flagged,
-            )
-            .join("\n")
-                + "\n",
-        ),
-    ])
+/// The scenario's numbers.
+#[derive(Debug, Clone)]
+pub struct Liquefier {
+    /// Normal H2 over [`TABLE_GRID`].
+    pub hydrogen: HydrogenGrid,
+    /// Normal H2 at the normal boiling point (one row).
+    pub at_boiling_point: HydrogenGrid,
+    /// Every built-in species at [`SPECIES_T`] and 1 bar, in database order.
+    pub species: Vec<MolarGrid>,
+    /// Liquid produced, kg/h: [`LITRES_PER_HOUR`] at [`LIQUID_DENSITY`].
+    pub kg_per_hour: f64,
+    /// The equilibrium para fraction at the boiling point.
+    pub equilibrium_para_fraction: f64,
+    /// Heat released converting normal to equilibrium hydrogen at the
+    /// boiling point, J/mol.
+    pub conversion_heat: f64,
+    /// The same, kJ/kg.
+    pub conversion_heat_per_kg: f64,
+    /// The conversion heat over [`LATENT_HEAT_J_PER_MOL`].
+    pub latent_heat_ratio: f64,
+    /// The continuous heat load if the whole product were left
+    /// unconverted, W.
+    pub load_w: f64,
 }
 
-fn summary_lines(para: f64, q_mol: f64, q_kg: f64, load_w: f64, flagged: usize) -> Vec<String> {
-    let mut lines = vec![
-        "Harrow Fen liquefier (fictional scenario), hydrogen at 20.28 K:".into(),
-        format!("  equilibrium para fraction        {para:.4}"),
-        format!("  normal -> equilibrium heat       {q_mol:.1} J/mol = {q_kg:.1} kJ/kg"),
-        format!("  load for 10 L/h unconverted      {load_w:.1} W"),
-    ];
-    if flagged > 0 {
-        lines.push(format!(
-            "  warning: {flagged} table rows are marked *: there the first quantum correction \
-             nLambda^3/2^(5/2) to their classical (Sackur-Tetrode) S, Cp and H exceeds the \
-             printed tolerance; the conversion heats do not depend on it (see the report)"
-        ));
-    }
-    lines.push(format!("  caution: {CAUTION}"));
-    lines
-}
-
-/// The species table with the species name as first column.
-struct SpeciesRows<'a>(&'a MolarTable);
-
-impl Tabular for SpeciesRows<'_> {
-    fn preamble(&self) -> Vec<String> {
-        self.0.preamble()
-    }
-    fn columns(&self) -> Vec<Column> {
-        std::iter::once(Column::plain("species"))
-            .chain(
-                MolarTable::columns_for(false, Basis::Mole)
-                    .into_iter()
-                    .filter(|c| c.name != "Cv"),
-            )
-            .collect()
-    }
-    fn rows(&self) -> Vec<Vec<String>> {
-        self.0
-            .rows
-            .iter()
-            .map(|r| {
-                vec![
-                    r.species.clone(),
-                    r.t.clone(),
-                    r.s.clone(),
-                    r.s_total.clone(),
-                    r.cp.clone(),
-                    r.h.clone(),
-                    r.g.clone(),
-                ]
-                .into_iter()
-                .chain(degeneracy_cells(&r.degeneracy))
-                .collect()
-            })
-            .collect()
-    }
-}
-
-/// The hydrogen table of the page: normal hydrogen's rows without the
-/// columns that repeat (its isomer and ortho fraction, which the heading
-/// names, and its Cp, which is `Cp normal`); the CSV file keeps them all.
-struct HydrogenRows<'a>(&'a HydrogenTable);
-
-impl HydrogenRows<'_> {
-    const DROPPED: [&'static str; 3] = ["isomer", "ortho fraction", "Cp"];
-    fn kept(&self) -> Vec<bool> {
-        self.0
-            .columns()
-            .iter()
-            .map(|c| !Self::DROPPED.contains(&c.name.as_str()))
-            .collect()
-    }
-}
-
-impl Tabular for HydrogenRows<'_> {
-    fn preamble(&self) -> Vec<String> {
-        self.0.preamble()
-    }
-    fn columns(&self) -> Vec<Column> {
-        let keep = self.kept();
-        let cols = self.0.columns().into_iter().zip(keep);
-        cols.filter(|(_, k)| *k).map(|(c, _)| c).collect()
-    }
-    fn rows(&self) -> Vec<Vec<String>> {
-        let keep = self.kept();
-        self.0
-            .rows()
-            .into_iter()
-            .map(|r| {
-                r.into_iter()
-                    .zip(&keep)
-                    .filter(|(_, k)| **k)
-                    .map(|(c, _)| c)
-                    .collect()
-            })
-            .collect()
-    }
-}
-
-/// Every species constant with its unit and source, one row each.
-struct SourceRows(Vec<[String; 5]>);
-
-impl Tabular for SourceRows {
-    fn preamble(&self) -> Vec<String> {
-        Vec::new()
-    }
-    fn columns(&self) -> Vec<Column> {
-        ["species", "constant", "value", "unit", "source"]
-            .map(Column::plain)
-            .to_vec()
-    }
-    fn rows(&self) -> Vec<Vec<String>> {
-        self.0.iter().map(|r| r.to_vec()).collect()
-    }
-}
-
-/// Writes the report into `dir` (created if missing): every file is built
-/// first, then each written atomically, so nothing partial appears.
-pub fn write_report(dir: &Path) -> Result<ReportSummary> {
-    if dir.exists() && !dir.is_dir() {
-        return Err(Error::new(
-            ErrorKind::Io,
-            format!(
-                "report folder {:?} exists and is not a folder; choose another folder",
-                dir.display().to_string()
+impl Liquefier {
+    /// Computes the scenario (the species on all cores).
+    ///
+    /// ```
+    /// let l = zsum::species::liquefier::Liquefier::compute()?;
+    /// // About 1.06 kJ/mol, 525 kJ/kg (Woolley, Scott and Brickwedde 1948,
+    /// // from memory), more than the latent heat of about 0.9 kJ/mol.
+    /// assert!((l.conversion_heat - 1060.0).abs() < 15.0);
+    /// assert!(l.latent_heat_ratio > 1.0);
+    /// // 0.708 kg/h × 525 kJ/kg / 3600 s/h ≈ 103 W.
+    /// assert!((l.load_w - 103.0).abs() < 3.0);
+    /// # Ok::<(), zsum::Error>(())
+    /// ```
+    pub fn compute() -> Result<Liquefier> {
+        let db = Database::builtin()?;
+        let h2 = db.find("H2")?;
+        let o = options();
+        let hydrogen =
+            HydrogenGrid::compute(h2, &parse_grid("--T", TABLE_GRID)?, &Isomer::Normal, &o)?;
+        let at_boiling_point = HydrogenGrid::compute(h2, &[boiling_point()], &Isomer::Normal, &o)?;
+        let all: Vec<_> = db.all().iter().collect();
+        let species = molar_grids(&all, &parse_grid("--T", SPECIES_T)?, &o)?;
+        let (para, q_mol, q_kg) = match at_boiling_point.rows.first() {
+            Some(r) => (
+                1.0 - r.equilibrium_ortho_fraction.to_f64(),
+                r.conversion_heat.to_f64(),
+                r.conversion_heat_per_kg.to_f64(),
             ),
-        ));
+            None => (f64::NAN, f64::NAN, f64::NAN),
+        };
+        let kg_per_hour = LITRES_PER_HOUR * 1e-3 * LIQUID_DENSITY;
+        Ok(Liquefier {
+            hydrogen,
+            at_boiling_point,
+            species,
+            kg_per_hour,
+            equilibrium_para_fraction: para,
+            conversion_heat: q_mol,
+            conversion_heat_per_kg: q_kg,
+            latent_heat_ratio: q_mol / LATENT_HEAT_J_PER_MOL,
+            load_w: kg_per_hour * q_kg * 1000.0 / 3600.0,
+        })
     }
-    let files = build_report()?;
-    std::fs::create_dir_all(dir).map_err(|e| {
-        Error::new(
-            ErrorKind::Io,
-            format!(
-                "cannot create report folder {:?}: {e}",
-                dir.display().to_string()
-            ),
-        )
-    })?;
-    let mut written = Vec::new();
-    let mut lines = Vec::new();
-    for (name, text) in &files {
-        let path = dir.join(name);
-        write_atomic(&path, text)?;
-        if name == "summary.txt" {
-            lines = text.lines().map(String::from).collect();
-        }
-        written.push(path);
-    }
-    lines.push(format!("  wrote {}", dir.join("index.html").display()));
-    Ok(ReportSummary {
-        dir: dir.to_path_buf(),
-        files: written,
-        lines,
-    })
 }

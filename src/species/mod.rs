@@ -55,8 +55,8 @@ use serde::{Deserialize, Serialize};
 use std::path::Path;
 
 pub use molar::{
-    degeneracy_warnings, molar, reference_text, tables, Basis, Degeneracy, Isomer, MolarOptions,
-    MolarPoint, MolarTable, Translation, VibModel, DEGENERACY_G,
+    molar, molar_grids, Basis, Degeneracy, Isomer, MolarGrid, MolarOptions, MolarValues, Reference,
+    Translation, VibModel, DEGENERACY_G,
 };
 
 /// The built-in database text.
@@ -448,133 +448,153 @@ impl Species {
         )?))
     }
 
-    /// The species as a TOML-like description with every constant, unit
-    /// and source (for `zsum species show`).
-    pub fn show(&self) -> SpeciesCard {
+    /// The mass in unified atomic mass units (u), exactly: the mass in kg
+    /// over the CODATA 2018 atomic mass constant.
+    pub fn mass_u(&self) -> BigRational {
+        &self.mass_kg / crate::units::constants::atomic_mass_constant()
+    }
+
+    /// Every constant of the species as its file gives it, in file order:
+    /// the mass, the nuclear spin, the rotational and vibrational constants,
+    /// the electronic levels; each exact in its own unit, with the text it
+    /// was written as and its source.
+    ///
+    /// ```
+    /// use zsum::species::{Database, Quantity};
+    /// use zsum::exact::parse_rational;
+    /// let db = Database::builtin()?;
+    /// let n2 = db.find("N2")?.constants()?;
+    /// let b = n2.iter().find(|c| c.quantity == Quantity::BE).unwrap();
+    /// assert_eq!(b.value, parse_rational("1.99824")?);
+    /// assert_eq!(b.unit, "cm-1");
+    /// # Ok::<(), zsum::Error>(())
+    /// ```
+    pub fn constants(&self) -> Result<Vec<SpeciesConstant>> {
         let f = &self.raw;
-        let mut rows = vec![[
-            "mass".into(),
-            f.mass.value.clone(),
-            f.mass.unit.clone(),
-            f.mass.source.clone(),
-        ]];
-        if let Some(s) = &f.nuclear_spin {
-            rows.push([
-                "nuclear spin I (each nucleus)".into(),
-                s.clone(),
-                "ħ".into(),
-                format!(
-                    "weights even J : odd J = {} : {}{}",
-                    self.molecule
-                        .as_ref()
-                        .map(|m| m.weights.even().to_string())
-                        .unwrap_or_default(),
-                    self.molecule
-                        .as_ref()
-                        .map(|m| m.weights.odd().to_string())
-                        .unwrap_or_default(),
-                    if f.swap_parity.unwrap_or(false) {
-                        " (the ground state swaps the parities)"
-                    } else {
-                        ""
-                    }
-                ),
-            ]);
+        let n = &self.name;
+        let given = |quantity: Quantity, field: &str, text: &str, unit: &str, source: &str| {
+            Ok::<_, Error>(SpeciesConstant {
+                quantity,
+                value: number(n, field, text)?,
+                written: text.to_string(),
+                unit: unit.to_string(),
+                source: Some(source.to_string()),
+            })
+        };
+        let mut out = vec![given(
+            Quantity::Mass,
+            "mass",
+            &f.mass.value,
+            &f.mass.unit,
+            &f.mass.source,
+        )?];
+        if let (Some(s), Some(m)) = (&f.nuclear_spin, &self.molecule) {
+            let twice = m.twice_spin.unwrap_or(0);
+            out.push(SpeciesConstant {
+                quantity: Quantity::NuclearSpin {
+                    weights: m.weights.clone(),
+                    swapped: f.swap_parity.unwrap_or(false),
+                },
+                value: BigRational::new(twice.into(), 2.into()),
+                written: s.clone(),
+                unit: "ħ".into(),
+                source: None,
+            });
         }
         if let Some(r) = &f.rotation {
-            for (k, v) in [
-                ("B_e", Some(&r.b_e)),
-                ("alpha_e", r.alpha_e.as_ref()),
-                ("D_e", r.d_e.as_ref()),
+            for (q, field, v) in [
+                (Quantity::BE, "rotation.B_e", Some(&r.b_e)),
+                (Quantity::AlphaE, "rotation.alpha_e", r.alpha_e.as_ref()),
+                (Quantity::DE, "rotation.D_e", r.d_e.as_ref()),
             ] {
                 if let Some(v) = v {
-                    rows.push([k.into(), v.clone(), r.unit.clone(), r.source.clone()]);
+                    out.push(given(q, field, v, &r.unit, &r.source)?);
                 }
             }
         }
         if let Some(v) = &f.vibration {
-            rows.push(["we".into(), v.we.clone(), v.unit.clone(), v.source.clone()]);
+            out.push(given(
+                Quantity::We,
+                "vibration.we",
+                &v.we,
+                &v.unit,
+                &v.source,
+            )?);
             if let Some(x) = &v.wexe {
-                rows.push(["wexe".into(), x.clone(), v.unit.clone(), v.source.clone()]);
+                out.push(given(
+                    Quantity::WeXe,
+                    "vibration.wexe",
+                    x,
+                    &v.unit,
+                    &v.source,
+                )?);
             }
         }
-        for l in &f.electronic.levels {
-            rows.push([
-                format!(
-                    "electronic level {} (g = {})",
-                    l.label.clone().unwrap_or_default(),
-                    l.degeneracy
-                ),
-                l.energy.clone(),
-                f.electronic.unit.clone(),
-                f.electronic.source.clone(),
-            ]);
+        for (i, l) in f.electronic.levels.iter().enumerate() {
+            out.push(given(
+                Quantity::ElectronicLevel {
+                    label: l.label.clone(),
+                    degeneracy: l.degeneracy,
+                },
+                &format!("electronic level {}", i + 1),
+                &l.energy,
+                &f.electronic.unit,
+                &f.electronic.source,
+            )?);
         }
-        SpeciesCard {
-            name: self.name.clone(),
-            description: self.description.clone(),
-            kind: self.kind,
-            constants: rows
-                .into_iter()
-                .map(|[q, v, u, s]| Constant {
-                    quantity: q,
-                    value: v,
-                    unit: u,
-                    source: s,
-                })
-                .collect(),
-        }
+        Ok(out)
     }
 }
 
-/// One constant of a species with its unit and source.
-#[derive(Debug, Clone, Serialize)]
-pub struct Constant {
+/// What one constant of a species is.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Quantity {
+    /// The mass of the atom or molecule.
+    Mass,
+    /// The spin I of each nucleus of a homonuclear molecule (in units of
+    /// ħ), with the nuclear-spin weights of even and odd J it gives and
+    /// whether the electronic ground state swaps the parities.
+    NuclearSpin {
+        /// The weights of even and odd J.
+        weights: ParityWeights,
+        /// Whether the ground state swaps the parities (as O2's does).
+        swapped: bool,
+    },
+    /// The rotational constant B_e.
+    BE,
+    /// The rotation–vibration coupling α_e.
+    AlphaE,
+    /// The centrifugal distortion constant D_e.
+    DE,
+    /// The harmonic vibrational constant ω_e.
+    We,
+    /// The anharmonicity ω_e x_e.
+    WeXe,
+    /// An electronic level's energy, with its label and degeneracy.
+    ElectronicLevel {
+        /// The level's label, if the file gives one.
+        label: Option<String>,
+        /// Its degeneracy g.
+        degeneracy: u32,
+    },
+}
+
+/// One constant of a species: its value exactly, the text it was written
+/// as, its unit and its source.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SpeciesConstant {
     /// What it is.
-    pub quantity: String,
-    /// Its value as given.
-    pub value: String,
-    /// Its unit.
+    pub quantity: Quantity,
+    /// Its value in `unit`, exactly.
+    pub value: BigRational,
+    /// The value as written in the species file (its significant figures
+    /// kept, e.g. `1904.20`).
+    pub written: String,
+    /// Its unit as written (`ħ` for a nuclear spin).
     pub unit: String,
-    /// Where it comes from.
-    pub source: String,
-}
-
-/// `zsum species show NAME`.
-#[derive(Debug, Clone, Serialize)]
-pub struct SpeciesCard {
-    /// Name.
-    pub name: String,
-    /// Description.
-    pub description: String,
-    /// Atom or linear.
-    pub kind: Kind,
-    /// Every constant.
-    pub constants: Vec<Constant>,
-}
-
-impl crate::export::Tabular for SpeciesCard {
-    fn preamble(&self) -> Vec<String> {
-        vec![format!("{}: {}", self.name, self.description)]
-    }
-    fn columns(&self) -> Vec<crate::export::Column> {
-        ["quantity", "value", "unit", "source"]
-            .map(crate::export::Column::plain)
-            .to_vec()
-    }
-    fn rows(&self) -> Vec<Vec<String>> {
-        self.constants
-            .iter()
-            .map(|c| {
-                vec![
-                    c.quantity.clone(),
-                    c.value.clone(),
-                    c.unit.clone(),
-                    c.source.clone(),
-                ]
-            })
-            .collect()
-    }
+    /// Where it comes from; `None` for the nuclear spin, which the file
+    /// gives without a source of its own.
+    pub source: Option<String>,
 }
 
 /// A set of species: the built-in ones plus any read from files.
@@ -693,91 +713,4 @@ fn distance(a: &str, b: &str) -> usize {
         prev = cur;
     }
     prev[b.len()]
-}
-
-/// `zsum species list`.
-#[derive(Debug, Clone, Serialize)]
-pub struct SpeciesList {
-    /// One row per species.
-    pub species: Vec<SpeciesSummary>,
-    /// The unit of every field that has one, from the table's columns.
-    pub units: serde_json::Map<String, serde_json::Value>,
-}
-
-impl SpeciesList {
-    fn columns_for() -> Vec<crate::export::Column> {
-        use crate::export::Column;
-        vec![
-            Column::plain("name"),
-            Column::plain("kind"),
-            Column::with_unit("mass", "u").key("mass"),
-            Column::plain("ortho/para"),
-            Column::plain("description"),
-        ]
-    }
-}
-
-/// One row of `zsum species list`.
-#[derive(Debug, Clone, Serialize)]
-pub struct SpeciesSummary {
-    /// Name.
-    pub name: String,
-    /// Atom or linear.
-    pub kind: Kind,
-    /// Mass in u (unified atomic mass units), exact as given or converted
-    /// exactly, to 12 significant digits where longer.
-    pub mass: String,
-    /// Ortho/para statistics.
-    pub spin_isomers: bool,
-    /// Description.
-    pub description: String,
-}
-
-impl Database {
-    /// The list for `zsum species list`.
-    pub fn list(&self) -> SpeciesList {
-        SpeciesList {
-            species: self
-                .species
-                .iter()
-                .map(|s| SpeciesSummary {
-                    name: s.name.clone(),
-                    kind: s.kind,
-                    mass: crate::report::text::rational_text(
-                        &(&s.mass_kg / crate::units::constants::atomic_mass_constant()),
-                        12,
-                    ),
-                    spin_isomers: s.has_spin_isomers(),
-                    description: s.description.clone(),
-                })
-                .collect(),
-            units: crate::export::units_block(&SpeciesList::columns_for()),
-        }
-    }
-}
-
-impl crate::export::Tabular for SpeciesList {
-    fn preamble(&self) -> Vec<String> {
-        vec![format!(
-            "{} species; `zsum species show NAME` gives every constant with its unit and source",
-            self.species.len()
-        )]
-    }
-    fn columns(&self) -> Vec<crate::export::Column> {
-        Self::columns_for()
-    }
-    fn rows(&self) -> Vec<Vec<String>> {
-        self.species
-            .iter()
-            .map(|s| {
-                vec![
-                    s.name.clone(),
-                    format!("{:?}", s.kind).to_lowercase(),
-                    s.mass.clone(),
-                    if s.spin_isomers { "yes" } else { "no" }.into(),
-                    s.description.clone(),
-                ]
-            })
-            .collect()
-    }
 }

@@ -1,13 +1,17 @@
-//! Standard molar functions of one species at T and p.
+//! Standard molar functions of one species at T and p, as certified
+//! numbers: every sum of the engine enters with its error radius, and the
+//! translational, spin and mixing terms are added to it in ball arithmetic,
+//! so each value carries a rigorous bound. The report layer writes the
+//! printed tables from these numbers.
 
 use super::Species;
 use crate::error::{Error, ErrorKind, Result};
 use crate::exact::{exact_decimal, rational_string};
-use crate::export::{units_block, Column, Tabular};
 use crate::models::diatomic::ParityWeights;
 use crate::models::ParticleInBox;
 use crate::spectrum::Spectrum;
-use crate::sum::{float_to_decimal, thermo, Cached, Temperature};
+use crate::sum::ball::{Ball, RP};
+use crate::sum::{rational_ball, thermo, Cached, Certified, Temperature};
 use crate::units::constants;
 use num_rational::BigRational;
 use num_traits::{One, Signed};
@@ -83,17 +87,6 @@ impl Isomer {
     pub fn is_frozen(&self) -> bool {
         !matches!(self, Isomer::Equilibrium)
     }
-
-    /// Its name in output.
-    pub fn name(&self) -> String {
-        match self {
-            Isomer::Equilibrium => "equilibrium".into(),
-            Isomer::Normal => "normal".into(),
-            Isomer::Ortho => "ortho".into(),
-            Isomer::Para => "para".into(),
-            Isomer::Fraction(x) => format!("fraction={}", exact_decimal(x, 20)),
-        }
-    }
 }
 
 /// The amount the functions are given for.
@@ -109,24 +102,6 @@ pub enum Basis {
 }
 
 impl Basis {
-    /// The units of an entropy or heat capacity and of an energy.
-    pub fn units(self) -> (&'static str, &'static str) {
-        match self {
-            Basis::Mole => ("J/(mol K)", "J/mol"),
-            Basis::Kilogram => ("J/(kg K)", "J/kg"),
-            Basis::Particle => ("J/K", "J"),
-        }
-    }
-
-    /// Its name in output: `mole`, `kg` or `particle`.
-    pub fn name(self) -> &'static str {
-        match self {
-            Basis::Mole => "mole",
-            Basis::Kilogram => "kg",
-            Basis::Particle => "particle",
-        }
-    }
-
     /// The factor that turns a value per k (S/k, Cp/k) into this basis:
     /// R = k N_A per mole, R/M per kilogram, k per particle; exact.
     fn per_k(self, sp: &Species) -> BigRational {
@@ -168,52 +143,6 @@ impl Default for MolarOptions {
             basis: Basis::Mole,
         }
     }
-}
-
-/// Standard molar functions at one temperature.
-#[derive(Debug, Clone, Serialize)]
-pub struct MolarPoint {
-    /// The species.
-    pub species: String,
-    /// T in kelvin.
-    #[serde(rename = "T")]
-    pub t: String,
-    /// p in Pa.
-    pub p: String,
-    /// The spin-isomer state, for species that have one.
-    pub isomer: Option<String>,
-    /// The ortho fraction, for species with spin isomers.
-    pub ortho_fraction: Option<String>,
-    /// Conventional entropy (nuclear spin excluded), in `units["S"]`.
-    #[serde(rename = "S")]
-    pub s: String,
-    /// Entropy including nuclear spin (and isomer mixing); equal to S where
-    /// no nuclear-spin statistics are modelled.
-    #[serde(rename = "S_total")]
-    pub s_total: String,
-    /// Cp.
-    #[serde(rename = "Cp")]
-    pub cp: String,
-    /// Cv.
-    #[serde(rename = "Cv")]
-    pub cv: String,
-    /// H(T) − H0, with H0 as [`MolarPoint::reference`] says.
-    #[serde(rename = "H_minus_H0")]
-    pub h: String,
-    /// −(G(T) − H0)/T.
-    #[serde(rename = "minus_G_minus_H0_over_T")]
-    pub g: String,
-    /// What H0 is: the lowest level, or for a frozen spin-isomer mixture
-    /// each isomer's own lowest level.
-    pub reference: String,
-    /// The basis: `mole`, `kg` or `particle`.
-    pub per: String,
-    /// How far the gas is from quantum degeneracy at this T and p, and
-    /// whether the classical translation is flagged.
-    #[serde(flatten)]
-    pub degeneracy: Degeneracy,
-    /// The unit of every field that has one, from the table's columns.
-    pub units: serde_json::Map<String, serde_json::Value>,
 }
 
 /// The degeneracy g that divides nΛ³ in the ideal-gas quantum correction.
@@ -335,31 +264,75 @@ pub(crate) fn degeneracy(sp: &Species, t: &BigRational, o: &MolarOptions) -> Res
     })
 }
 
-/// Per-R values of one contribution.
+/// Per-R values of one contribution, each a ball (centre and error bound).
 #[derive(Debug, Clone)]
 pub(crate) struct Part {
     /// S/R (absolute, spin included as modelled).
-    pub s: Float,
+    pub s: Ball,
     /// (H − H0)/RT.
-    pub h: Float,
+    pub h: Ball,
     /// Cv/R.
-    pub cv: Float,
+    pub cv: Ball,
     /// ln q (absolute).
-    pub ln_q: Float,
+    pub ln_q: Ball,
 }
 
 /// Guard digits: the engine's values are certified to this many digits
 /// beyond those printed; the molar functions add a few of them without
 /// cancellation (every term of S, H and Cp is positive but the spin and
-/// mixing corrections, which are small), so the printed digits stand.
+/// mixing corrections, which are small), so the printed digits stand. The
+/// radius of every value says so for each value itself.
 const GUARD: u32 = 5;
 
+/// The working precision, in bits, of values to `digits` digits.
 pub(crate) fn prec(digits: u32) -> u32 {
     ((digits + 12) as f64 * std::f64::consts::LOG2_10).ceil() as u32 + 32
 }
 
-pub(crate) fn fl(prec: u32, r: &BigRational) -> Float {
+fn fl(prec: u32, r: &BigRational) -> Float {
     Float::with_val(prec, crate::sum::to_rug(r))
+}
+
+/// An exact number as a ball of `prec` bits.
+pub(crate) fn exact<T>(prec: u32, v: T) -> Ball
+where
+    Float: rug::Assign<T>,
+{
+    Ball::exact(Float::with_val(prec, v))
+}
+
+/// A centre whose error is not bounded (an operation whose ball would say
+/// nothing): its digits are never proved.
+fn unbounded(c: Float) -> Ball {
+    Ball {
+        c,
+        r: Float::with_val(RP, rug::float::Special::Infinity),
+    }
+}
+
+/// ln of a ball (unbounded where the ball reaches zero).
+fn ln(b: &Ball) -> Ball {
+    b.ln()
+        .unwrap_or_else(|| unbounded(Float::with_val(b.prec(), b.c.ln_ref())))
+}
+
+/// e to a ball (unbounded where it leaves MPFR's range or the radius is 1
+/// or more).
+fn exp(b: &Ball) -> Ball {
+    b.exp()
+        .unwrap_or_else(|| unbounded(Float::with_val(b.prec(), b.c.exp_ref())))
+}
+
+/// `a / b` (unbounded where b's ball holds zero).
+pub(crate) fn div(a: &Ball, b: &Ball) -> Ball {
+    a.div(b)
+        .unwrap_or_else(|| unbounded(Float::with_val(a.prec().max(b.prec()), &a.c / &b.c)))
+}
+
+/// A certified value of the engine at `prec` bits: its centre rounded,
+/// that rounding added to its radius.
+fn engine(c: &Certified, prec: u32) -> Ball {
+    Ball::rounded(Float::with_val(prec, c.value()), c.radius().clone())
 }
 
 /// hc/k in K per cm⁻¹ (the second radiation constant in m K, × 100),
@@ -377,13 +350,13 @@ pub(crate) fn internal_part(
 ) -> Result<Part> {
     let p = prec(digits);
     let point = thermo(s, &Temperature::Kelvin(t.clone()), digits + GUARD)?;
-    let ln_q = Float::with_val(p, point.ln_q.value());
-    let u = Float::with_val(p, point.u_over_kt.value());
-    let cv = Float::with_val(p, point.cv_over_k.value());
-    let e0 = fl(p, &(zero * c2_per_cm() / t));
+    let ln_q = engine(&point.ln_q, p);
+    let u = engine(&point.u_over_kt, p);
+    let cv = engine(&point.cv_over_k, p);
+    let e0 = rational_ball(&(zero * c2_per_cm() / t), p);
     Ok(Part {
-        s: Float::with_val(p, &ln_q + &u),
-        h: Float::with_val(p, &u - &e0),
+        s: ln_q.add(&u),
+        h: u.sub(&e0),
         cv,
         ln_q,
     })
@@ -398,32 +371,34 @@ fn translation(m: &BigRational, t: &BigRational, o: &MolarOptions) -> Result<Par
     match &o.translation {
         Translation::SackurTetrode => {
             // ln[(2π m kT/h²)^{3/2} kT/p] + 5/2
-            let pi = Float::with_val(p, rug::float::Constant::Pi);
-            let a = fl(p, &(m * &kt / (&h * &h))) * Float::with_val(p, &pi * 2u32);
-            let ln_q = Float::with_val(p, a.ln()) * 1.5f64 + fl(p, &(&kt / &o.pressure)).ln();
+            let pi = Ball::rounded(Float::with_val(p, rug::float::Constant::Pi), Float::new(RP));
+            let a = rational_ball(&(m * &kt / (&h * &h)), p).mul(&pi.mul_int(2));
+            let ln_q = ln(&a)
+                .mul(&exact(p, 1.5f64))
+                .add(&ln(&rational_ball(&(&kt / &o.pressure), p)));
             Ok(Part {
-                s: Float::with_val(p, &ln_q + 2.5f64),
-                h: Float::with_val(p, 2.5f64),
-                cv: Float::with_val(p, 1.5f64),
+                s: ln_q.add(&exact(p, 2.5f64)),
+                h: exact(p, 2.5f64),
+                cv: exact(p, 1.5f64),
                 ln_q,
             })
         }
         Translation::Box(side) => {
             let b = ParticleInBox::cube(3)?.with_scale(m, side);
             let point = thermo(&b, &Temperature::Kelvin(t.clone()), o.digits + GUARD)?;
-            let ln_qb = Float::with_val(p, point.ln_q.value());
-            let u = Float::with_val(p, point.u_over_kt.value());
-            let cv = Float::with_val(p, point.cv_over_k.value());
+            let ln_qb = engine(&point.ln_q, p);
+            let u = engine(&point.u_over_kt, p);
+            let cv = engine(&point.cv_over_k, p);
             // Ground level 3 box units, measured from.
             let unit_j = crate::units::box_unit_joules(m, side);
-            let e0 = fl(p, &(BigRational::from_integer(3.into()) * unit_j / &kt));
+            let e0 = rational_ball(&(BigRational::from_integer(3.into()) * unit_j / &kt), p);
             // N = pV/kT per molecule count in the box.
             let v = side * side * side;
-            let ln_n = fl(p, &(&o.pressure * v / &kt)).ln();
-            let ln_q = Float::with_val(p, &ln_qb - &ln_n);
+            let ln_n = ln(&rational_ball(&(&o.pressure * v / &kt), p));
+            let ln_q = ln_qb.sub(&ln_n);
             Ok(Part {
-                s: Float::with_val(p, &ln_q + &u) + 1u32,
-                h: Float::with_val(p, &u - &e0) + 1u32,
+                s: ln_q.add(&u).add(&exact(p, 1u32)),
+                h: u.sub(&e0).add(&exact(p, 1u32)),
                 cv,
                 ln_q,
             })
@@ -431,12 +406,27 @@ fn translation(m: &BigRational, t: &BigRational, o: &MolarOptions) -> Result<Par
     }
 }
 
-fn xlnx(x: &Float) -> Float {
-    if x.is_zero() {
-        Float::with_val(x.prec(), 0)
-    } else {
-        Float::with_val(x.prec(), x.ln_ref()) * x
+/// x ln x, 0 at 0. A ball about 0 of radius r < 1/e holds values whose
+/// x ln x is at most r |ln r| in size; the bound taken is r (|ln r| + 1).
+fn xlnx(x: &Ball) -> Ball {
+    if x.c.is_zero() {
+        let r = if x.r.is_zero() {
+            Float::new(RP)
+        } else if x.r < 0.25 {
+            let ln_r = Float::with_val(RP, x.r.ln_ref());
+            crate::sum::ball::up_mul(
+                &x.r,
+                &crate::sum::ball::up_add(&ln_r.abs(), &Float::with_val(RP, 1)),
+            )
+        } else {
+            Float::with_val(RP, rug::float::Special::Infinity)
+        };
+        return Ball {
+            c: Float::with_val(x.prec(), 0),
+            r,
+        };
     }
+    ln(x).mul(x)
 }
 
 /// The spin isomers' weights `(ortho, para)` of a species.
@@ -469,8 +459,8 @@ pub(crate) struct IsomerParts {
     /// Each isomer's lowest level above the common zero, in units of kT:
     /// subtracted from its H/RT when the composition is frozen, so that
     /// each isomer keeps its own lowest level as its energy zero.
-    pub ortho_zero: Float,
-    pub para_zero: Float,
+    pub ortho_zero: Ball,
+    pub para_zero: Ball,
 }
 
 /// A species' internal spectra: the whole and, for species with spin
@@ -540,27 +530,26 @@ pub(crate) fn isomer_parts(
     let ortho = internal_part(o, t, &zero, digits)?;
     let para = internal_part(p, t, &zero, digits)?;
     let prec = ortho.ln_q.prec();
-    let above = |s: &Cached| fl(prec, &((s.ground_energy() - &zero) * c2_per_cm() / t));
+    let above = |s: &Cached| rational_ball(&((s.ground_energy() - &zero) * c2_per_cm() / t), prec);
     let (ortho_zero, para_zero) = (above(o), above(p));
     // The equilibrium mixture from its two isomers (q = q_o + q_p): with
     // x = q_o/q, U and Cv are the mixture's mean and variance of E/kT,
     // Cv = x Cv_o + (1 − x) Cv_p + x(1 − x)(U_o − U_p)², from absolute U/kT.
-    let d = Float::with_val(prec, &para.ln_q - &ortho.ln_q);
-    let x = (Float::with_val(prec, d.exp_ref()) + 1u32).recip();
-    let one_x = Float::with_val(prec, 1u32 - &x);
-    let ln_q = Float::with_val(prec, &ortho.ln_q - Float::with_val(prec, x.ln_ref()));
-    let (uo, up) = (
-        Float::with_val(prec, &ortho.s - &ortho.ln_q),
-        Float::with_val(prec, &para.s - &para.ln_q),
-    );
-    let u = Float::with_val(prec, &x * &uo) + Float::with_val(prec, &one_x * &up);
-    let gap = Float::with_val(prec, &uo - &up);
-    let cv = Float::with_val(prec, &x * &ortho.cv)
-        + Float::with_val(prec, &one_x * &para.cv)
-        + Float::with_val(prec, &x * &one_x) * Float::with_val(prec, gap.square_ref());
-    let h = Float::with_val(prec, &x * &ortho.h) + Float::with_val(prec, &one_x * &para.h);
+    let one = exact(prec, 1u32);
+    let d = para.ln_q.sub(&ortho.ln_q);
+    let x = div(&one, &exp(&d).add(&one));
+    let one_x = one.sub(&x);
+    let ln_q = ortho.ln_q.sub(&ln(&x));
+    let (uo, up) = (ortho.s.sub(&ortho.ln_q), para.s.sub(&para.ln_q));
+    let u = x.mul(&uo).add(&one_x.mul(&up));
+    let gap = uo.sub(&up);
+    let cv = x
+        .mul(&ortho.cv)
+        .add(&one_x.mul(&para.cv))
+        .add(&x.mul(&one_x).mul(&gap.mul(&gap)));
+    let h = x.mul(&ortho.h).add(&one_x.mul(&para.h));
     let eq = Part {
-        s: Float::with_val(prec, &ln_q + &u),
+        s: ln_q.add(&u),
         h,
         cv,
         ln_q,
@@ -576,6 +565,67 @@ pub(crate) fn isomer_parts(
     })
 }
 
+/// What H0, the zero of H − H0 and −(G − H0)/T, is.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Reference {
+    /// The species' lowest level.
+    LowestLevel,
+    /// For a frozen spin-isomer composition: each isomer's own lowest
+    /// level.
+    EachIsomerLowestLevel,
+}
+
+impl Reference {
+    /// The reference of a species with spin isomers in state `isomer`, or
+    /// without them (`None`).
+    pub fn of(isomer: Option<&Isomer>) -> Reference {
+        match isomer {
+            Some(i) if i.is_frozen() => Reference::EachIsomerLowestLevel,
+            _ => Reference::LowestLevel,
+        }
+    }
+}
+
+/// The standard molar functions of one species at one temperature and
+/// pressure, each a [`Certified`] number in the options' basis (per mole:
+/// J/(mol K) and J/mol; per kilogram: J/(kg K) and J/kg; per particle: J/K
+/// and J), computed for [`MolarValues::digits`] significant digits.
+#[derive(Debug, Clone)]
+pub struct MolarValues {
+    /// The species' name.
+    pub species: String,
+    /// T in kelvin, exact.
+    pub t: BigRational,
+    /// p in Pa, exact.
+    pub pressure: BigRational,
+    /// The spin-isomer state, for species that have one.
+    pub isomer: Option<Isomer>,
+    /// The ortho fraction, for species with spin isomers.
+    pub ortho_fraction: Option<Certified>,
+    /// Conventional entropy S (nuclear spin excluded).
+    pub s: Certified,
+    /// Entropy including nuclear spin (and isomer mixing); equal to S where
+    /// no nuclear-spin statistics are modelled.
+    pub s_total: Certified,
+    /// Heat capacity at constant pressure.
+    pub cp: Certified,
+    /// Heat capacity at constant volume.
+    pub cv: Certified,
+    /// H(T) − H0, with H0 as [`MolarValues::reference`] says.
+    pub h_minus_h0: Certified,
+    /// −(G(T) − H0)/T.
+    pub minus_g_minus_h0_over_t: Certified,
+    /// What H0 is.
+    pub reference: Reference,
+    /// The amount the values are given for.
+    pub basis: Basis,
+    /// The significant digits the values were computed for.
+    pub digits: u32,
+    /// How far the gas is from quantum degeneracy at this T and p, and
+    /// whether the classical translation is flagged.
+    pub degeneracy: Degeneracy,
+}
+
 /// The standard molar functions of `species` at `t` (K).
 ///
 /// ```
@@ -584,10 +634,12 @@ pub(crate) fn isomer_parts(
 /// let db = Database::builtin()?;
 /// let p = molar(db.find("Ar")?, &parse_rational("298.15")?, &MolarOptions::default())?;
 /// // CODATA Key Values (1989), S°(Ar, 298.15 K) = 154.846 ± 0.003 J/(mol K) (from memory).
-/// assert!((p.s.parse::<f64>().unwrap() - 154.846).abs() < 0.002);
+/// assert!((p.s.to_f64() - 154.846).abs() < 0.002);
+/// // Every printed digit is proved by the value's radius.
+/// assert!(p.s.decimal(p.digits).is_some());
 /// # Ok::<(), zsum::Error>(())
 /// ```
-pub fn molar(sp: &Species, t: &BigRational, o: &MolarOptions) -> Result<MolarPoint> {
+pub fn molar(sp: &Species, t: &BigRational, o: &MolarOptions) -> Result<MolarValues> {
     let spectra = Spectra::new(sp, o.model)?;
     molar_with(sp, &spectra.cached(), t, o)
 }
@@ -623,139 +675,130 @@ pub(crate) fn molar_with(
     cached: &CachedSpectra,
     t: &BigRational,
     o: &MolarOptions,
-) -> Result<MolarPoint> {
+) -> Result<MolarValues> {
     validate(t, o)?;
     let p = prec(o.digits);
     let mut degeneracy = degeneracy(sp, t, o)?;
     let tr = translation(&sp.mass_kg, t, o)?;
-    let (int_s, int_s_total, int_h, int_cv, ortho) = match (&o.isomer, sp.has_spin_isomers()) {
-        (Some(_), false) => {
-            return Err(Error::invalid(
+    let one = exact(p, 1u32);
+    let (int_s, int_s_total, int_h, int_cv, ortho) =
+        match (&o.isomer, sp.has_spin_isomers()) {
+            (Some(_), false) => return Err(Error::invalid(
                 "isomer",
                 &sp.name,
                 "only homonuclear molecules with nuclear spin (H2, D2, N2) have ortho and para \
                  forms",
-            ))
-        }
-        (None, false) => {
-            let s = &cached.full;
-            let part = internal_part(s, t, &s.ground_energy(), o.digits)?;
-            let g = Float::with_val(p, sp.spin_states()).ln();
-            let conv = Float::with_val(p, &part.s - &g);
-            (conv, part.s, part.h, part.cv, None)
-        }
-        (iso, true) => {
-            let ip = isomer_parts(sp, cached, t, o.digits)?;
-            // Equilibrium ortho fraction q_o/q.
-            let d = Float::with_val(p, &ip.para.ln_q - &ip.ortho.ln_q);
-            let x_eq = Float::with_val(p, d.exp() + 1u32).recip();
-            let (wo, wp) = (ip.w_ortho, ip.w_para);
-            let frozen = |x: Float| {
-                let one_x = Float::with_val(p, 1u32 - &x);
-                let mix = Float::with_val(p, xlnx(&x) + xlnx(&one_x));
-                let total = Float::with_val(p, &x * &ip.ortho.s)
-                    + Float::with_val(p, &one_x * &ip.para.s)
-                    - &mix;
-                let so = Float::with_val(p, &ip.ortho.s - Float::with_val(p, wo).ln());
-                let spp = Float::with_val(p, &ip.para.s - Float::with_val(p, wp).ln());
-                let conv = Float::with_val(p, &x * &so) + Float::with_val(p, &one_x * &spp);
-                // Frozen: each isomer from its own lowest level.
-                let h = Float::with_val(p, &x * Float::with_val(p, &ip.ortho.h - &ip.ortho_zero))
-                    + Float::with_val(p, &one_x * Float::with_val(p, &ip.para.h - &ip.para_zero));
-                let cv = Float::with_val(p, &x * &ip.ortho.cv)
-                    + Float::with_val(p, &one_x * &ip.para.cv);
-                (conv, total, h, cv, Some(x))
-            };
-            match iso.clone().unwrap_or_default() {
-                Isomer::Equilibrium => {
-                    let g = Float::with_val(p, sp.spin_states()).ln();
-                    let conv = Float::with_val(p, &ip.eq.s - &g);
-                    (
-                        conv,
-                        ip.eq.s.clone(),
-                        ip.eq.h.clone(),
-                        ip.eq.cv.clone(),
-                        Some(x_eq),
-                    )
-                }
-                Isomer::Normal => frozen(Float::with_val(p, wo) / Float::with_val(p, wo + wp)),
-                Isomer::Ortho => frozen(Float::with_val(p, 1u32)),
-                Isomer::Para => frozen(Float::with_val(p, 0u32)),
-                Isomer::Fraction(x) => frozen(fl(p, &x)),
+            )),
+            (None, false) => {
+                let s = &cached.full;
+                let part = internal_part(s, t, &s.ground_energy(), o.digits)?;
+                let g = ln(&exact(p, sp.spin_states()));
+                let conv = part.s.sub(&g);
+                (conv, part.s, part.h, part.cv, None)
             }
-        }
-    };
-    let s = Float::with_val(p, &tr.s + &int_s);
-    let s_total = Float::with_val(p, &tr.s + &int_s_total);
-    let h = Float::with_val(p, &tr.h + &int_h);
-    let cv = Float::with_val(p, &tr.cv + &int_cv);
-    let r = fl(p, &o.basis.per_k(sp));
-    let rt = Float::with_val(p, &r * fl(p, t));
-    let show = |v: Float| float_to_decimal(&v, 0.0, 0.0, o.digits).0;
+            (iso, true) => {
+                let ip = isomer_parts(sp, cached, t, o.digits)?;
+                // Equilibrium ortho fraction q_o/q.
+                let d = ip.para.ln_q.sub(&ip.ortho.ln_q);
+                let x_eq = div(&one, &exp(&d).add(&one));
+                let (wo, wp) = (ip.w_ortho, ip.w_para);
+                let frozen = |x: Ball| {
+                    let one_x = one.sub(&x);
+                    let mix = xlnx(&x).add(&xlnx(&one_x));
+                    let total = x.mul(&ip.ortho.s).add(&one_x.mul(&ip.para.s)).sub(&mix);
+                    let so = ip.ortho.s.sub(&ln(&exact(p, wo)));
+                    let spp = ip.para.s.sub(&ln(&exact(p, wp)));
+                    let conv = x.mul(&so).add(&one_x.mul(&spp));
+                    // Frozen: each isomer from its own lowest level.
+                    let h = x
+                        .mul(&ip.ortho.h.sub(&ip.ortho_zero))
+                        .add(&one_x.mul(&ip.para.h.sub(&ip.para_zero)));
+                    let cv = x.mul(&ip.ortho.cv).add(&one_x.mul(&ip.para.cv));
+                    (conv, total, h, cv, Some(x))
+                };
+                match iso.clone().unwrap_or_default() {
+                    Isomer::Equilibrium => {
+                        let g = ln(&exact(p, sp.spin_states()));
+                        let conv = ip.eq.s.sub(&g);
+                        (
+                            conv,
+                            ip.eq.s.clone(),
+                            ip.eq.h.clone(),
+                            ip.eq.cv.clone(),
+                            Some(x_eq),
+                        )
+                    }
+                    Isomer::Normal => frozen(div(&exact(p, wo), &exact(p, wo + wp))),
+                    Isomer::Ortho => frozen(exact(p, 1u32)),
+                    Isomer::Para => frozen(exact(p, 0u32)),
+                    Isomer::Fraction(x) => frozen(rational_ball(&x, p)),
+                }
+            }
+        };
+    let s = tr.s.add(&int_s);
+    let s_total = tr.s.add(&int_s_total);
+    let h = tr.h.add(&int_h);
+    let cv = tr.cv.add(&int_cv);
+    let r = rational_ball(&o.basis.per_k(sp), p);
+    let rt = r.mul(&rational_ball(t, p));
     let isomer = sp
         .has_spin_isomers()
         .then(|| o.isomer.clone().unwrap_or_default());
-    let cp = Float::with_val(p, &cv + 1u32);
-    let g = Float::with_val(p, &s - &h);
+    let cp = cv.add(&one);
+    let g = s.sub(&h);
     // A negative entropy is never printed unflagged.
     // (−(G − H0)/T is not an entropy: it is negative for frozen normal
     // hydrogen at low T, where H − H0 holds the ortho rotational energy.)
     degeneracy.negative_entropy = [&s, &s_total]
         .iter()
-        .any(|v| v.cmp0() == Some(std::cmp::Ordering::Less));
+        .any(|v| v.c.cmp0() == Some(std::cmp::Ordering::Less));
     degeneracy.quantum_flag |= degeneracy.negative_entropy;
-    Ok(MolarPoint {
+    Ok(MolarValues {
         species: sp.name.clone(),
-        t: exact_decimal(t, 30),
-        p: exact_decimal(&o.pressure, 30),
-        reference: reference_text(isomer.as_ref()).into(),
-        per: o.basis.name().into(),
-        units: units_block(&MolarTable::columns_for(isomer.is_some(), o.basis)),
-        isomer: isomer.map(|i| i.name()),
-        ortho_fraction: ortho.as_ref().map(|x| show(x.clone())),
-        s: show(Float::with_val(p, &s * &r)),
-        s_total: show(Float::with_val(p, &s_total * &r)),
-        cp: show(Float::with_val(p, &cp * &r)),
-        cv: show(Float::with_val(p, &cv * &r)),
-        h: show(Float::with_val(p, &h * &rt)),
-        g: show(Float::with_val(p, &g * &r)),
+        t: t.clone(),
+        pressure: o.pressure.clone(),
+        reference: Reference::of(isomer.as_ref()),
+        basis: o.basis,
+        digits: o.digits,
+        isomer,
+        ortho_fraction: ortho.map(Certified),
+        s: Certified(s.mul(&r)),
+        s_total: Certified(s_total.mul(&r)),
+        cp: Certified(cp.mul(&r)),
+        cv: Certified(cv.mul(&r)),
+        h_minus_h0: Certified(h.mul(&rt)),
+        minus_g_minus_h0_over_t: Certified(g.mul(&r)),
         degeneracy,
     })
 }
 
-/// What H0 is, for a species with spin isomers in state `isomer` (or
-/// without them, `None`).
-pub fn reference_text(isomer: Option<&Isomer>) -> &'static str {
-    match isomer {
-        Some(i) if i.is_frozen() => {
-            "H0 = each spin isomer at its own lowest level (composition frozen)"
-        }
-        _ => "H0 = the lowest level",
-    }
-}
-
-/// A property table: one species over a temperature grid.
-#[derive(Debug, Clone, Serialize)]
-#[serde(transparent)]
-pub struct MolarTable {
-    /// The rows, in grid order.
-    pub rows: Vec<MolarPoint>,
+/// One species' standard molar functions over a temperature grid.
+#[derive(Debug, Clone)]
+pub struct MolarGrid {
+    /// The species' name.
+    pub species: String,
+    /// p in Pa, exact.
+    pub pressure: BigRational,
     /// The amount every row is given for.
-    #[serde(skip)]
     pub basis: Basis,
+    /// The significant digits every value was computed for.
+    pub digits: u32,
+    /// The rows, in grid order.
+    pub rows: Vec<MolarValues>,
 }
 
-impl MolarTable {
-    /// Builds the table of `sp` over `grid` (kelvin), listing internal
-    /// levels once for the whole grid.
-    pub fn build(sp: &Species, grid: &[BigRational], o: &MolarOptions) -> Result<Self> {
-        Self::build_metered(sp, grid, o, &crate::budget::Meter::unlimited())
+impl MolarGrid {
+    /// The functions of `sp` over `grid` (kelvin), listing internal levels
+    /// once for the whole grid. A temperature where the gas is
+    /// quantum-degenerate refuses the whole grid before any sum is done.
+    pub fn compute(sp: &Species, grid: &[BigRational], o: &MolarOptions) -> Result<Self> {
+        Self::compute_metered(sp, grid, o, &crate::budget::Meter::unlimited())
     }
 
-    /// As [`MolarTable::build`], the temperatures timed by `meter` (hottest,
-    /// costliest, first), which refuses the rest once their projected time
-    /// exceeds its budget.
-    pub fn build_metered(
+    /// As [`MolarGrid::compute`], the temperatures timed by `meter`
+    /// (hottest, costliest, first), which refuses the rest once their
+    /// projected time exceeds its budget.
+    pub fn compute_metered(
         sp: &Species,
         grid: &[BigRational],
         o: &MolarOptions,
@@ -770,30 +813,33 @@ impl MolarTable {
         // Hottest first so one listing serves every temperature.
         let mut order: Vec<usize> = (0..grid.len()).collect();
         order.sort_by(|a, b| grid[*b].cmp(&grid[*a]));
-        let mut rows: Vec<Option<MolarPoint>> = vec![None; grid.len()];
+        let mut rows: Vec<Option<MolarValues>> = vec![None; grid.len()];
         for (count, i) in order.into_iter().enumerate() {
             rows[i] = Some(molar_with(sp, &cached, &grid[i], o)?);
             meter.at(count as f64 + 1.0)?;
         }
-        Ok(MolarTable {
+        Ok(MolarGrid {
+            species: sp.name.clone(),
+            pressure: o.pressure.clone(),
             basis: o.basis,
+            digits: o.digits,
             rows: rows.into_iter().flatten().collect(),
         })
     }
 }
 
-/// Property tables of every species in `species` over one grid, built on
-/// all available cores (one species per task).
-pub fn tables(
+/// The functions of every species in `species` over one grid, computed on
+/// all available cores (one species per task), in the order given.
+pub fn molar_grids(
     species: &[&Species],
     grid: &[BigRational],
     o: &MolarOptions,
-) -> Result<Vec<MolarTable>> {
+) -> Result<Vec<MolarGrid>> {
     let threads = std::thread::available_parallelism()
         .map_or(1, |n| n.get())
         .max(1);
     let next = std::sync::atomic::AtomicUsize::new(0);
-    let slots: Vec<std::sync::Mutex<Option<Result<MolarTable>>>> = species
+    let slots: Vec<std::sync::Mutex<Option<Result<MolarGrid>>>> = species
         .iter()
         .map(|_| std::sync::Mutex::new(None))
         .collect();
@@ -804,7 +850,7 @@ pub fn tables(
                 if i >= species.len() {
                     break;
                 }
-                let r = MolarTable::build(species[i], grid, o);
+                let r = MolarGrid::compute(species[i], grid, o);
                 if let Ok(mut slot) = slots[i].lock() {
                     *slot = Some(r);
                 }
@@ -825,254 +871,6 @@ pub fn tables(
         .collect()
 }
 
-impl MolarTable {
-    /// Warning lines for the rows whose classical translation is flagged
-    /// (none when no row is).
-    pub fn warnings(&self) -> Vec<String> {
-        degeneracy_warnings(self.rows.iter().map(|r| {
-            (
-                r.species.as_str(),
-                r.t.as_str(),
-                r.p.as_str(),
-                &r.degeneracy,
-            )
-        }))
-    }
-}
-
-/// The nΛ³ and flag columns of every gas table, CSV included: a `*` flag
-/// marks a row whose classical translation is not right to its digits.
-pub(crate) fn degeneracy_columns() -> [Column; 2] {
-    [
-        Column::with_unit("nLambda^3", "dimensionless").key("n_lambda3"),
-        Column::plain("flag"),
-    ]
-}
-
-/// The text of a row's nΛ³ (4 significant digits) and flag cells.
-pub(crate) fn degeneracy_cells(d: &Degeneracy) -> [String; 2] {
-    [
-        sig4(d.n_lambda3),
-        if d.quantum_flag { "*" } else { "" }.to_string(),
-    ]
-}
-
-/// The preamble line that says what the nΛ³ and flag columns mean.
-pub(crate) fn degeneracy_note(tolerance: f64) -> String {
-    format!(
-        "nLambda^3 = n Λ³ with n = p/kT, Λ = h/sqrt(2π m kT), g = {DEGENERACY_G} (dimensionless); \
-         flag * where the first quantum correction nΛ³/(g 2^(5/2)) exceeds the tolerance {} \
-         of the printed digits, or an entropy is negative",
-        tolerance_text(tolerance)
-    )
-}
-
-/// `1e-D` for the tolerance `10^-D` of D printed digits.
-fn tolerance_text(tol: f64) -> String {
-    format!("1e-{}", (-tol.log10()).round() as i64)
-}
-
 fn sig4(v: f64) -> String {
     crate::exact::format_sig_f64(v, 4)
-}
-
-fn wrong_beyond(d: &Degeneracy) -> String {
-    match d.trusted_digits() {
-        0 => "wrong already in the first significant digit".into(),
-        n => format!(
-            "wrong beyond about the {} significant digit",
-            crate::exact::ordinal(n.into())
-        ),
-    }
-}
-
-/// Warning lines for flagged rows, one per species and pressure:
-/// `(species, T, p, degeneracy)` for every row, in table order. Each says
-/// where the classical translational entropy stops being right, by how
-/// many digits, and why.
-pub fn degeneracy_warnings<'a>(
-    rows: impl IntoIterator<Item = (&'a str, &'a str, &'a str, &'a Degeneracy)>,
-) -> Vec<String> {
-    // (species, p, [(T, degeneracy)]) in table order.
-    type Group<'b> = (&'b str, &'b str, Vec<(&'b str, &'b Degeneracy)>);
-    let mut groups: Vec<Group> = Vec::new();
-    for (sp, t, p, d) in rows {
-        match groups.iter_mut().find(|g| g.0 == sp && g.1 == p) {
-            Some(g) => g.2.push((t, d)),
-            None => groups.push((sp, p, vec![(t, d)])),
-        }
-    }
-    let mut out = Vec::new();
-    for (sp, p, rows) in groups {
-        let n = rows.len();
-        let quantum: Vec<&(&str, &Degeneracy)> = rows
-            .iter()
-            .filter(|(_, d)| d.quantum_correction > d.quantum_tolerance)
-            .collect();
-        if let (Some(worst), Some(best)) = (
-            quantum
-                .iter()
-                .max_by(|a, b| a.1.quantum_correction.total_cmp(&b.1.quantum_correction)),
-            quantum
-                .iter()
-                .min_by(|a, b| a.1.quantum_correction.total_cmp(&b.1.quantum_correction)),
-        ) {
-            let tol = worst.1.quantum_tolerance;
-            let digits = (-tol.log10()).round() as i64;
-            let tol = tolerance_text(tol);
-            let which = if quantum.len() == n {
-                if n == 1 {
-                    "the row is flagged *".to_string()
-                } else {
-                    format!("all {n} rows are flagged *")
-                }
-            } else {
-                format!("{} of {n} rows are flagged *", quantum.len())
-            };
-            let range = |f: &dyn Fn(&Degeneracy) -> f64| {
-                if quantum.len() == 1 {
-                    sig4(f(worst.1))
-                } else {
-                    format!("{} to {}", sig4(f(best.1)), sig4(f(worst.1)))
-                }
-            };
-            let mut line = format!(
-                "{sp} at p = {p} Pa: {which}: the classical translational entropy is {} at \
-                 T = {} K",
-                wrong_beyond(worst.1),
-                worst.0
-            );
-            if quantum.len() > 1 {
-                line.push_str(&match best.1.trusted_digits() {
-                    0 => format!(" and at T = {} K", best.0),
-                    n => format!(
-                        " and beyond about the {} at T = {} K",
-                        crate::exact::ordinal(n.into()),
-                        best.0
-                    ),
-                });
-            }
-            line.push_str(&format!(
-                ", because it counts the molecules by Boltzmann statistics and leaves out their \
-                 Bose/Fermi statistics: nΛ³ = {} there, and the first quantum correction, of \
-                 relative size nΛ³/2^(5/2) = {}, exceeds the tolerance {} of {digits} printed \
-                 digits; S, Cp, H-H0 and -(G-H0)/T are off by about that relative amount",
-                range(&|d| d.n_lambda3),
-                range(&|d| d.quantum_correction),
-                tol,
-            ));
-            out.push(line);
-        }
-        let negative: Vec<&str> = rows
-            .iter()
-            .filter(|(_, d)| d.negative_entropy)
-            .map(|(t, _)| *t)
-            .collect();
-        if !negative.is_empty() {
-            out.push(format!(
-                "{sp} at p = {p} Pa: a printed entropy is negative at T = {} K (flagged *): no \
-                 gas has a negative entropy, so the classical model fails there",
-                negative.join(", ")
-            ));
-        }
-    }
-    out
-}
-
-impl MolarTable {
-    /// The columns of a property table (with the isomer columns where the
-    /// species has spin isomers) in `basis`'s units. The same list names
-    /// every JSON row's `units`.
-    pub(crate) fn columns_for(isomers: bool, basis: Basis) -> Vec<Column> {
-        let (k, e) = basis.units();
-        let mut c = vec![Column::with_unit("T", "K").key("T")];
-        if isomers {
-            c.push(Column::plain("isomer"));
-            c.push(Column::plain("ortho fraction"));
-        }
-        c.extend([
-            Column::with_unit("S", k).key("S"),
-            Column::with_unit("S_total", k).key("S_total"),
-            Column::with_unit("Cp", k).key("Cp"),
-            Column::with_unit("Cv", k).key("Cv"),
-            Column::with_unit("H-H0", e).key("H_minus_H0"),
-            Column::with_unit("-(G-H0)/T", k).key("minus_G_minus_H0_over_T"),
-        ]);
-        c.extend(degeneracy_columns());
-        c
-    }
-
-    /// The preamble line naming the reference H0 of every row (one line
-    /// for a one-species table; one clause per distinct reference
-    /// otherwise).
-    pub(crate) fn reference_line(&self) -> String {
-        let mut groups: Vec<(&str, Vec<&str>)> = Vec::new();
-        for r in &self.rows {
-            match groups.iter_mut().find(|g| g.0 == r.reference) {
-                Some(g) if !g.1.contains(&r.species.as_str()) => g.1.push(&r.species),
-                Some(_) => {}
-                None => groups.push((&r.reference, vec![&r.species])),
-            }
-        }
-        let clauses: Vec<String> = match groups.as_slice() {
-            [(only, _)] => vec![only.to_string()],
-            many => many
-                .iter()
-                .map(|(r, sp)| format!("{}: {r}", sp.join(", ")))
-                .collect(),
-        };
-        format!(
-            "{}; S conventional (nuclear spin excluded), S_total with it",
-            clauses.join("; ")
-        )
-    }
-}
-
-impl Tabular for MolarTable {
-    fn preamble(&self) -> Vec<String> {
-        let first = self.rows.first();
-        let mut lines = vec![
-            format!(
-                "{}: ideal-gas thermodynamic functions per {} at p = {} Pa from exact sums",
-                first.map(|r| r.species.as_str()).unwrap_or(""),
-                self.basis.name(),
-                first.map(|r| r.p.as_str()).unwrap_or("")
-            ),
-            self.reference_line(),
-            degeneracy_note(first.map(|r| r.degeneracy.quantum_tolerance).unwrap_or(0.0)),
-            "ideal-gas model values: design decisions follow certified property data, local \
-             codes and licensed engineering practice"
-                .into(),
-        ];
-        lines.extend(self.warnings().into_iter().map(|w| format!("warning: {w}")));
-        lines
-    }
-
-    fn columns(&self) -> Vec<Column> {
-        Self::columns_for(self.rows.iter().any(|r| r.isomer.is_some()), self.basis)
-    }
-
-    fn rows(&self) -> Vec<Vec<String>> {
-        let iso = self.rows.iter().any(|r| r.isomer.is_some());
-        self.rows
-            .iter()
-            .map(|r| {
-                let mut v = vec![r.t.clone()];
-                if iso {
-                    v.push(r.isomer.clone().unwrap_or_default());
-                    v.push(r.ortho_fraction.clone().unwrap_or_default());
-                }
-                v.extend([
-                    r.s.clone(),
-                    r.s_total.clone(),
-                    r.cp.clone(),
-                    r.cv.clone(),
-                    r.h.clone(),
-                    r.g.clone(),
-                ]);
-                v.extend(degeneracy_cells(&r.degeneracy));
-                v
-            })
-            .collect()
-    }
 }
