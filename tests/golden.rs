@@ -313,6 +313,20 @@ const CASES: &[(&str, &[&str])] = &[
         &["species", "show", "N2", "--format", "json"],
     ),
     ("thermo-n2-table", &["thermo", "N2", "--T", "298.15,1000"]),
+    // Wide grids at many digits: the hot sums that speed work must leave
+    // byte-identical.
+    (
+        "thermo-n2-wide-grid-csv",
+        &[
+            "thermo", "N2", "--T", "10:3000:110", "--digits", "15", "--format", "csv",
+        ],
+    ),
+    (
+        "thermo-co-wide-grid-json",
+        &[
+            "thermo", "CO", "--T", "log:1:300:12", "--digits", "20", "--format", "json",
+        ],
+    ),
     (
         "thermo-h2-para-markdown",
         &[
