@@ -318,13 +318,27 @@ const CASES: &[(&str, &[&str])] = &[
     (
         "thermo-n2-wide-grid-csv",
         &[
-            "thermo", "N2", "--T", "10:3000:110", "--digits", "15", "--format", "csv",
+            "thermo",
+            "N2",
+            "--T",
+            "10:3000:110",
+            "--digits",
+            "15",
+            "--format",
+            "csv",
         ],
     ),
     (
         "thermo-co-wide-grid-json",
         &[
-            "thermo", "CO", "--T", "log:1:300:12", "--digits", "20", "--format", "json",
+            "thermo",
+            "CO",
+            "--T",
+            "log:1:300:12",
+            "--digits",
+            "20",
+            "--format",
+            "json",
         ],
     ),
     (

@@ -413,6 +413,12 @@ impl RovibDiatomic {
             .map(|j| j.to_u64().unwrap_or(u64::MAX))
     }
 
+    /// The J ladder of level v on one denominator, for listing many rungs.
+    fn ladder(&self, v: u64) -> Ladder {
+        let vb = BigInt::from(v);
+        Ladder::new(&self.vib.g(&vb), &self.b_big(&vb), &self.d)
+    }
+
     fn b_big(&self, v: &BigInt) -> BigRational {
         &self.be - &self.alpha * (BigRational::from_integer(v.clone()) + half())
     }
@@ -601,12 +607,13 @@ impl Spectrum for RovibDiatomic {
         let ladders = self.ladders(cutoff, budget, &what)?;
         let mut levels = Vec::new();
         for (v, top) in ladders {
+            let ladder = self.ladder(v);
             for j in 0..=top {
                 let w = self.weights.weight(j);
                 if w.is_zero() {
                     continue;
                 }
-                levels.push(Level::new(self.energy(v, j), BigUint::from(2 * j + 1) * w));
+                levels.push(Level::new(ladder.energy(j), BigUint::from(2 * j + 1) * w));
             }
         }
         Ok(LevelList::new(self.unit(), levels))
@@ -625,9 +632,10 @@ impl Spectrum for RovibDiatomic {
         let what = format!("listing the rovibrational terms up to {}", show(cutoff));
         let mut out = Vec::new();
         for (v, top) in self.ladders(cutoff, budget, &what)? {
+            let ladder = self.ladder(v);
             for j in 0..=top {
                 if !self.weights.weight(j).is_zero() {
-                    out.push((self.energy(v, j), vec![v as i64, j as i64]));
+                    out.push((ladder.energy(j), vec![v as i64, j as i64]));
                 }
             }
         }
@@ -868,5 +876,85 @@ mod tests {
             assert!(m.energy(0, j + 1) > m.energy(0, j));
         }
         assert!(m.energy(0, 8) <= m.energy(0, 7));
+    }
+}
+
+/// One J ladder E(J) = G + B x − D x², x = J(J+1), with G, B and D exact
+/// rationals brought to one common denominator once, so that each rung costs
+/// a few integer operations and one small gcd instead of a chain of reduced
+/// big-rational products. Numerators are evaluated in `i128` with checked
+/// arithmetic and fall back to big integers when they would overflow; the
+/// result is the same reduced rational either way.
+struct Ladder {
+    den: BigInt,
+    g: BigInt,
+    b: BigInt,
+    d: BigInt,
+    small: Option<[i128; 4]>,
+}
+
+impl Ladder {
+    fn new(g: &BigRational, b: &BigRational, d: &BigRational) -> Ladder {
+        use num_integer::Integer;
+        let den = g.denom().lcm(b.denom()).lcm(d.denom());
+        let on = |r: &BigRational| r.numer() * (&den / r.denom());
+        let (gn, bn, dn) = (on(g), on(b), on(d));
+        let small = (|| Some([den.to_i128()?, gn.to_i128()?, bn.to_i128()?, dn.to_i128()?]))();
+        Ladder {
+            den,
+            g: gn,
+            b: bn,
+            d: dn,
+            small,
+        }
+    }
+
+    /// E(J), exactly and reduced.
+    fn energy(&self, j: u64) -> BigRational {
+        use num_integer::Integer;
+        if let Some([den, g, b, d]) = self.small {
+            let num = i128::from(j).checked_mul(i128::from(j) + 1).and_then(|x| {
+                let bx = b.checked_mul(x)?;
+                let dxx = d.checked_mul(x)?.checked_mul(x)?;
+                g.checked_add(bx)?.checked_sub(dxx)
+            });
+            if let Some(num) = num {
+                let k = num.gcd(&den);
+                return BigRational::new_raw(BigInt::from(num / k), BigInt::from(den / k));
+            }
+        }
+        let x = BigInt::from(j) * (BigInt::from(j) + 1u32);
+        BigRational::new(&self.g + &self.b * &x - &self.d * &x * &x, self.den.clone())
+    }
+}
+
+#[cfg(test)]
+mod ladder_tests {
+    use super::*;
+    use proptest::prelude::*;
+
+    fn plain(g: &BigRational, b: &BigRational, d: &BigRational, j: u64) -> BigRational {
+        let x = BigRational::from_integer(BigInt::from(j) * (BigInt::from(j) + 1u32));
+        g + b * &x - d * &x * &x
+    }
+
+    proptest! {
+        /// The common-denominator ladder and the plain big-rational formula
+        /// agree exactly, also where numerators overflow 64 and 128 bits.
+        #[test]
+        fn ladder_matches_the_plain_formula(
+            gn in any::<i64>(), gd in 1i64..=i64::MAX,
+            bn in any::<i64>(), bd in 1i64..=i64::MAX,
+            dn in any::<i64>(), dd in 1i64..=i64::MAX,
+            scale in 0u32..80,
+            j in prop_oneof![0u64..100, 1u64 << 20..1u64 << 21, 1u64 << 40..1u64 << 41],
+        ) {
+            let big = BigInt::from(10u32).pow(scale);
+            let g = BigRational::new(BigInt::from(gn) * &big, BigInt::from(gd));
+            let b = BigRational::new(BigInt::from(bn), BigInt::from(bd));
+            let d = BigRational::new(BigInt::from(dn), BigInt::from(dd) * &big);
+            let l = Ladder::new(&g, &b, &d);
+            prop_assert_eq!(l.energy(j), plain(&g, &b, &d, j));
+        }
     }
 }

@@ -231,8 +231,12 @@ fn stats_from(
     let beta_r = Float::with_val(prec, &to_rug(beta));
     let t = ln_tail.unwrap_or([f64::NEG_INFINITY; 3]);
     let tails = t.map(|lt| Float::with_val(64, lt).exp());
+    // The excitation E − E0 exactly in GMP (far cheaper than a reduced
+    // big-rational difference), then rounded once to the working precision.
+    let e0_r = to_rug(&e0);
     let terms = it.map(|l| {
-        let x = Float::with_val(prec, &to_rug(&(&l.energy - &e0))) * &beta_r;
+        let excitation = to_rug(&l.energy) - &e0_r;
+        let x = Float::with_val(prec, &excitation) * &beta_r;
         (x, big(&l.degeneracy))
     });
     let [e, m1, m2] = excited_sums(terms, tails, prec);
