@@ -297,3 +297,58 @@ fn share(f: f64) -> String {
     let digits = (1 - pct.abs().log10().floor() as i32).max(0) as usize;
     format!("{pct:.digits$}%")
 }
+
+/// Runs `work` over the points `order` (costliest first) on every core and
+/// returns each point's answer beside its index, in `order`'s order.
+///
+/// The first point runs alone on this thread with `meter` passed to it
+/// (so its parts can report progress and the meter projects the grid's time
+/// from the costliest point); the rest run in rounds of one point per core,
+/// each core keeping its own state from `init` (a level cache: its first
+/// listing, the hottest of its points, serves every later one; the first
+/// point's state is reused). Between rounds the meter counts the points done
+/// and refuses the rest once the projected time exceeds its budget.
+///
+/// ```
+/// use zsum::budget::{sweep, Meter};
+/// let squares = sweep(&[3, 1, 2], || (), |_, i, _| Ok(i * i), &Meter::unlimited())?;
+/// assert_eq!(squares, [(3, 9), (1, 1), (2, 4)]);
+/// # Ok::<(), zsum::Error>(())
+/// ```
+pub fn sweep<C, T, I, W>(
+    order: &[usize],
+    init: I,
+    work: W,
+    meter: &Meter,
+) -> Result<Vec<(usize, T)>>
+where
+    C: Send,
+    T: Send,
+    I: Fn() -> C + Sync,
+    W: Fn(&C, usize, Option<(&Meter, f64)>) -> Result<T> + Sync,
+{
+    use rayon::prelude::*;
+    let Some((&first, rest)) = order.split_first() else {
+        return Ok(Vec::new());
+    };
+    let mut out = Vec::with_capacity(order.len());
+    let first_state = init();
+    out.push((first, work(&first_state, first, Some((meter, 0.0)))?));
+    meter.at(1.0)?;
+    let cores = rayon::current_num_threads().max(1);
+    let mut states: Vec<C> = Vec::with_capacity(cores);
+    states.push(first_state);
+    states.extend((1..cores.min(rest.len().max(1))).map(|_| init()));
+    for round in rest.chunks(states.len()) {
+        let answers: Vec<Result<T>> = states
+            .par_iter_mut()
+            .zip(round.par_iter())
+            .map(|(state, &i)| work(state, i, None))
+            .collect();
+        for (&i, a) in round.iter().zip(answers) {
+            out.push((i, a?));
+        }
+        meter.at(out.len() as f64)?;
+    }
+    Ok(out)
+}

@@ -251,7 +251,7 @@ pub fn check_grid_digits(digits: u32) -> Result<()> {
 /// # Ok::<(), zsum::Error>(())
 /// ```
 pub fn properties(
-    spectrum: &dyn Spectrum,
+    spectrum: &(dyn Spectrum + Sync),
     grid: &[BigRational],
     kelvin: bool,
     digits: u32,
@@ -273,13 +273,15 @@ pub fn properties(
         Some(Per::Particle) => Some(k.clone()),
         None => None,
     };
-    // Reuse level listings across the grid: sweep from the hottest
-    // temperature down, so the first listing covers every later one.
-    let cached = crate::sum::Cached::new(spectrum);
+    // Sweep from the hottest temperature down over every core
+    // (budget::sweep): each core keeps its own level cache, whose first
+    // listing covers every later point.
     let mut order: Vec<usize> = (0..grid.len()).collect();
     order.sort_by(|&a, &b| grid[b].cmp(&grid[a]));
-    let mut done = vec![None; grid.len()];
-    for (count, &i) in order.iter().enumerate() {
+    let point_at = |cached: &crate::sum::Cached,
+                    i: usize,
+                    progress: Option<(&Meter, f64)>|
+     -> Result<Properties> {
         let t = &grid[i];
         let temp = if kelvin {
             Temperature::Kelvin(t.clone())
@@ -287,14 +289,14 @@ pub fn properties(
             Temperature::ThermalEnergy(t.clone())
         };
         let mut extra = 0;
-        let point = loop {
+        loop {
             let wide = thermo_metered(
-                &cached,
+                cached,
                 &temp,
                 digits + extra,
                 Path::Auto,
                 max_bits,
-                Some((meter, count as f64)),
+                progress,
             )?;
             let physical = scale.as_ref().map(|c| {
                 let ct = c * t;
@@ -313,12 +315,15 @@ pub fn properties(
             let ok = point.settles(digits);
             let room = crate::sum::precision_for(digits + extra + EXTRA) <= max_bits;
             if ok || !room || extra >= 2 * EXTRA || point.thermo.precision_bits >= max_bits {
-                break point;
+                return Ok(point);
             }
             extra += EXTRA;
-        };
-        done[i] = Some(point);
-        meter.at(count as f64 + 1.0)?;
+        }
+    };
+    let mut done: Vec<Option<Properties>> = vec![None; grid.len()];
+    let cached = || crate::sum::Cached::new(spectrum);
+    for (i, p) in crate::budget::sweep(&order, cached, point_at, meter)? {
+        done[i] = Some(p);
     }
     Ok(done.into_iter().flatten().collect())
 }

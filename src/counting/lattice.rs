@@ -19,40 +19,18 @@ use crate::exact::isqrt_u64;
 /// partial sum inside `u64`.
 pub const MAX_CUTOFF: u64 = 1 << 62;
 
-fn threads() -> usize {
-    std::thread::available_parallelism()
-        .map(|n| n.get())
-        .unwrap_or(1)
-        .clamp(1, 64)
-}
-
-/// Sums `row(x)` for `x = 1, 2, ...` while `3·x² ≤ m` style limits hold,
-/// splitting rows among threads. `rows` is the number of rows.
+/// Sums `row(x)` for `x = 1, 2, ..., rows` on every core (rayon), rows
+/// interleaved so that long and short rows spread evenly.
 fn parallel_rows(rows: u64, row: impl Fn(u64) -> u128 + Sync) -> u128 {
-    let t = threads() as u64;
+    use rayon::prelude::*;
+    let t = rayon::current_num_threads().clamp(1, 64) as u64;
     if rows < 64 || t == 1 {
         return (1..=rows).map(&row).sum();
     }
-    std::thread::scope(|s| {
-        let handles: Vec<_> = (0..t)
-            .map(|k| {
-                let row = &row;
-                s.spawn(move || {
-                    let mut total = 0u128;
-                    let mut x = 1 + k;
-                    while x <= rows {
-                        total += row(x);
-                        x += t;
-                    }
-                    total
-                })
-            })
-            .collect();
-        handles
-            .into_iter()
-            .map(|h| h.join().expect("counting thread"))
-            .sum()
-    })
+    (0..t)
+        .into_par_iter()
+        .map(|k| (1 + k..=rows).step_by(t as usize).map(&row).sum::<u128>())
+        .sum()
 }
 
 /// Below this, `floor(sqrt(r))` computed in `f64` is exact: for `r < 2^50`

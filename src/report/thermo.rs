@@ -81,7 +81,7 @@ impl ThermoReport {
     #[allow(clippy::too_many_arguments)]
     pub fn build(
         model: &str,
-        spectrum: &dyn Spectrum,
+        spectrum: &(dyn Spectrum + Sync),
         grid: &[BigRational],
         kelvin: bool,
         digits: u32,

@@ -809,14 +809,17 @@ impl MolarGrid {
             degeneracy(sp, t, o)?;
         }
         let spectra = Spectra::new(sp, o.model)?;
-        let cached = spectra.cached();
-        // Hottest first so one listing serves every temperature.
+        // Hottest first over every core (budget::sweep): each core's first
+        // listing serves every later temperature.
         let mut order: Vec<usize> = (0..grid.len()).collect();
         order.sort_by(|a, b| grid[*b].cmp(&grid[*a]));
         let mut rows: Vec<Option<MolarValues>> = vec![None; grid.len()];
-        for (count, i) in order.into_iter().enumerate() {
-            rows[i] = Some(molar_with(sp, &cached, &grid[i], o)?);
-            meter.at(count as f64 + 1.0)?;
+        let cached = || spectra.cached();
+        let work = |c: &_, i: usize, _: Option<(&crate::budget::Meter, f64)>| {
+            molar_with(sp, c, &grid[i], o)
+        };
+        for (i, v) in crate::budget::sweep(&order, cached, work, meter)? {
+            rows[i] = Some(v);
         }
         Ok(MolarGrid {
             species: sp.name.clone(),
@@ -835,39 +838,10 @@ pub fn molar_grids(
     grid: &[BigRational],
     o: &MolarOptions,
 ) -> Result<Vec<MolarGrid>> {
-    let threads = std::thread::available_parallelism()
-        .map_or(1, |n| n.get())
-        .max(1);
-    let next = std::sync::atomic::AtomicUsize::new(0);
-    let slots: Vec<std::sync::Mutex<Option<Result<MolarGrid>>>> = species
-        .iter()
-        .map(|_| std::sync::Mutex::new(None))
-        .collect();
-    std::thread::scope(|scope| {
-        for _ in 0..threads.min(species.len()) {
-            scope.spawn(|| loop {
-                let i = next.fetch_add(1, std::sync::atomic::Ordering::Relaxed);
-                if i >= species.len() {
-                    break;
-                }
-                let r = MolarGrid::compute(species[i], grid, o);
-                if let Ok(mut slot) = slots[i].lock() {
-                    *slot = Some(r);
-                }
-            });
-        }
-    });
-    slots
-        .into_iter()
-        .map(|m| {
-            m.into_inner().ok().flatten().unwrap_or_else(|| {
-                Err(Error::invalid(
-                    "species table",
-                    "missing",
-                    "a finished task",
-                ))
-            })
-        })
+    use rayon::prelude::*;
+    species
+        .par_iter()
+        .map(|sp| MolarGrid::compute(sp, grid, o))
         .collect()
 }
 

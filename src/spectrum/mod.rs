@@ -26,7 +26,7 @@ pub struct State(pub Vec<i64>);
 pub use crate::budget::{human_bytes, Budget};
 
 /// A quantum system whose levels can be enumerated exactly.
-pub trait Spectrum {
+pub trait Spectrum: Send + Sync {
     /// A short human description, e.g. `particle in a 3D box, sides 1:1:2`.
     fn describe(&self) -> String;
 

@@ -541,7 +541,7 @@ pub fn thermo_metered(
 /// wrapped (and cached) in turn.
 pub struct Cached<'a> {
     inner: &'a dyn Spectrum,
-    store: std::cell::RefCell<Option<(BigRational, crate::level::LevelList)>>,
+    store: std::sync::Mutex<Option<(BigRational, crate::level::LevelList)>>,
     parts: Option<Vec<(Cached<'a>, BigRational)>>,
 }
 
@@ -556,7 +556,7 @@ impl<'a> Cached<'a> {
         };
         Cached {
             inner,
-            store: std::cell::RefCell::new(None),
+            store: std::sync::Mutex::new(None),
             parts,
         }
     }
@@ -580,13 +580,19 @@ impl Spectrum for Cached<'_> {
         cutoff: &BigRational,
         budget: &crate::spectrum::Budget,
     ) -> Result<crate::level::LevelList> {
-        if let Some((c, list)) = self.store.borrow().as_ref() {
+        // A poisoned lock only means another thread panicked mid-listing;
+        // the store then holds a whole earlier listing or none.
+        let mut store = self
+            .store
+            .lock()
+            .unwrap_or_else(std::sync::PoisonError::into_inner);
+        if let Some((c, list)) = store.as_ref() {
             if cutoff <= c {
                 return Ok(list.truncated(cutoff));
             }
         }
         let list = self.inner.levels_within(cutoff, budget)?;
-        *self.store.borrow_mut() = Some((cutoff.clone(), list.clone()));
+        *store = Some((cutoff.clone(), list.clone()));
         Ok(list)
     }
     fn states_at(&self, energy: &BigRational) -> Result<Vec<crate::spectrum::State>> {
