@@ -1,9 +1,10 @@
 //! Property tables of every built-in species (the README's figure): 300
-//! temperatures, 5 K to 304 K in steps of 1 K, 20 significant digits.
+//! temperatures, 5 K to 304 K in steps of 1 K, 20 significant digits; and
+//! N2 over 10-3000 K (300 temperatures) and at 3000 K alone, 15 digits.
 
 use criterion::{criterion_group, criterion_main, Criterion};
 use std::hint::black_box;
-use zsum::species::{molar_grids, Database, MolarOptions};
+use zsum::species::{molar_grids, Database, MolarGrid, MolarOptions};
 use zsum::thermo::parse_grid;
 
 fn all_species(c: &mut Criterion) {
@@ -20,6 +21,21 @@ fn all_species(c: &mut Criterion) {
     g.sample_size(10);
     g.bench_function("all_13_species_300_temperatures_20_digits", |b| {
         b.iter(|| black_box(molar_grids(&species, &grid, &o).unwrap()))
+    });
+    // The process engineer's ordinary table: N2 over 10-3000 K, 300 points.
+    let n2 = db.find("N2").unwrap();
+    let wide = parse_grid("--T", "10:3000:10").unwrap();
+    let hot = parse_grid("--T", "3000").unwrap();
+    let o15 = MolarOptions {
+        digits: 15,
+        ..MolarOptions::default()
+    };
+    g.bench_function("n2_300_temperatures_10_3000_k_15_digits", |b| {
+        b.iter(|| black_box(MolarGrid::compute(n2, &wide, &o15).unwrap()))
+    });
+    g.sample_size(20);
+    g.bench_function("n2_one_temperature_3000_k_15_digits", |b| {
+        b.iter(|| black_box(MolarGrid::compute(n2, &hot, &o15).unwrap()))
     });
     g.finish();
 }

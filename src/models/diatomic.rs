@@ -432,9 +432,22 @@ impl RovibDiatomic {
         if self.d.is_zero() {
             return None;
         }
-        // J² < q with J² an integer  ⇔  J² ≤ ceil(q) − 1.
-        let q = self.b_big(v) / (int(2) * &self.d);
-        let n = (q.ceil().to_integer() - BigInt::one()).max(BigInt::zero());
+        // J² < q with J² an integer  ⇔  J² ≤ ceil(q) − 1, where
+        // q = B_v/(2 D) = (2 be_n α_d − α_n be_d (2v+1)) d_d / (4 be_d α_d d_n)
+        // over integers (no reduced rationals: this runs for every v of
+        // every tail bound); ceil(N/M) − 1 = floor((N − 1)/M) for M > 0.
+        use num_integer::Integer;
+        let (bn, bd) = (self.be.numer(), self.be.denom());
+        let (an, ad) = (self.alpha.numer(), self.alpha.denom());
+        let (dn, dd) = (self.d.numer(), self.d.denom());
+        let two_v1 = v * 2u32 + 1u32;
+        let mut num = (bn * ad * 2u32 - an * bd * two_v1) * dd;
+        let mut den = bd * ad * dn * 4u32;
+        if den.is_negative() {
+            num = -num;
+            den = -den;
+        }
+        let n = (num - BigInt::one()).div_floor(&den).max(BigInt::zero());
         Some(n.sqrt())
     }
 
@@ -939,6 +952,33 @@ mod ladder_tests {
     }
 
     proptest! {
+        /// J_max(v) on integers agrees with the plain rational formula
+        /// isqrt(ceil(B_v/(2 D)) − 1) for random constants (N2-like
+        /// magnitudes and far beyond).
+        #[test]
+        fn j_max_matches_the_plain_formula(
+            be in 1u64..10_000_000, alpha in 0u64..1000, d in 1u64..1000, scale in 0u32..12,
+        ) {
+            let r = |n: u64, e: u32| BigRational::new(BigInt::from(n), BigInt::from(10u64.pow(e)));
+            let vib = AnharmonicOscillator::new(r(2358, 0), r(14, 0), r(0, 0), EnergyUnit::Wavenumber)
+                .unwrap();
+            let (be, alpha, d) = (r(be, 6), r(alpha, 8 + scale), r(d, 10 + scale));
+            let m = RovibDiatomic::new(vib, be.clone(), alpha.clone(), d.clone(), ParityWeights::uniform());
+            // Too many refused molecules would fail the test (global rejects).
+            prop_assume!(m.is_ok());
+            if let Ok(m) = m {
+                for v in [0u64, 1, 5, 40] {
+                    let b_v = &be - &alpha * (BigRational::from_integer(v.into()) + half());
+                    if !b_v.is_positive() {
+                        continue;
+                    }
+                    let q = b_v / (BigRational::from_integer(2.into()) * &d);
+                    let n = (q.ceil().to_integer() - BigInt::one()).max(BigInt::zero());
+                    prop_assert_eq!(m.j_max(v), n.sqrt().to_u64());
+                }
+            }
+        }
+
         /// The common-denominator ladder and the plain big-rational formula
         /// agree exactly, also where numerators overflow 64 and 128 bits.
         #[test]
