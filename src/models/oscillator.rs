@@ -901,9 +901,22 @@ impl AnharmonicOscillator {
     }
 
     pub(crate) fn g(&self, v: &BigInt) -> BigRational {
-        let u = BigRational::from_integer(v.clone()) + half();
-        let u2 = &u * &u;
-        &self.we * &u - &self.wexe * &u2 + &self.weye * &u2 * &u
+        // With w = 2v + 1 and L the common denominator of the constants,
+        // G = (4 we L w − 2 wexe L w² + weye L w³) / (8 L): integer products
+        // and one reduction instead of a chain of reduced rational products
+        // (this runs inside every search over v).
+        use num_integer::Integer;
+        let l = self
+            .we
+            .denom()
+            .lcm(self.wexe.denom())
+            .lcm(self.weye.denom());
+        let on = |r: &BigRational| r.numer() * (&l / r.denom());
+        let w = v * 2u32 + 1u32;
+        let w2 = &w * &w;
+        let num =
+            on(&self.we) * &w * 4u32 - on(&self.wexe) * &w2 * 2u32 + on(&self.weye) * &w2 * &w;
+        BigRational::new(num, l * 8u32)
     }
 
     /// Whether G, as a function of continuous u = v + 1/2, has a maximum
@@ -1141,5 +1154,34 @@ mod tests {
         assert_eq!(component_letters(25), "z");
         assert_eq!(component_letters(26), "aa");
         assert_eq!(component_letters(27), "ab");
+    }
+}
+
+#[cfg(test)]
+mod g_tests {
+    use super::*;
+    use proptest::prelude::*;
+
+    proptest! {
+        /// G(v) on one common denominator equals the plain rational
+        /// expansion we u − wexe u² + weye u³, u = v + 1/2.
+        #[test]
+        fn g_matches_the_plain_expansion(
+            we in 1i64..10_000_000, wexe in 0i64..100_000, weye in -1000i64..1000,
+            d1 in 0u32..9, d2 in 0u32..12, d3 in 0u32..15, v in 0u64..100_000,
+        ) {
+            let r = |n: i64, e: u32| BigRational::new(BigInt::from(n), BigInt::from(10i64.pow(e)));
+            let osc = AnharmonicOscillator {
+                we: r(we, d1),
+                wexe: r(wexe, d2),
+                weye: r(weye, d3),
+                morse_de: None,
+                v_max: None,
+                unit: EnergyUnit::Wavenumber,
+            };
+            let u = BigRational::from_integer(BigInt::from(v)) + half();
+            let plain = &osc.we * &u - &osc.wexe * &u * &u + &osc.weye * &u * &u * &u;
+            prop_assert_eq!(osc.g(&BigInt::from(v)), plain);
+        }
     }
 }
