@@ -74,27 +74,20 @@ impl TryFrom<RawLevelList> for LevelList {
 impl LevelList {
     /// Builds a list from levels in any order: sorts by energy, merges equal
     /// energies (adding degeneracies) and drops levels of degeneracy zero.
-    pub fn new(unit: EnergyUnit, levels: Vec<Level>) -> Self {
-        // Sort on f64 keys where they decide (each key is within a relative
-        // 2^-53 of its energy, so keys further apart than a relative 1e-12,
-        // in the normal range, order the energies), else exactly.
-        let mut keyed: Vec<(f64, Level)> = levels
-            .into_iter()
-            .map(|l| {
-                (
-                    num_traits::ToPrimitive::to_f64(&l.energy).unwrap_or(f64::NAN),
-                    l,
-                )
-            })
-            .collect();
-        keyed.sort_by(|(ka, a), (kb, b)| {
+    pub fn new(unit: EnergyUnit, mut levels: Vec<Level>) -> Self {
+        // Sort in place on f64 approximations where they decide (each is
+        // within a relative 2^-53 of its energy, so values further apart
+        // than a relative 1e-12, in the normal range, order the energies),
+        // else exactly; no second copy of the list is made.
+        let key = |l: &Level| num_traits::ToPrimitive::to_f64(&l.energy).unwrap_or(f64::NAN);
+        levels.sort_by(|a, b| {
+            let (ka, kb) = (key(a), key(b));
             let big = ka.abs().max(kb.abs());
             if ka.is_finite() && kb.is_finite() && big > 1e-290 && (ka - kb).abs() > 1e-12 * big {
-                return ka.total_cmp(kb);
+                return ka.total_cmp(&kb);
             }
             a.energy.cmp(&b.energy)
         });
-        let levels = keyed.into_iter().map(|(_, l)| l);
         let mut out: Vec<Level> = Vec::with_capacity(levels.len());
         for l in levels {
             if l.degeneracy.is_zero() {
