@@ -69,17 +69,13 @@ impl ThermoPoint {
             &p.s_over_k,
             &p.f_over_kt,
         ];
-        let (q, ok_q) = p.ln_q.exp_decimal(digits);
+        let (q, _) = p.ln_q.exp_decimal(digits);
         let texts: Vec<(String, bool)> = all.iter().map(|c| c.decimal_marked(digits)).collect();
-        let certified = ok_q && texts.iter().all(|t| t.1);
+        let certified = p.settles(digits);
         let certified_digits = if certified {
             digits
         } else {
-            all.iter()
-                .map(|c| c.proved_digits(digits))
-                .chain([format::proved_exp_digits(&p.ln_q.0, digits)])
-                .min()
-                .unwrap_or(0)
+            p.proved_digits(digits)
         };
         let mut it = texts.into_iter().map(|t| t.0);
         let mut next = || it.next().unwrap_or_default();

@@ -394,22 +394,31 @@ impl Thermo {
             .all(|c| c.settles(digits))
     }
 
+    /// How many leading significant digits, up to `digits`, are proved for
+    /// every value, q included.
+    pub fn proved_digits(&self, digits: u32) -> u32 {
+        if self.settles(digits) {
+            return digits;
+        }
+        [
+            &self.ln_q,
+            &self.u_over_kt,
+            &self.cv_over_k,
+            &self.s_over_k,
+            &self.f_over_kt,
+        ]
+        .iter()
+        .map(|c| c.proved_digits(digits))
+        .chain([format::proved_exp_digits(&self.ln_q.0, digits)])
+        .min()
+        .unwrap_or(0)
+    }
+
     fn from_stats(st: &Stats, digits: u32, prec: u32, max_bits: u32) -> Thermo {
         let ln_q = st.ln_q();
         let all = [ln_q.clone(), st.u(), st.cv.clone(), st.s(), ln_q.neg()];
-        let q_ok = format::exp_decimal(&ln_q, digits).1;
-        let certified = q_ok && all.iter().all(|b| format::ball_decimal(b, digits).1);
-        let certified_digits = if certified {
-            digits
-        } else {
-            all.iter()
-                .map(|b| format::proved_digits(b, digits))
-                .chain([format::proved_exp_digits(&ln_q, digits)])
-                .min()
-                .unwrap_or(0)
-        };
         let [ln_q, u, cv, s, f] = all.map(Certified);
-        Thermo {
+        let mut t = Thermo {
             ln_q,
             u_over_kt: u,
             cv_over_k: cv,
@@ -417,10 +426,17 @@ impl Thermo {
             f_over_kt: f,
             digits,
             precision_bits: prec,
-            certified,
-            certified_digits,
+            certified: false,
+            certified_digits: 0,
             max_bits,
-        }
+        };
+        t.certified = t.settles(digits);
+        t.certified_digits = if t.certified {
+            digits
+        } else {
+            t.proved_digits(digits)
+        };
+        t
     }
 
     /// A bound on the relative error of q (tail plus rounding):
