@@ -364,3 +364,116 @@ fn sweeps_reuse_levels_without_changing_a_digit() {
         );
     }
 }
+
+/// A vibrating rotor with constants in cm⁻¹ and nuclear-spin weights
+/// `[even, odd]`.
+fn rovib(
+    we: &str,
+    wexe: &str,
+    be: &str,
+    alpha: &str,
+    d: &str,
+    w: [u32; 2],
+) -> zsum::models::diatomic::RovibDiatomic {
+    use zsum::models::diatomic::{ParityWeights, RovibDiatomic};
+    use zsum::models::oscillator::AnharmonicOscillator;
+    let vib = AnharmonicOscillator::new(r(we), r(wexe), r("0"), EnergyUnit::Wavenumber).unwrap();
+    let weights = ParityWeights::new(w[0].into(), w[1].into()).unwrap();
+    RovibDiatomic::new(vib, r(be), r(alpha), r(d), weights).unwrap()
+}
+
+#[test]
+fn rovib_ladder_recurrence_matches_the_direct_sum() {
+    // The recurrence along each J ladder against the plain sum over listed
+    // levels, digit for digit, from the ground-dominated cold end (T/θ_rot
+    // = 0.001: ln q below 1e-800) to far past dissociation (every bound level
+    // summed), for N2-like constants (Huber-Herzberg 1979, from memory)
+    // with both spin isomers apart and together, an H2-like rotor (large B
+    // and D) and a heavy I2-like one (many rungs), and without D (a
+    // quadratic ladder).
+    let n2 = |w| rovib("2358.57", "14.324", "1.99824", "0.017318", "5.76e-6", w);
+    let cases = [
+        (n2([6, 3]), 2.875),
+        (n2([0, 3]), 2.875),
+        (n2([6, 0]), 2.875),
+        (
+            rovib("4401.21", "121.34", "60.853", "3.062", "0.0471", [1, 3]),
+            87.55,
+        ),
+        (
+            rovib("214.5", "0.614", "0.03737", "0.000114", "4.2e-9", [1, 1]),
+            0.05377,
+        ),
+        (rovib("1000", "5", "1", "0.01", "0", [1, 1]), 1.4388),
+    ];
+    for (m, theta_rot) in &cases {
+        for ratio in [0.001, 0.05, 0.7, 3.0, 40.0, 1e3, 1e6] {
+            let t = Temperature::Kelvin(BigRational::from_float(theta_rot * ratio).unwrap());
+            let a = ThermoPoint::of(&thermo(m, &t, 25).unwrap());
+            let d = ThermoPoint::of(&thermo_with(m, &t, 25, Path::Direct).unwrap());
+            same_digits(&a, &d);
+        }
+    }
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(24))]
+    /// Random vibrating rotors and temperatures: the ladder recurrence and
+    /// the direct sum print the same 18 digits.
+    #[test]
+    fn rovib_recurrence_agrees_for_random_constants(
+        we in 200u32..4000, wexe_milli in 1000u32..60000, be_milli in 30u32..60000,
+        alpha_frac in 0u32..100, d_exp in 4u32..9, even in 0u32..3, odd in 1u32..4,
+        t_exp in -2.0f64..4.0,
+    ) {
+        let wexe = wexe_milli as f64 / 1000.0;
+        let be = be_milli as f64 / 1000.0;
+        // alpha_e below B_e/(v_max + 1/2), v_max ≈ we/(2 wexe).
+        let vmax = we as f64 / (2.0 * wexe) + 1.0;
+        let alpha = be / (vmax + 0.5) * alpha_frac as f64 / 200.0;
+        let s = |x: f64| format!("{x:.6}");
+        let vib = zsum::models::oscillator::AnharmonicOscillator::new(
+            r(&we.to_string()), r(&s(wexe)), r("0"), EnergyUnit::Wavenumber).unwrap();
+        let weights = zsum::models::diatomic::ParityWeights::new(even.into(), odd.into()).unwrap();
+        let d = format!("{}e-{d_exp}", 1 + be_milli % 7);
+        let Ok(m) = zsum::models::diatomic::RovibDiatomic::new(vib, r(&s(be)), r(&s(alpha)), r(&d), weights) else {
+            return Ok(());
+        };
+        let t = Temperature::Kelvin(BigRational::from_float(1.4388 * be * 10f64.powf(t_exp)).unwrap());
+        let a = ThermoPoint::of(&thermo(&m, &t, 18).unwrap());
+        let b = ThermoPoint::of(&thermo_with(&m, &t, 18, Path::Direct).unwrap());
+        prop_assert_eq!(&a.q, &b.q);
+        prop_assert_eq!(&a.u_over_kt, &b.u_over_kt);
+        prop_assert_eq!(&a.cv_over_k, &b.cv_over_k);
+        prop_assert_eq!(&a.s_over_k, &b.s_over_k);
+    }
+}
+
+#[test]
+fn rovib_ladders_hold_exactly_the_listed_states() {
+    // The engine sums the ladders in place of the level list: both must
+    // hold the same states at the same exact energies, for every cutoff.
+    use std::collections::BTreeMap;
+    for w in [[1, 1], [0, 3], [6, 0]] {
+        let m = rovib("2358.57", "14.324", "1.99824", "0.017318", "5.76e-6", w);
+        for above in ["0", "3.9", "124.3", "9000", "40000", "1e6"] {
+            let cut = m.ground_energy() + r(above);
+            let mut from_ladders: BTreeMap<BigRational, num_bigint::BigUint> = BTreeMap::new();
+            for l in m.poly_ladders(&cut, &Budget::default()).unwrap().unwrap() {
+                for j in l.first..=l.last {
+                    let g = l.degeneracy(j);
+                    if g != num_bigint::BigUint::from(0u32) {
+                        *from_ladders.entry(l.energy(j)).or_default() += g;
+                    }
+                }
+            }
+            let listed: BTreeMap<BigRational, num_bigint::BigUint> = m
+                .levels_up_to(&cut)
+                .unwrap()
+                .iter()
+                .map(|l| (l.energy.clone(), l.degeneracy.clone()))
+                .collect();
+            assert_eq!(from_ladders, listed, "weights {w:?}, cutoff {cut}");
+        }
+    }
+}

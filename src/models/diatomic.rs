@@ -30,7 +30,7 @@ use crate::level::{Level, LevelList};
 use crate::models::oscillator::{
     half, int, last_true, show, AnharmonicOscillator, LEVEL_BYTES, STATE_BYTES,
 };
-use crate::spectrum::{check_cutoff, Budget, Spectrum, State, Structure};
+use crate::spectrum::{check_cutoff, Budget, PolyLadder, Spectrum, State, Structure};
 use crate::units::EnergyUnit;
 use num_bigint::{BigInt, BigUint};
 use num_rational::BigRational;
@@ -460,7 +460,14 @@ impl RovibDiatomic {
         }
         let b = self.b_big(v);
         let hint = self.j_hint(&b, &(e - &g));
-        last_true(|j| &self.e_big(v, j) <= e, self.jmax_big(v).as_ref(), &hint)
+        // Compared on the ladder's integers: E(J) ≤ e ⇔ num(J) ≤ ⌊e·den⌋.
+        let ladder = Ladder::new(&g, &b, &self.d);
+        let bound = ladder.scaled_floor(e);
+        last_true(
+            |j| ladder.numer_at_most(j, &bound),
+            self.jmax_big(v).as_ref(),
+            &hint,
+        )
     }
 
     /// A floating-point guess at the rung reached with rotational energy
@@ -630,6 +637,36 @@ impl Spectrum for RovibDiatomic {
             }
         }
         Ok(LevelList::new(self.unit(), levels))
+    }
+
+    fn poly_ladders(
+        &self,
+        cutoff: &BigRational,
+        budget: &Budget,
+    ) -> Option<Result<Vec<PolyLadder>>> {
+        let build = || -> Result<Vec<PolyLadder>> {
+            check_cutoff(self, cutoff)?;
+            let what = format!("listing the rovibrational levels up to {}", show(cutoff));
+            let weights = [
+                self.weights.weight(0).clone(),
+                self.weights.weight(1).clone(),
+            ];
+            let minus_d = -self.d.clone();
+            Ok(self
+                .ladders(cutoff, budget, &what)?
+                .into_iter()
+                .map(|(v, last)| {
+                    let vb = BigInt::from(v);
+                    PolyLadder {
+                        coeffs: vec![self.vib.g(&vb), self.b_big(&vb), minus_d.clone()],
+                        first: 0,
+                        last,
+                        weights: weights.clone(),
+                    }
+                })
+                .collect())
+        };
+        Some(build())
     }
 
     fn term_numbers(&self) -> Vec<String> {
@@ -922,6 +959,31 @@ impl Ladder {
         }
     }
 
+    /// ⌊e · den⌋: a rung's numerator is at most this exactly when its
+    /// energy is at most `e`.
+    fn scaled_floor(&self, e: &BigRational) -> BigInt {
+        use num_integer::Integer;
+        (e.numer() * &self.den).div_floor(e.denom())
+    }
+
+    /// Whether the numerator of E(j) over `den` is at most `bound`.
+    fn numer_at_most(&self, j: &BigInt, bound: &BigInt) -> bool {
+        if let (Some([_, g, b, d]), Some(j), Some(bound)) =
+            (self.small, j.to_i128(), bound.to_i128())
+        {
+            let num = j.checked_mul(j + 1).and_then(|x| {
+                let bx = b.checked_mul(x)?;
+                let dxx = d.checked_mul(x)?.checked_mul(x)?;
+                g.checked_add(bx)?.checked_sub(dxx)
+            });
+            if let Some(num) = num {
+                return num <= bound;
+            }
+        }
+        let x = j * (j + 1u32);
+        &self.g + &self.b * &x - &self.d * &x * &x <= *bound
+    }
+
     /// E(J), exactly and reduced.
     fn energy(&self, j: u64) -> BigRational {
         use num_integer::Integer;
@@ -995,6 +1057,32 @@ mod ladder_tests {
             let d = BigRational::new(BigInt::from(dn), BigInt::from(dd) * &big);
             let l = Ladder::new(&g, &b, &d);
             prop_assert_eq!(l.energy(j), plain(&g, &b, &d, j));
+        }
+
+        /// The integer comparison num(J) ≤ ⌊e·den⌋ decides E(J) ≤ e
+        /// exactly as the big-rational comparison does, at, just below and
+        /// just above a rung's own energy, with and without overflow.
+        #[test]
+        fn ladder_comparison_matches_the_rational_one(
+            gn in any::<i64>(), gd in 1i64..=i64::MAX,
+            bn in any::<i64>(), bd in 1i64..=i64::MAX,
+            dn in any::<i64>(), dd in 1i64..=i64::MAX,
+            scale in 0u32..80,
+            j in prop_oneof![0u64..100, 1u64 << 20..1u64 << 21, 1u64 << 40..1u64 << 41],
+            k in 0u64..100, nudge in -2i64..=2,
+        ) {
+            let big = BigInt::from(10u32).pow(scale);
+            let g = BigRational::new(BigInt::from(gn) * &big, BigInt::from(gd));
+            let b = BigRational::new(BigInt::from(bn), BigInt::from(bd));
+            let d = BigRational::new(BigInt::from(dn), BigInt::from(dd) * &big);
+            let l = Ladder::new(&g, &b, &d);
+            let e = plain(&g, &b, &d, k)
+                + BigRational::new(BigInt::from(nudge), BigInt::from(gd) * BigInt::from(bd));
+            let bound = l.scaled_floor(&e);
+            prop_assert_eq!(
+                l.numer_at_most(&BigInt::from(j), &bound),
+                plain(&g, &b, &d, j) <= e
+            );
         }
     }
 }

@@ -6,8 +6,10 @@
 //! states up to any energy (the summation engine bounds truncated tails with
 //! it). Temperature and floating point never appear here.
 
+mod ladder;
 mod structure;
 
+pub use ladder::PolyLadder;
 pub use structure::Structure;
 
 use crate::error::{Error, Result};
@@ -118,6 +120,18 @@ pub trait Spectrum: Send + Sync {
     /// tail with it; without it (and without a highest level) a spectrum
     /// cannot be summed.
     fn growth_exponent(&self) -> Option<f64> {
+        None
+    }
+
+    /// The states up to `cutoff` as J ladders whose energies are a
+    /// polynomial in J(J+1) (exactly the states of
+    /// [`Spectrum::levels_within`]), for the engine's recurrence along each
+    /// ladder; `None` when the spectrum has no such shape. Default: `None`.
+    fn poly_ladders(
+        &self,
+        _cutoff: &BigRational,
+        _budget: &Budget,
+    ) -> Option<Result<Vec<PolyLadder>>> {
         None
     }
 

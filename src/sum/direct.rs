@@ -7,7 +7,7 @@ use crate::error::{Error, Result};
 use crate::spectrum::Spectrum;
 use num_bigint::BigInt;
 use num_rational::BigRational;
-use num_traits::ToPrimitive;
+use num_traits::{ToPrimitive, Zero};
 use rug::{Float, Integer, Rational};
 
 /// An exact rational as an MPFR-ready rational.
@@ -73,17 +73,24 @@ fn tail_bounds(count: &dyn Fn(f64) -> f64, x_c: f64, p: f64, ln_eps: f64) -> [f6
 /// ground level, their tails bounded relative to the first excited level's
 /// term, and the cutoff widens until the tail bound is small against every
 /// result (at low temperature Cv/k can be far smaller than the tail's share
-/// of q).
-pub(crate) fn stats(s: &dyn Spectrum, beta: &BigRational, prec: u32) -> Result<Stats> {
+/// of q). With `ladders`, a spectrum that offers its J ladders
+/// ([`Spectrum::poly_ladders`]) is summed along them by recurrence
+/// ([`super::poly`]) instead of level by level.
+pub(crate) fn stats(
+    s: &dyn Spectrum,
+    beta: &BigRational,
+    prec: u32,
+    ladders: bool,
+) -> Result<Stats> {
     let mut widen = 1.0;
     for _ in 0..6 {
-        let (st, tail_ok) = stats_from(s, beta, prec, widen)?;
+        let (st, tail_ok) = stats_from(s, beta, prec, widen, ladders)?;
         if tail_ok {
             return Ok(st);
         }
         widen *= 2.0;
     }
-    stats_from(s, beta, prec, widen).map(|(st, _)| st)
+    stats_from(s, beta, prec, widen, ladders).map(|(st, _)| st)
 }
 
 /// Whether the tails `ln_tail` (absolute, ln) of ⟨x⟩'s and Cv's sums are
@@ -109,6 +116,7 @@ fn first_excitation(
     e0: &BigRational,
     beta: &BigRational,
     first: f64,
+    ladders: bool,
 ) -> Result<Option<(f64, BigRational)>> {
     let top = s.highest_energy();
     let g0 = s.count_bound(e0);
@@ -130,9 +138,19 @@ fn first_excitation(
             cut = top.clone().unwrap_or(cut);
         }
         if capped || s.count_bound(&cut) > g0 {
-            let list = s.levels_up_to(&cut)?;
-            if let Some(l) = list.levels().get(1) {
-                let x1 = ((&l.energy - e0) * beta).to_f64().unwrap_or(f64::INFINITY);
+            let e1 = match s
+                .poly_ladders(&cut, &crate::spectrum::Budget::default())
+                .filter(|_| ladders)
+            {
+                Some(l) => lowest_above(&l?, e0),
+                None => s
+                    .levels_up_to(&cut)?
+                    .levels()
+                    .get(1)
+                    .map(|l| l.energy.clone()),
+            };
+            if let Some(e1) = e1 {
+                let x1 = ((&e1 - e0) * beta).to_f64().unwrap_or(f64::INFINITY);
                 return Ok(Some((x1, cut)));
             }
             if capped {
@@ -146,6 +164,20 @@ fn first_excitation(
     }
 }
 
+/// The lowest energy above `e0` on a rung with states, over `ladders`
+/// (energy rises along each ladder).
+fn lowest_above(ladders: &[crate::spectrum::PolyLadder], e0: &BigRational) -> Option<BigRational> {
+    ladders
+        .iter()
+        .filter_map(|l| {
+            (l.first..=l.last)
+                .filter(|&j| !l.weights[(j % 2) as usize].is_zero())
+                .map(|j| l.energy(j))
+                .find(|e| e > e0)
+        })
+        .min()
+}
+
 /// One direct sum, the cutoff `widen` times further past the first excited
 /// level than the tail target needs; returns the stats and whether a tail
 /// was cut off.
@@ -154,6 +186,7 @@ fn stats_from(
     beta: &BigRational,
     prec: u32,
     widen: f64,
+    ladders: bool,
 ) -> Result<(Stats, bool)> {
     let ln_eps = ln_target(prec);
     let e0 = s.ground_energy();
@@ -161,7 +194,7 @@ fn stats_from(
     let p = s.growth_exponent();
     let top = s.highest_energy();
     let span = (-ln_eps + 10.0 + 2.0 * p.unwrap_or(0.0)) * widen;
-    let (levels, ln_tail) = match (p, &top) {
+    let (cut, ln_tail) = match (p, &top) {
         (None, None) => {
             return Err(Error::invalid(
                 "spectrum",
@@ -170,9 +203,9 @@ fn stats_from(
                  bound, so the truncated tail cannot be bounded",
             ))
         }
-        (None, Some(t)) => (s.levels_up_to(t)?, None),
-        (Some(p), _) => match first_excitation(s, &e0, beta, 1.25 * span)? {
-            None => (s.levels_up_to(&e0)?, None),
+        (None, Some(t)) => (t.clone(), None),
+        (Some(p), _) => match first_excitation(s, &e0, beta, 1.25 * span, ladders)? {
+            None => (e0.clone(), None),
             Some((x1, _)) => {
                 if x1.is_nan() || x1 > super::MAX_EXCITATION {
                     check_excitation(x1, &s.describe())?;
@@ -190,8 +223,8 @@ fn stats_from(
                                 "kT is too small or too large to form a cutoff",
                             )
                         })?;
-                    if top.as_ref().is_some_and(|t| *t <= cutoff) {
-                        break (s.levels_up_to(top.as_ref().unwrap_or(&cutoff))?, None);
+                    if let Some(t) = top.as_ref().filter(|t| **t <= cutoff) {
+                        break (t.clone(), None);
                     }
                     let count = |x: f64| -> f64 {
                         match BigRational::from_float(x / beta_f) {
@@ -202,7 +235,7 @@ fn stats_from(
                     let t = tail_bounds(&count, x_c, p, ln_eps - x1);
                     let need = ln_eps - x1 - 2.0 + x1.min(1.0).ln().min(0.0) * 2.0;
                     if t[0] < need && t[1] < need && t[2] < need {
-                        break (s.levels_up_to(&cutoff)?, Some(t));
+                        break (cutoff, Some(t));
                     }
                     if x_c > x1 + 1e7 {
                         return Err(Error::budget(format!(
@@ -216,30 +249,47 @@ fn stats_from(
             }
         },
     };
-    let mut it = levels.iter();
-    let ground = it
-        .next()
-        .ok_or_else(|| Error::invalid("spectrum", s.describe(), "it has no levels to sum"))?;
-    if ground.energy != e0 {
+    let t = ln_tail.unwrap_or([f64::NEG_INFINITY; 3]);
+    let tails = t.map(|lt| Float::with_val(64, lt).exp());
+    let budget = crate::spectrum::Budget::default();
+    let (g0, [e, m1, m2]) = match s.poly_ladders(&cut, &budget).filter(|_| ladders) {
+        Some(l) => {
+            let (g0, sums) = super::poly::ladder_sums(&l?, &e0, beta, prec)?;
+            (g0, with_tails(sums, tails))
+        }
+        None => {
+            let levels = s.levels_up_to(&cut)?;
+            let mut it = levels.iter();
+            let ground = it.next().ok_or_else(|| {
+                Error::invalid("spectrum", s.describe(), "it has no levels to sum")
+            })?;
+            if ground.energy != e0 {
+                return Err(Error::invalid(
+                    "spectrum",
+                    s.describe(),
+                    "its lowest listed level differs from its ground energy",
+                ));
+            }
+            let beta_r = Float::with_val(prec, &to_rug(beta));
+            // The excitation E − E0 exactly in GMP (far cheaper than a
+            // reduced big-rational difference), then rounded once to the
+            // working precision.
+            let e0_r = to_rug(&e0);
+            let terms = it.map(|l| {
+                let excitation = to_rug(&l.energy) - &e0_r;
+                let x = Float::with_val(prec, &excitation) * &beta_r;
+                (x, big(&l.degeneracy))
+            });
+            (big(&ground.degeneracy), excited_sums(terms, tails, prec))
+        }
+    };
+    if g0 == 0 {
         return Err(Error::invalid(
             "spectrum",
             s.describe(),
-            "its lowest listed level differs from its ground energy",
+            "no listed level lies at its ground energy",
         ));
     }
-    let g0 = big(&ground.degeneracy);
-    let beta_r = Float::with_val(prec, &to_rug(beta));
-    let t = ln_tail.unwrap_or([f64::NEG_INFINITY; 3]);
-    let tails = t.map(|lt| Float::with_val(64, lt).exp());
-    // The excitation E − E0 exactly in GMP (far cheaper than a reduced
-    // big-rational difference), then rounded once to the working precision.
-    let e0_r = to_rug(&e0);
-    let terms = it.map(|l| {
-        let excitation = to_rug(&l.energy) - &e0_r;
-        let x = Float::with_val(prec, &excitation) * &beta_r;
-        (x, big(&l.degeneracy))
-    });
-    let [e, m1, m2] = excited_sums(terms, tails, prec);
     let cut = ln_tail.is_some();
     let shift = rational_ball(&(&e0 * beta), prec);
     let st = Stats::from_excitations(&g0, &e, &m1, &m2, shift)
@@ -278,13 +328,17 @@ pub(crate) fn excited_sums(
     // and each product one more; all terms are positive, so each sum's
     // relative error is at most (3 x_max + n + 16) units.
     let rel = Float::with_val(64, (3.0 * x_max + n as f64 + 16.0) * 1.01) >> prec;
-    let [t0, t1, t2] = tails;
-    let with = |v: Float, t: Float| {
-        let mut b = Ball::with_rel(v, &rel);
-        b.r = super::ball::up_add(&b.r, &t);
+    with_tails([e, m1, m2].map(|v| Ball::with_rel(v, &rel)), tails)
+}
+
+/// The sums' balls widened by the absolute tail bounds.
+fn with_tails(sums: [Ball; 3], tails: [Float; 3]) -> [Ball; 3] {
+    let mut i = 0;
+    sums.map(|mut b| {
+        b.r = super::ball::up_add(&b.r, &tails[i]);
+        i += 1;
         b
-    };
-    [with(e, t0), with(m1, t1), with(m2, t2)]
+    })
 }
 
 /// A big natural number as an MPFR-ready integer.

@@ -71,6 +71,7 @@ mod direct;
 pub(crate) use direct::to_rug;
 pub(crate) mod format;
 mod ladder;
+mod poly;
 
 use crate::budget::Meter;
 use crate::error::{Error, ErrorKind, Result};
@@ -306,7 +307,7 @@ fn stats_metered(
     meter: Option<(&Meter, f64)>,
 ) -> Result<Stats> {
     if path == Path::Direct {
-        return direct::stats(s, beta, prec);
+        return direct::stats(s, beta, prec, false);
     }
     // Parts share the tail target: a few guard bits cover their number.
     let share = |n: usize| prec + (usize::BITS - n.leading_zeros());
@@ -316,7 +317,7 @@ fn stats_metered(
         | Structure::Top { .. }
         | Structure::Spherical(_)
         | Structure::Near { .. }
-        | Structure::Rotor { rigid: false, .. } => direct::stats(s, beta, prec),
+        | Structure::Rotor { rigid: false, .. } => direct::stats(s, beta, prec, true),
         Structure::Parts(parts) => {
             let p = share(parts.len());
             let n = parts.len() as f64;
@@ -644,5 +645,12 @@ impl Spectrum for Cached<'_> {
     }
     fn warnings(&self, cutoff: &BigRational) -> Vec<String> {
         self.inner.warnings(cutoff)
+    }
+    fn poly_ladders(
+        &self,
+        cutoff: &BigRational,
+        budget: &crate::spectrum::Budget,
+    ) -> Option<Result<Vec<crate::spectrum::PolyLadder>>> {
+        self.inner.poly_ladders(cutoff, budget)
     }
 }

@@ -1,0 +1,43 @@
+//! J ladders whose energies are a polynomial in J(J+1): the shape of every
+//! rotational ladder, told to the summation engine so that it can step
+//! along a ladder with an exact recurrence instead of one exponential per
+//! level.
+
+use num_bigint::BigUint;
+use num_rational::BigRational;
+
+/// The rungs `J = first..=last` of one ladder, with energies
+/// `E(J) = Σ_k coeffs[k] · [J(J+1)]^k` and `(2J+1) · weights[J mod 2]`
+/// states each (a weight of zero removes the rung).
+///
+/// A spectrum that offers its ladders ([`super::Spectrum::poly_ladders`])
+/// promises that, for a cutoff, its ladders hold exactly the states its
+/// level listing holds, and that energy rises with J along each ladder.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct PolyLadder {
+    /// Coefficients of E as a polynomial in n = J(J+1), constant first.
+    pub coeffs: Vec<BigRational>,
+    /// The lowest rung.
+    pub first: u64,
+    /// The highest rung (at least `first`).
+    pub last: u64,
+    /// The nuclear-spin weights of even and odd J.
+    pub weights: [BigUint; 2],
+}
+
+impl PolyLadder {
+    /// E(J), exactly.
+    pub fn energy(&self, j: u64) -> BigRational {
+        let n = BigRational::from_integer((u128::from(j) * (u128::from(j) + 1)).into());
+        let mut e = BigRational::from_integer(0.into());
+        for c in self.coeffs.iter().rev() {
+            e = e * &n + c;
+        }
+        e
+    }
+
+    /// The number of states on rung `j`.
+    pub fn degeneracy(&self, j: u64) -> BigUint {
+        BigUint::from(2 * u128::from(j) + 1) * &self.weights[(j % 2) as usize]
+    }
+}
