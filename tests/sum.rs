@@ -389,8 +389,8 @@ fn rovib_ladder_recurrence_matches_the_direct_sum() {
     // = 0.001: ln q below 1e-800) to far past dissociation (every bound level
     // summed), for N2-like constants (Huber-Herzberg 1979, from memory)
     // with both spin isomers apart and together, an H2-like rotor (large B
-    // and D) and a heavy I2-like one (many rungs), and without D (a
-    // quadratic ladder).
+    // and D) and a heavy I2-like one (many rungs), without D (a quadratic
+    // ladder) and with integers beyond 64 bits.
     let n2 = |w| rovib("2358.57", "14.324", "1.99824", "0.017318", "5.76e-6", w);
     let cases = [
         (n2([6, 3]), 2.875),
@@ -405,6 +405,19 @@ fn rovib_ladder_recurrence_matches_the_direct_sum() {
             0.05377,
         ),
         (rovib("1000", "5", "1", "0.01", "0", [1, 1]), 1.4388),
+        // A denominator of 10^30: the ladder integers leave i64 and the
+        // engine falls back to the level-by-level sum.
+        (
+            rovib(
+                "2358.57",
+                "14.324",
+                "1.998240000000000000000000000001",
+                "0.017318",
+                "5.76e-6",
+                [1, 1],
+            ),
+            2.875,
+        ),
     ];
     for (m, theta_rot) in &cases {
         for ratio in [0.001, 0.05, 0.7, 3.0, 40.0, 1e3, 1e6] {

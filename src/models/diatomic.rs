@@ -186,6 +186,8 @@ impl ParityWeights {
 const EXACT_COUNT_LEVELS: u64 = 4096;
 /// Vibrational levels that `new` will scan to find the lowest odd-J level.
 const GROUND_SCAN_LEVELS: u64 = 1_000_000;
+/// Vibrational levels whose J ladders are prepared once, at construction.
+const CACHED_LADDERS: u64 = 512;
 /// Vibrational levels that `warnings` examines.
 const WARNING_SCAN_LEVELS: u64 = 100_000;
 
@@ -214,6 +216,9 @@ pub struct RovibDiatomic {
     d: BigRational,
     weights: ParityWeights,
     ground: BigRational,
+    /// The J ladders of the first vibrational levels on one denominator
+    /// each (derived from the constants; searched on every sum).
+    cached: Vec<Ladder>,
 }
 
 impl RovibDiatomic {
@@ -263,8 +268,14 @@ impl RovibDiatomic {
             d: d_e,
             weights,
             ground: BigRational::zero(),
+            cached: Vec::new(),
         };
         m.check_rotational_constants()?;
+        let n = m
+            .vib
+            .v_max()
+            .map_or(CACHED_LADDERS, |v| (v + 1).min(CACHED_LADDERS));
+        m.cached = (0..n).map(|v| m.new_ladder(&BigInt::from(v))).collect();
         m.ground = m.find_ground()?;
         Ok(m)
     }
@@ -414,9 +425,17 @@ impl RovibDiatomic {
     }
 
     /// The J ladder of level v on one denominator, for listing many rungs.
-    fn ladder(&self, v: u64) -> Ladder {
-        let vb = BigInt::from(v);
-        Ladder::new(&self.vib.g(&vb), &self.b_big(&vb), &self.d)
+    fn ladder(&self, v: u64) -> std::borrow::Cow<'_, Ladder> {
+        match self.cached.get(v as usize) {
+            Some(l) => std::borrow::Cow::Borrowed(l),
+            None => std::borrow::Cow::Owned(self.new_ladder(&BigInt::from(v))),
+        }
+    }
+
+    fn new_ladder(&self, v: &BigInt) -> Ladder {
+        let mut l = Ladder::new(&self.vib.g(v), &self.b_big(v), &self.d);
+        l.jmax = self.jmax_big(v);
+        l
     }
 
     fn b_big(&self, v: &BigInt) -> BigRational {
@@ -454,42 +473,20 @@ impl RovibDiatomic {
     /// The highest rung J of level v with E(v, J) ≤ `e`; `None` if even
     /// G(v) lies above `e`.
     fn j_top(&self, v: &BigInt, e: &BigRational) -> Option<BigInt> {
-        let g = self.vib.g(v);
-        if &g > e {
+        let ladder = match v.to_u64() {
+            Some(v) => self.ladder(v),
+            None => std::borrow::Cow::Owned(self.new_ladder(v)),
+        };
+        // Compared on the ladder's integers: E(J) ≤ e ⇔ num(J) ≤ ⌊e·den⌋.
+        let bound = ladder.scaled_floor(e);
+        if ladder.g > bound {
             return None;
         }
-        let b = self.b_big(v);
-        let hint = self.j_hint(&b, &(e - &g));
-        // Compared on the ladder's integers: E(J) ≤ e ⇔ num(J) ≤ ⌊e·den⌋.
-        let ladder = Ladder::new(&g, &b, &self.d);
-        let bound = ladder.scaled_floor(e);
         last_true(
             |j| ladder.numer_at_most(j, &bound),
-            self.jmax_big(v).as_ref(),
-            &hint,
+            ladder.jmax.as_ref(),
+            &ladder.hint(&bound),
         )
-    }
-
-    /// A floating-point guess at the rung reached with rotational energy
-    /// `room` (only a starting point for the exact search).
-    fn j_hint(&self, b: &BigRational, room: &BigRational) -> BigInt {
-        let b = b.to_f64().unwrap_or(0.0);
-        let d = self.d.to_f64().unwrap_or(0.0);
-        let r = room.to_f64().unwrap_or(0.0);
-        let x = if d > 0.0 {
-            let disc = b * b - 4.0 * d * r;
-            if disc >= 0.0 {
-                2.0 * r / (b + disc.sqrt())
-            } else {
-                b / (2.0 * d)
-            }
-        } else {
-            r / b
-        };
-        let j = (((1.0 + 4.0 * x).sqrt() - 1.0) / 2.0).floor();
-        BigInt::from_f64(j)
-            .filter(|j| !j.is_negative())
-            .unwrap_or_default()
     }
 
     /// The number of vibrational levels with G(v) ≤ `e`, checked against
@@ -651,14 +648,14 @@ impl Spectrum for RovibDiatomic {
                 self.weights.weight(0).clone(),
                 self.weights.weight(1).clone(),
             ];
-            let minus_d = -self.d.clone();
             Ok(self
                 .ladders(cutoff, budget, &what)?
                 .into_iter()
                 .map(|(v, last)| {
-                    let vb = BigInt::from(v);
+                    let l = self.ladder(v);
                     PolyLadder {
-                        coeffs: vec![self.vib.g(&vb), self.b_big(&vb), minus_d.clone()],
+                        numerators: vec![l.g.clone(), l.b.clone(), -l.d.clone()],
+                        denominator: l.den.clone(),
                         first: 0,
                         last,
                         weights: weights.clone(),
@@ -935,12 +932,15 @@ mod tests {
 /// big-rational products. Numerators are evaluated in `i128` with checked
 /// arithmetic and fall back to big integers when they would overflow; the
 /// result is the same reduced rational either way.
+#[derive(Debug, Clone, PartialEq, Eq)]
 struct Ladder {
     den: BigInt,
     g: BigInt,
     b: BigInt,
     d: BigInt,
     small: Option<[i128; 4]>,
+    /// The last rung before the centrifugal turn, where known.
+    jmax: Option<BigInt>,
 }
 
 impl Ladder {
@@ -956,7 +956,30 @@ impl Ladder {
             b: bn,
             d: dn,
             small,
+            jmax: None,
         }
+    }
+
+    /// A floating-point guess at the last rung whose numerator is at most
+    /// `bound` (only a starting point for the exact search): the smaller
+    /// root of b x − d x² = room for x = J(J+1).
+    fn hint(&self, bound: &BigInt) -> BigInt {
+        let f = |i: &BigInt| i.to_f64().unwrap_or(0.0);
+        let (b, d, r) = (f(&self.b), f(&self.d), f(&(bound - &self.g)));
+        let x = if d > 0.0 {
+            let disc = b * b - 4.0 * d * r;
+            if disc >= 0.0 {
+                2.0 * r / (b + disc.sqrt())
+            } else {
+                b / (2.0 * d)
+            }
+        } else {
+            r / b
+        };
+        let j = (((1.0 + 4.0 * x).sqrt() - 1.0) / 2.0).floor();
+        BigInt::from_f64(j)
+            .filter(|j| !j.is_negative())
+            .unwrap_or_default()
     }
 
     /// ⌊e · den⌋: a rung's numerator is at most this exactly when its

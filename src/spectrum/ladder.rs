@@ -3,20 +3,25 @@
 //! along a ladder with an exact recurrence instead of one exponential per
 //! level.
 
-use num_bigint::BigUint;
+use num_bigint::{BigInt, BigUint};
 use num_rational::BigRational;
 
 /// The rungs `J = first..=last` of one ladder, with energies
-/// `E(J) = Σ_k coeffs[k] · [J(J+1)]^k` and `(2J+1) · weights[J mod 2]`
-/// states each (a weight of zero removes the rung).
+/// `E(J) = Σ_k numerators[k] · [J(J+1)]^k / denominator` (integers over one
+/// common denominator, so that the engine steps along the ladder in exact
+/// integer arithmetic) and `(2J+1) · weights[J mod 2]` states each (a
+/// weight of zero removes the rung).
 ///
 /// A spectrum that offers its ladders ([`super::Spectrum::poly_ladders`])
 /// promises that, for a cutoff, its ladders hold exactly the states its
 /// level listing holds, and that energy rises with J along each ladder.
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub struct PolyLadder {
-    /// Coefficients of E as a polynomial in n = J(J+1), constant first.
-    pub coeffs: Vec<BigRational>,
+    /// Numerators of E's coefficients as a polynomial in n = J(J+1),
+    /// constant first.
+    pub numerators: Vec<BigInt>,
+    /// Their common denominator (positive).
+    pub denominator: BigInt,
     /// The lowest rung.
     pub first: u64,
     /// The highest rung (at least `first`).
@@ -26,14 +31,19 @@ pub struct PolyLadder {
 }
 
 impl PolyLadder {
-    /// E(J), exactly.
-    pub fn energy(&self, j: u64) -> BigRational {
-        let n = BigRational::from_integer((u128::from(j) * (u128::from(j) + 1)).into());
-        let mut e = BigRational::from_integer(0.into());
-        for c in self.coeffs.iter().rev() {
+    /// The numerator of E(J) over [`PolyLadder::denominator`], exactly.
+    pub fn numerator(&self, j: u64) -> BigInt {
+        let n = BigInt::from(u128::from(j) * (u128::from(j) + 1));
+        let mut e = BigInt::from(0);
+        for c in self.numerators.iter().rev() {
             e = e * &n + c;
         }
         e
+    }
+
+    /// E(J), exactly.
+    pub fn energy(&self, j: u64) -> BigRational {
+        BigRational::new(self.numerator(j), self.denominator.clone())
     }
 
     /// The number of states on rung `j`.

@@ -10,18 +10,20 @@ use num_rational::BigRational;
 use num_traits::{ToPrimitive, Zero};
 use rug::{Float, Integer, Rational};
 
+/// An exact integer as a GMP integer.
+pub(crate) fn big_int(b: &BigInt) -> Integer {
+    let (sign, digits) = b.to_u32_digits();
+    let i = Integer::from_digits(&digits, rug::integer::Order::Lsf);
+    if sign == num_bigint::Sign::Minus {
+        -i
+    } else {
+        i
+    }
+}
+
 /// An exact rational as an MPFR-ready rational.
 pub(crate) fn to_rug(r: &BigRational) -> Rational {
-    let conv = |b: &BigInt| {
-        let (sign, digits) = b.to_u32_digits();
-        let i = Integer::from_digits(&digits, rug::integer::Order::Lsf);
-        if sign == num_bigint::Sign::Minus {
-            -i
-        } else {
-            i
-        }
-    };
-    Rational::from((conv(r.numer()), conv(r.denom())))
+    Rational::from((big_int(r.numer()), big_int(r.denom())))
 }
 
 /// ln of the tail bound Σ_j B(X_{j+1}) X_{j+1}^k e^{−X_j} for k = 0, 1, 2,
@@ -165,15 +167,18 @@ fn first_excitation(
 }
 
 /// The lowest energy above `e0` on a rung with states, over `ladders`
-/// (energy rises along each ladder).
+/// (energy rises along each ladder), compared on each ladder's integers.
 fn lowest_above(ladders: &[crate::spectrum::PolyLadder], e0: &BigRational) -> Option<BigRational> {
+    use num_integer::Integer;
     ladders
         .iter()
         .filter_map(|l| {
+            // E(J) > e0 ⇔ num(J) > ⌊e0·den⌋.
+            let bound = (e0.numer() * &l.denominator).div_floor(e0.denom());
             (l.first..=l.last)
                 .filter(|&j| !l.weights[(j % 2) as usize].is_zero())
+                .find(|&j| l.numerator(j) > bound)
                 .map(|j| l.energy(j))
-                .find(|e| e > e0)
         })
         .min()
 }
@@ -252,11 +257,12 @@ fn stats_from(
     let t = ln_tail.unwrap_or([f64::NEG_INFINITY; 3]);
     let tails = t.map(|lt| Float::with_val(64, lt).exp());
     let budget = crate::spectrum::Budget::default();
-    let (g0, [e, m1, m2]) = match s.poly_ladders(&cut, &budget).filter(|_| ladders) {
-        Some(l) => {
-            let (g0, sums) = super::poly::ladder_sums(&l?, &e0, beta, prec)?;
-            (g0, with_tails(sums, tails))
-        }
+    let by_ladders = match s.poly_ladders(&cut, &budget).filter(|_| ladders) {
+        Some(l) => super::poly::ladder_sums(&l?, &e0, beta, prec)?,
+        None => None,
+    };
+    let (g0, [e, m1, m2]) = match by_ladders {
+        Some((g0, sums)) => (g0, with_tails(sums, tails)),
         None => {
             let levels = s.levels_up_to(&cut)?;
             let mut it = levels.iter();

@@ -12,9 +12,14 @@
 //!
 //! The differences `Δ^k E(j₀)` are exact integers over the ladder's common
 //! denominator, so each factor starts from one rounding of an exact value.
-//! `x(J)` itself, needed for ⟨x⟩ and Cv, is formed from the exact integer
-//! `K(J) = den · (E(J) − E(j₀))`, kept by the same difference scheme in
-//! integers: `x = x(j₀) + (β/den) K`, a sum of two non-negative terms.
+//! The exact integer `K(J) = den · (E(J) − E(j₀))` is kept by the same
+//! difference scheme in checked machine integers (a ladder beyond them is
+//! summed level by level instead), and with `x = x₀ + s K`, `s = β/den`,
+//! the moments follow from `S_k = Σ g e^{−x} K^k`:
+//! `Σ g x e^{−x} = x₀ S₀ + s S₁`, `Σ g x² e^{−x} = x₀² S₀ + 2 x₀ s S₁ + s² S₂`,
+//! every term non-negative. When only one parity of J carries states the
+//! recurrence steps two rungs at a time; the weights multiply the even and
+//! odd sums once per ladder.
 //!
 //! # Rounding
 //! With `u = 2^{1−P}` at working precision P (at least twice MPFR's
@@ -22,16 +27,16 @@
 //! `(|y_k| + 1) u` for its exponent `y_k` (rounding y_k, then the
 //! exponential); a product adds the errors of its factors and one more
 //! unit, so the engine tracks every factor's bound rung by rung (in units
-//! of u, in `f64`). The guard bits keep every bound below `2^−30`, where
-//! the neglected products of errors add less than one part in 10⁸ over the
-//! longest ladder; the final bound takes a margin of 5 % for them and for
-//! the `f64` bookkeeping. `x` carries at most 5 units (two exact-value
-//! roundings, a product and a sum of non-negative terms, and converting K).
-//! A term `g f_0 x^k` adds `k (5 + 1) + 2` units to `f_0`'s, and adding n
-//! positive terms costs at most n − 1 more units of the sum.
+//! of u, in `f64`). Over m rungs f_0 collects at most C(m + d, d) times the
+//! largest starting bound; the guard bits keep that below 2^−8 of the
+//! target and the neglected products of errors, compounded over every
+//! product made, below one part in 10⁶; the final bound takes a margin of
+//! 5 % for them and for the `f64` bookkeeping. A term `(2J+1) f_0 K^k` adds
+//! 1 + k units (K is exact), the weights 2, forming the moments from x₀ and
+//! s at most 8, and each addition of non-negative terms one more.
 
 use super::ball::{Ball, RP};
-use super::direct::to_rug;
+use super::direct::{big_int, to_rug};
 use crate::error::{Error, Result};
 use crate::spectrum::PolyLadder;
 use num_rational::BigRational;
@@ -73,18 +78,11 @@ fn prepare(
     beta: &Rational,
     g0: &mut Integer,
 ) -> Result<Option<Prepared>> {
-    let mut coeffs: Vec<Rational> = l.coeffs.iter().map(to_rug).collect();
-    while coeffs.len() > 1 && coeffs.last().is_some_and(|c| c.is_zero()) {
-        coeffs.pop();
+    let mut a: Vec<Integer> = l.numerators.iter().map(big_int).collect();
+    while a.len() > 1 && a.last().is_some_and(|c| c.is_zero()) {
+        a.pop();
     }
-    let mut den = Integer::from(1);
-    for c in &coeffs {
-        den.lcm_mut(c.denom());
-    }
-    let a: Vec<Integer> = coeffs
-        .iter()
-        .map(|c| Integer::from(c.numer() * Integer::from(&den / c.denom())))
-        .collect();
+    let den = big_int(&l.denominator);
     let weights = [
         super::direct::big(&l.weights[0]),
         super::direct::big(&l.weights[1]),
@@ -121,7 +119,7 @@ fn prepare(
     if j0 > l.last {
         return Ok(None);
     }
-    let d = 2 * (coeffs.len() - 1);
+    let d = 2 * (a.len() - 1);
     // K(j₀ + i·stride) for i = 0..=d (a polynomial of degree d in i),
     // then its forward differences at j₀.
     let base = numerator(&a, j0);
@@ -159,13 +157,14 @@ fn growth(m: f64, d: usize) -> f64 {
 /// `Σ g x² e^{−x}` over every rung of `ladders` above `e0`, at inverse
 /// temperature `beta`, to a relative error far below `2^−prec` (the balls'
 /// radii bound it; add the truncated tails separately). The sums come at a
-/// few guard bits more than `prec`.
+/// few guard bits more than `prec`. `None` when a ladder's integers
+/// leave the machine range (the caller then sums level by level).
 pub(crate) fn ladder_sums(
     ladders: &[PolyLadder],
     e0: &BigRational,
     beta: &BigRational,
     prec: u32,
-) -> Result<(Integer, [Ball; 3])> {
+) -> Result<Option<(Integer, [Ball; 3])>> {
     let (e0, beta) = (to_rug(e0), to_rug(beta));
     let mut g0 = Integer::new();
     let mut prepared = Vec::with_capacity(ladders.len());
@@ -201,13 +200,23 @@ pub(crate) fn ladder_sums(
     let mut sums = [Float::new(prec_w), Float::new(prec_w), Float::new(prec_w)];
     let mut worst_units = 0f64;
     let mut terms = 0f64;
-    let (mut t, mut x, mut ak) = (Float::new(prec_w), Float::new(prec_w), Float::new(prec_w));
+    let mut t = Float::new(prec_w);
+    let new3 = || [Float::new(prec_w), Float::new(prec_w), Float::new(prec_w)];
     for p in &prepared {
         let d = p.diffs.len();
+        // K and its differences in machine integers, checked at every step;
+        // a ladder beyond i64 is left to the level-by-level sum.
+        let Some(mut diffs) = p
+            .diffs
+            .iter()
+            .map(|k| k.to_i64())
+            .collect::<Option<Vec<i64>>>()
+        else {
+            return Ok(None);
+        };
         // f[0] = e^{−x(j₀)}, f[k] = e^{−β Δ^k E(j₀)}, with error units e[k].
         let mut f = Vec::with_capacity(d + 1);
         let mut e = Vec::with_capacity(d + 1);
-        let x0 = Float::with_val(prec_w, &p.x0);
         for y in std::iter::once(p.x0.clone())
             .chain(p.diffs.iter().map(|k| Rational::from(k * &p.scale)))
         {
@@ -215,26 +224,21 @@ pub(crate) fn ladder_sums(
             e.push(y.to_f64().abs() * 1.01 + 1.01);
             f.push(yf.exp());
         }
-        let scale = Float::with_val(prec_w, &p.scale);
-        let mut diffs = p.diffs.clone();
-        let mut k_int = Integer::new();
+        // Σ (2J+1) e^{−x} K^k over the even and the odd rungs, weighted
+        // once at the end.
+        let mut acc = [new3(), new3()];
+        let mut k_int = 0i64;
         let mut j = p.j0;
         loop {
-            let w = &p.weights[(j % 2) as usize];
-            if *w != 0 {
-                // x = x(j₀) + (β/den) K(J).
-                ak.assign(&k_int);
-                ak *= &scale;
-                x.assign(&x0 + &ak);
+            let par = (j % 2) as usize;
+            if p.weights[par] != 0 {
+                let a = &mut acc[par];
                 t.assign(&f[0] * (2 * j + 1));
-                if *w != 1 {
-                    t *= w;
-                }
-                sums[0] += &t;
-                t *= &x;
-                sums[1] += &t;
-                t *= &x;
-                sums[2] += &t;
+                a[0] += &t;
+                t *= k_int;
+                a[1] += &t;
+                t *= k_int;
+                a[2] += &t;
                 terms += 1.0;
             }
             if p.last - j < p.stride {
@@ -244,34 +248,59 @@ pub(crate) fn ladder_sums(
             // Step every factor and difference one rung, lowest first so
             // that each takes its neighbour's old value.
             if d > 0 {
-                k_int += &diffs[0];
+                let Some(k) = k_int.checked_add(diffs[0]) else {
+                    return Ok(None);
+                };
+                k_int = k;
             }
             for k in 0..d {
                 let (lo, hi) = f.split_at_mut(k + 1);
                 lo[k] *= &hi[0];
                 e[k] += e[k + 1] + 1.0;
                 if k + 1 < d {
-                    let (lo, hi) = diffs.split_at_mut(k + 1);
-                    lo[k] += &hi[0];
+                    let Some(next) = diffs[k].checked_add(diffs[k + 1]) else {
+                        return Ok(None);
+                    };
+                    diffs[k] = next;
                 }
             }
         }
         worst_units = worst_units.max(e[0]);
+        // S_k = Σ g e^{−x} K^k, then with x = x(j₀) + s K (both terms
+        // non-negative): Σ g x e^{−x} = x₀ S₀ + s S₁ and
+        // Σ g x² e^{−x} = x₀² S₀ + 2 x₀ s S₁ + s² S₂.
+        let [even, odd] = acc;
+        let mut sk = new3();
+        for (k, (ev, od)) in even.into_iter().zip(odd).enumerate() {
+            sk[k] = ev * &p.weights[0] + od * &p.weights[1];
+        }
+        let x0 = Float::with_val(prec_w, &p.x0);
+        let s = Float::with_val(prec_w, &p.scale);
+        let x0s = Float::with_val(prec_w, &x0 * &s);
+        sums[0] += &sk[0];
+        sums[1] += Float::with_val(prec_w, &x0 * &sk[0]) + Float::with_val(prec_w, &s * &sk[1]);
+        let x0x0 = Float::with_val(prec_w, x0.square_ref());
+        let ss = Float::with_val(prec_w, s.square_ref());
+        sums[2] += Float::with_val(prec_w, &x0x0 * &sk[0])
+            + Float::with_val(prec_w, &x0s * &sk[1]) * 2u32
+            + Float::with_val(prec_w, &ss * &sk[2]);
     }
-    // f_0's bound, then x's 5 units and a product per power, 2 for the
-    // degeneracy; the 5 % margin covers the neglected error products and
-    // the f64 bookkeeping.
+    // f_0's bound, one unit for (2J+1) and one per power of the exact K;
+    // then 2 for the weights, at most 8 for forming the moments from x₀ and
+    // s, and one per addition; the 5 % margin covers the neglected error
+    // products and the f64 bookkeeping.
+    let ladders_n = prepared.len() as f64;
     let rel_of = |k: f64| {
-        let units = (worst_units + 2.0 + k * 6.0) * 1.05 + terms;
+        let units = (worst_units + 1.0 + k + 2.0 + 8.0) * 1.05 + terms + 4.0 * ladders_n;
         Float::with_val(RP, units) >> (prec_w - 1)
     };
     let [s0, s1, s2] = sums;
-    Ok((
+    Ok(Some((
         g0,
         [
             Ball::with_rel(s0, &rel_of(0.0)),
             Ball::with_rel(s1, &rel_of(1.0)),
             Ball::with_rel(s2, &rel_of(2.0)),
         ],
-    ))
+    )))
 }
