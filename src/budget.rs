@@ -100,8 +100,9 @@ impl Budget {
 
     /// Refuses work estimated at `estimate` bytes of working memory (the
     /// baseline is added here) if it exceeds the budget; `what` names the
-    /// work and `advice` says how to proceed.
-    pub fn check(&self, what: &str, estimate: f64, advice: &str) -> Result<()> {
+    /// work (formatted only when refusing) and `advice` says how to
+    /// proceed.
+    pub fn check(&self, what: impl std::fmt::Display, estimate: f64, advice: &str) -> Result<()> {
         self.check_listing(what, estimate, 0.0, 0.0, advice)
     }
 
@@ -110,7 +111,7 @@ impl Budget {
     /// its downstream cost.
     pub fn check_listing(
         &self,
-        what: &str,
+        what: impl std::fmt::Display,
         working: f64,
         levels: f64,
         states: f64,
@@ -136,7 +137,7 @@ impl Budget {
     /// bytes of working memory each (plus their downstream cost).
     pub fn check_levels(
         &self,
-        what: &str,
+        what: impl std::fmt::Display,
         levels: f64,
         bytes_each: f64,
         advice: &str,
@@ -146,7 +147,7 @@ impl Budget {
 
     /// Refuses work of `ops` elementary operations if, at the reference
     /// machine's speed, it would take longer than the time budget.
-    pub fn check_work(&self, what: &str, ops: f64, advice: &str) -> Result<()> {
+    pub fn check_work(&self, what: impl std::fmt::Display, ops: f64, advice: &str) -> Result<()> {
         let seconds = ops / REFERENCE_OPS_PER_SECOND;
         if seconds > self.seconds || seconds.is_nan() {
             Err(Error::budget(format!(

@@ -35,6 +35,7 @@ use crate::units::EnergyUnit;
 use num_bigint::{BigInt, BigUint};
 use num_rational::BigRational;
 use num_traits::{FromPrimitive, One, Signed, ToPrimitive, Zero};
+use std::fmt::Display;
 
 /// The parity of J: even or odd.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
@@ -186,6 +187,17 @@ impl ParityWeights {
 const EXACT_COUNT_LEVELS: u64 = 4096;
 /// Vibrational levels that `new` will scan to find the lowest odd-J level.
 const GROUND_SCAN_LEVELS: u64 = 1_000_000;
+/// A message naming an energy, formatted only when an error needs it
+/// (exact decimals of a cutoff are costly, and cutoffs are formed for every
+/// temperature).
+struct Naming<'a>(&'static str, &'a BigRational);
+
+impl Display for Naming<'_> {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        write!(f, "{}{}", self.0, show(self.1))
+    }
+}
+
 /// Vibrational levels whose J ladders are prepared once, at construction.
 const CACHED_LADDERS: u64 = 512;
 /// Vibrational levels that `warnings` examines.
@@ -489,10 +501,22 @@ impl RovibDiatomic {
         )
     }
 
+    /// The number of bound vibrational levels with G(v) ≤ `e`: a search
+    /// over the prepared ladders' integers when they cover every bound
+    /// level (G rises along them), else over exact G(v).
+    fn vib_levels_up_to(&self, e: &BigRational) -> BigInt {
+        match self.vib.v_max() {
+            Some(vm) if (vm as usize) < self.cached.len() => BigInt::from(
+                self.cached[..=vm as usize].partition_point(|l| l.g <= l.scaled_floor(e)),
+            ),
+            _ => self.vib.count_levels_up_to(e),
+        }
+    }
+
     /// The number of vibrational levels with G(v) ≤ `e`, checked against
     /// `budget`.
-    fn vib_count(&self, e: &BigRational, budget: &Budget, what: &str) -> Result<u64> {
-        let n = self.vib.count_levels_up_to(e);
+    fn vib_count(&self, e: &BigRational, budget: &Budget, what: &dyn Display) -> Result<u64> {
+        let n = self.vib_levels_up_to(e);
         budget.check(
             what,
             n.to_f64().unwrap_or(f64::INFINITY) * LEVEL_BYTES,
@@ -503,7 +527,12 @@ impl RovibDiatomic {
     }
 
     /// (v, highest J) for every bound v with G(v) ≤ `e`.
-    fn ladders(&self, e: &BigRational, budget: &Budget, what: &str) -> Result<Vec<(u64, u64)>> {
+    fn ladders(
+        &self,
+        e: &BigRational,
+        budget: &Budget,
+        what: &dyn Display,
+    ) -> Result<Vec<(u64, u64)>> {
         let nv = self.vib_count(e, budget, what)?;
         let mut out = Vec::new();
         let mut rungs = 0f64;
@@ -620,7 +649,7 @@ impl Spectrum for RovibDiatomic {
 
     fn levels_within(&self, cutoff: &BigRational, budget: &Budget) -> Result<LevelList> {
         check_cutoff(self, cutoff)?;
-        let what = format!("listing the rovibrational levels up to {}", show(cutoff));
+        let what = Naming("listing the rovibrational levels up to ", cutoff);
         let ladders = self.ladders(cutoff, budget, &what)?;
         let mut levels = Vec::new();
         for (v, top) in ladders {
@@ -643,7 +672,7 @@ impl Spectrum for RovibDiatomic {
     ) -> Option<Result<Vec<PolyLadder>>> {
         let build = || -> Result<Vec<PolyLadder>> {
             check_cutoff(self, cutoff)?;
-            let what = format!("listing the rovibrational levels up to {}", show(cutoff));
+            let what = Naming("listing the rovibrational levels up to ", cutoff);
             let weights = [
                 self.weights.weight(0).clone(),
                 self.weights.weight(1).clone(),
@@ -676,7 +705,7 @@ impl Spectrum for RovibDiatomic {
         budget: &Budget,
     ) -> Result<Vec<(BigRational, Vec<i64>)>> {
         check_cutoff(self, cutoff)?;
-        let what = format!("listing the rovibrational terms up to {}", show(cutoff));
+        let what = Naming("listing the rovibrational terms up to ", cutoff);
         let mut out = Vec::new();
         for (v, top) in self.ladders(cutoff, budget, &what)? {
             let ladder = self.ladder(v);
@@ -693,7 +722,7 @@ impl Spectrum for RovibDiatomic {
         if energy < &self.ground {
             return Ok(Vec::new());
         }
-        let what = format!("finding the states at {}", show(energy));
+        let what = Naming("finding the states at ", energy);
         let nv = self.vib_count(energy, &Budget::default(), &what)?;
         let mut found = Vec::new();
         let mut total = BigUint::zero();
@@ -746,7 +775,7 @@ impl Spectrum for RovibDiatomic {
         if energy < &self.ground {
             return BigUint::zero();
         }
-        let nv = self.vib.count_levels_up_to(energy);
+        let nv = self.vib_levels_up_to(energy);
         if nv > BigInt::from(EXACT_COUNT_LEVELS) {
             return self.count_bound(energy);
         }
@@ -801,7 +830,7 @@ impl Spectrum for RovibDiatomic {
         if energy < &self.ground {
             return BigUint::zero();
         }
-        let nv = self.vib.count_levels_up_to(energy);
+        let nv = self.vib_levels_up_to(energy);
         if nv <= BigInt::from(EXACT_COUNT_LEVELS) {
             // For each bound v the rungs J = 0..=J_top(v) are those with
             // E(v, J) ≤ E (E rises strictly along the listed ladder), holding
@@ -1080,6 +1109,21 @@ mod ladder_tests {
             let d = BigRational::new(BigInt::from(dn), BigInt::from(dd) * &big);
             let l = Ladder::new(&g, &b, &d);
             prop_assert_eq!(l.energy(j), plain(&g, &b, &d, j));
+        }
+
+        /// The count of bound levels with G(v) ≤ e over the prepared
+        /// ladders equals the exact search over G(v), at and around every
+        /// level.
+        #[test]
+        fn vibrational_count_matches_the_exact_search(
+            we in 100u64..5000, wexe in 1u64..200, v in 0u64..400, nudge in -2i64..=2,
+        ) {
+            let r = |n: i64, e: u32| BigRational::new(BigInt::from(n), BigInt::from(10u64.pow(e)));
+            let vib = AnharmonicOscillator::new(r(we as i64, 0), r(wexe as i64, 1), r(0, 0), EnergyUnit::Wavenumber)
+                .unwrap();
+            let m = RovibDiatomic::new(vib.clone(), r(1, 1), r(0, 0), r(0, 0), ParityWeights::uniform()).unwrap();
+            let e = vib.g(&BigInt::from(v)) + r(nudge, 3);
+            prop_assert_eq!(m.vib_levels_up_to(&e), vib.count_levels_up_to(&e));
         }
 
         /// The integer comparison num(J) ≤ ⌊e·den⌋ decides E(J) ≤ e

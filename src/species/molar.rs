@@ -206,12 +206,16 @@ pub(crate) fn n_lambda3(
     pressure: &BigRational,
     prec: u32,
 ) -> Float {
-    let kt = constants::boltzmann() * t;
-    let h = constants::planck();
+    // Exact rationals in GMP: far cheaper than reduced num-bigint products
+    // of the long exact constants, and this runs for every temperature.
+    use crate::sum::to_rug;
+    let kt = to_rug(&constants::boltzmann()) * to_rug(t);
+    let h = to_rug(&constants::planck());
     let pi2 = Float::with_val(prec, rug::float::Constant::Pi) * 2u32;
-    let lambda2 = Float::with_val(prec, fl(prec, &(&h * &h / (m * &kt))) / &pi2);
+    let ratio = rug::Rational::from(&h * &h) / (to_rug(m) * &kt);
+    let lambda2 = Float::with_val(prec, Float::with_val(prec, &ratio) / &pi2);
     let lambda3 = Float::with_val(prec, lambda2.sqrt_ref()) * &lambda2;
-    lambda3 * fl(prec, &(pressure / &kt))
+    lambda3 * Float::with_val(prec, &(to_rug(pressure) / kt))
 }
 
 /// The degeneracy of `sp` at `t` and the options' pressure; refuses the
