@@ -61,7 +61,9 @@ pub mod constants {
 
     /// Second radiation constant c₂ = hc/k in m K, exact.
     pub fn second_radiation_constant() -> BigRational {
-        planck() * speed_of_light() / boltzmann()
+        static C: OnceLock<BigRational> = OnceLock::new();
+        C.get_or_init(|| planck() * speed_of_light() / boltzmann())
+            .clone()
     }
 }
 

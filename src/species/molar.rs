@@ -11,7 +11,7 @@ use crate::models::diatomic::ParityWeights;
 use crate::models::ParticleInBox;
 use crate::spectrum::Spectrum;
 use crate::sum::ball::{Ball, RP};
-use crate::sum::{rational_ball, thermo, Cached, Certified, Temperature};
+use crate::sum::{rational_ball, ratio_ball, thermo, Cached, Certified, Temperature};
 use crate::units::constants;
 use num_rational::BigRational;
 use num_traits::{One, Signed};
@@ -357,7 +357,7 @@ pub(crate) fn internal_part(
     let ln_q = engine(&point.ln_q, p);
     let u = engine(&point.u_over_kt, p);
     let cv = engine(&point.cv_over_k, p);
-    let e0 = rational_ball(&(zero * c2_per_cm() / t), p);
+    let e0 = ratio_ball(&[zero, &c2_per_cm()], &[t], p);
     Ok(Part {
         s: ln_q.add(&u),
         h: u.sub(&e0),
@@ -371,15 +371,14 @@ fn translation(m: &BigRational, t: &BigRational, o: &MolarOptions) -> Result<Par
     let p = prec(o.digits);
     let k = constants::boltzmann();
     let h = constants::planck();
-    let kt = &k * t;
     match &o.translation {
         Translation::SackurTetrode => {
             // ln[(2π m kT/h²)^{3/2} kT/p] + 5/2
             let pi = Ball::rounded(Float::with_val(p, rug::float::Constant::Pi), Float::new(RP));
-            let a = rational_ball(&(m * &kt / (&h * &h)), p).mul(&pi.mul_int(2));
+            let a = ratio_ball(&[m, &k, t], &[&h, &h], p).mul(&pi.mul_int(2));
             let ln_q = ln(&a)
                 .mul(&exact(p, 1.5f64))
-                .add(&ln(&rational_ball(&(&kt / &o.pressure), p)));
+                .add(&ln(&ratio_ball(&[&k, t], &[&o.pressure], p)));
             Ok(Part {
                 s: ln_q.add(&exact(p, 2.5f64)),
                 h: exact(p, 2.5f64),
@@ -388,6 +387,7 @@ fn translation(m: &BigRational, t: &BigRational, o: &MolarOptions) -> Result<Par
             })
         }
         Translation::Box(side) => {
+            let kt = &k * t;
             let b = ParticleInBox::cube(3)?.with_scale(m, side);
             let point = thermo(&b, &Temperature::Kelvin(t.clone()), o.digits + GUARD)?;
             let ln_qb = engine(&point.ln_q, p);
@@ -534,7 +534,8 @@ pub(crate) fn isomer_parts(
     let ortho = internal_part(o, t, &zero, digits)?;
     let para = internal_part(p, t, &zero, digits)?;
     let prec = ortho.ln_q.prec();
-    let above = |s: &Cached| rational_ball(&((s.ground_energy() - &zero) * c2_per_cm() / t), prec);
+    let c2 = c2_per_cm();
+    let above = |s: &Cached| ratio_ball(&[&(s.ground_energy() - &zero), &c2], &[t], prec);
     let (ortho_zero, para_zero) = (above(o), above(p));
     // The equilibrium mixture from its two isomers (q = q_o + q_p): with
     // x = q_o/q, U and Cv are the mixture's mean and variance of E/kT,
