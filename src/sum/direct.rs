@@ -26,6 +26,17 @@ pub(crate) fn to_rug(r: &BigRational) -> Rational {
     Rational::from((big_int(r.numer()), big_int(r.denom())))
 }
 
+/// a + b as an unreduced ratio over the product of the (positive)
+/// denominators: the same value, compared and converted exactly as the
+/// reduced one, without the gcd that dominates a reduced sum of a model's
+/// energy and a binary fraction (formed several times per temperature).
+fn unreduced_sum(a: &BigRational, b: &BigRational) -> BigRational {
+    BigRational::new_raw(
+        a.numer() * b.denom() + b.numer() * a.denom(),
+        a.denom() * b.denom(),
+    )
+}
+
 /// ln of the tail bound Σ_j B(X_{j+1}) X_{j+1}^k e^{−X_j} for k = 0, 1, 2,
 /// where `count(x)` bounds the states with reduced energy ≤ x above the
 /// ground; `None` entries are −∞ (no tail).
@@ -233,7 +244,10 @@ fn stats_from(
                     }
                     let count = |x: f64| -> f64 {
                         match BigRational::from_float(x / beta_f) {
-                            Some(w) => s.tail_bound(&(&e0 + w)).to_f64().unwrap_or(f64::INFINITY),
+                            Some(w) => s
+                                .tail_bound(&unreduced_sum(&e0, &w))
+                                .to_f64()
+                                .unwrap_or(f64::INFINITY),
                             None => f64::INFINITY,
                         }
                     };
