@@ -135,7 +135,9 @@ pub fn figures() -> Result<[Vec<Panel>; 3]> {
 /// Builds the report's files in memory: `(file name, contents)`.
 pub fn build_report() -> Result<Vec<(String, String)>> {
     let db = Database::builtin()?;
-    let scenario = Liquefier::compute()?;
+    // The scenario and the figures' curves are independent sweeps.
+    let (scenario, figs) = rayon::join(Liquefier::compute, figures);
+    let scenario = scenario?;
     let curves = HydrogenTable::new(&scenario.hydrogen);
     let species_rows = MolarTable::joined(&scenario.species, Basis::Mole);
     let Liquefier {
@@ -169,7 +171,7 @@ pub fn build_report() -> Result<Vec<(String, String)>> {
     let hydrogen_csv = to_csv(&curves)?;
     let species_csv = to_csv(&SpeciesRows(&species_rows))?;
 
-    let [cp_plot, fraction_plot, heat_plot] = figures()?;
+    let [cp_plot, fraction_plot, heat_plot] = figs?;
     let cp_plot = inline_svg(&cp_plot)?;
     let fraction_plot = inline_svg(&fraction_plot)?;
     let heat_plot = inline_svg(&heat_plot)?;
