@@ -67,6 +67,26 @@ pub mod constants {
     }
 }
 
+/// The units of fixed size, in the order of [`fixed_factors`].
+const FIXED_UNITS: [EnergyUnit; 6] = [
+    EnergyUnit::Joule,
+    EnergyUnit::ElectronVolt,
+    EnergyUnit::MilliElectronVolt,
+    EnergyUnit::Wavenumber,
+    EnergyUnit::Kelvin,
+    EnergyUnit::KilojoulePerMole,
+];
+
+/// The exact factor between every two fixed units, formed once (a
+/// conversion runs for every temperature of every sweep).
+fn fixed_factors() -> &'static [[BigRational; 6]; 6] {
+    static F: OnceLock<[[BigRational; 6]; 6]> = OnceLock::new();
+    F.get_or_init(|| {
+        let j = FIXED_UNITS.map(|u| u.joules().unwrap_or_else(BigRational::one));
+        std::array::from_fn(|a| std::array::from_fn(|b| &j[a] / &j[b]))
+    })
+}
+
 /// A unit of energy. Every conversion between units that know their size in
 /// joules is an exact rational factor.
 #[derive(Debug, Clone, PartialEq, Eq, Serialize, Deserialize)]
@@ -143,6 +163,11 @@ impl EnergyUnit {
         })
     }
 
+    /// The place of a unit of fixed size in [`FIXED_UNITS`].
+    fn fixed_index(&self) -> Option<usize> {
+        FIXED_UNITS.iter().position(|u| u == self)
+    }
+
     /// How the unit is written in tables and JSON.
     pub fn symbol(&self) -> &str {
         match self {
@@ -168,6 +193,9 @@ impl EnergyUnit {
     pub fn factor_to(&self, other: &EnergyUnit) -> Result<BigRational> {
         if self == other {
             return Ok(BigRational::one());
+        }
+        if let (Some(i), Some(j)) = (self.fixed_index(), other.fixed_index()) {
+            return Ok(fixed_factors()[i][j].clone());
         }
         match (self.joules(), other.joules()) {
             (Some(a), Some(b)) => Ok(a / b),

@@ -811,7 +811,7 @@ impl Spectrum for RovibDiatomic {
                 room / b
             };
             let j_est = ((1.0 + 4.0 * x).sqrt() - 1.0) / 2.0 + 2.0;
-            let cap = self.jmax_big(&BigInt::from(v));
+            let cap = self.ladder(v).jmax.clone();
             let j = match (BigInt::from_f64(j_est.floor()), cap) {
                 (Some(j), Some(c)) => j.min(c),
                 (Some(j), None) => j,
