@@ -613,7 +613,14 @@ impl Database {
     /// # Ok::<(), zsum::Error>(())
     /// ```
     pub fn builtin() -> Result<Self> {
-        Self::parse(BUILTIN, "built-in species")
+        // Parsed and checked once per process (every command and report
+        // section asks for it); a failure is not kept, so it repeats.
+        static DB: std::sync::OnceLock<Database> = std::sync::OnceLock::new();
+        if let Some(db) = DB.get() {
+            return Ok(db.clone());
+        }
+        let db = Self::parse(BUILTIN, "built-in species")?;
+        Ok(DB.get_or_init(|| db).clone())
     }
 
     /// Species from TOML text in zsum's species format.
