@@ -1,9 +1,15 @@
 //! Exact, degeneracy-weighted level lists.
 //!
-//! A [`Level`] is an exact rational energy and a big-integer degeneracy. A
-//! [`LevelList`] keeps its levels sorted by energy with equal energies merged
-//! and zero degeneracies dropped, in one stated [`EnergyUnit`]. All operations
-//! (union, product, shift, scale, truncation) are exact.
+//! A [`Level`] is an energy and a big-integer degeneracy. The energy is an
+//! exact rational, or, for an energy that is not rational (an eigenvalue of
+//! a matrix, as for the asymmetric top), a certified [`Enclosure`]: the true
+//! value lies between two rationals, and the level's `energy` is a rational
+//! inside them (its midpoint), never to be read as exact. A [`LevelList`]
+//! keeps its levels sorted by energy with equal exact energies merged and
+//! zero degeneracies dropped, in one stated [`EnergyUnit`]. Enclosed levels
+//! are never merged by the list: a model merges them only where it has
+//! proved them equal. All operations (union, product, shift, scale,
+//! truncation) are exact on exact energies and carry enclosures exactly.
 
 use crate::error::{Error, ErrorKind, Result};
 use crate::exact::rational_string;
@@ -14,24 +20,109 @@ use num_traits::{Signed, Zero};
 use serde::{Deserialize, Serialize};
 use std::cmp::Ordering;
 
-/// One energy level: an exact energy and the number of states at it.
+/// A certified enclosure of an energy that is not rational: the true value
+/// lies in `[lo, hi]`.
+#[derive(Debug, Clone, PartialEq, Eq, Hash, Serialize, Deserialize)]
+pub struct Enclosure {
+    /// The lower end.
+    #[serde(with = "crate::serde_exact::ratio")]
+    pub lo: BigRational,
+    /// The upper end.
+    #[serde(with = "crate::serde_exact::ratio")]
+    pub hi: BigRational,
+}
+
+impl Enclosure {
+    /// Half the width, (hi − lo)/2.
+    pub fn radius(&self) -> BigRational {
+        (&self.hi - &self.lo) / BigRational::from_integer(2.into())
+    }
+}
+
+/// One energy level: an energy and the number of states at it.
 #[derive(Debug, Clone, PartialEq, Eq, Hash, Serialize, Deserialize)]
 pub struct Level {
-    /// The energy, exact, in the unit of the list that holds it.
+    /// The energy in the unit of the list that holds it: exact when
+    /// `enclosure` is `None`, else a rational inside the enclosure (its
+    /// midpoint), not the energy itself.
     #[serde(with = "crate::serde_exact::ratio")]
     pub energy: BigRational,
     /// The number of states sharing this energy.
     #[serde(with = "crate::serde_exact::uint")]
     pub degeneracy: BigUint,
+    /// For an energy that is not rational, its certified enclosure.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub enclosure: Option<Box<Enclosure>>,
 }
 
 impl Level {
-    /// A level with the given energy and degeneracy.
+    /// A level with the given exact energy and degeneracy.
     pub fn new(energy: BigRational, degeneracy: impl Into<BigUint>) -> Self {
         Level {
             energy,
             degeneracy: degeneracy.into(),
+            enclosure: None,
         }
+    }
+
+    /// A level whose energy is known to lie in `[lo, hi]` (lo ≤ hi), with
+    /// the midpoint as its representative energy; an empty-width enclosure
+    /// is an exact energy.
+    pub fn enclosed(lo: BigRational, hi: BigRational, degeneracy: impl Into<BigUint>) -> Self {
+        if lo == hi {
+            return Level::new(lo, degeneracy);
+        }
+        let mid = (&lo + &hi) / BigRational::from_integer(2.into());
+        Level {
+            energy: mid,
+            degeneracy: degeneracy.into(),
+            enclosure: Some(Box::new(Enclosure { lo, hi })),
+        }
+    }
+
+    /// Whether the energy is exact.
+    pub fn is_exact(&self) -> bool {
+        self.enclosure.is_none()
+    }
+
+    /// The lowest value the energy may take (the energy itself if exact).
+    pub fn lowest(&self) -> &BigRational {
+        self.enclosure.as_ref().map_or(&self.energy, |e| &e.lo)
+    }
+
+    /// The highest value the energy may take (the energy itself if exact).
+    pub fn highest(&self) -> &BigRational {
+        self.enclosure.as_ref().map_or(&self.energy, |e| &e.hi)
+    }
+
+    /// Half the enclosure's width; zero for an exact energy.
+    pub fn radius(&self) -> BigRational {
+        self.enclosure
+            .as_ref()
+            .map_or_else(BigRational::zero, |e| e.radius())
+    }
+
+    /// The level with every possible energy mapped by the increasing map
+    /// `f` (a shift, or a scale by a positive factor).
+    fn mapped(&self, f: impl Fn(&BigRational) -> BigRational) -> Level {
+        match &self.enclosure {
+            None => Level::new(f(&self.energy), self.degeneracy.clone()),
+            Some(e) => Level::enclosed(f(&e.lo), f(&e.hi), self.degeneracy.clone()),
+        }
+    }
+
+    /// The combined level of two independent subsystems' levels: energies
+    /// (and enclosures) add, degeneracies multiply.
+    fn combined(&self, other: &Level) -> Level {
+        let g = &self.degeneracy * &other.degeneracy;
+        if self.is_exact() && other.is_exact() {
+            return Level::new(&self.energy + &other.energy, g);
+        }
+        Level::enclosed(
+            self.lowest() + other.lowest(),
+            self.highest() + other.highest(),
+            g,
+        )
     }
 }
 
@@ -94,18 +185,21 @@ impl LevelList {
                 continue;
             }
             match out.last_mut() {
-                Some(last) if last.energy == l.energy => last.degeneracy += l.degeneracy,
+                Some(last) if last.is_exact() && l.is_exact() && last.energy == l.energy => {
+                    last.degeneracy += l.degeneracy
+                }
                 _ => out.push(l),
             }
         }
         LevelList { unit, levels: out }
     }
 
-    /// Builds a list from levels already sorted by strictly increasing energy
-    /// with positive degeneracies. The order is checked in debug builds only;
-    /// callers (the models) guarantee it.
+    /// Builds a list from levels already sorted by increasing energy
+    /// (strictly between exact ones) with positive degeneracies. The order
+    /// is checked in debug builds only; callers (the models) guarantee it.
     pub(crate) fn from_sorted(unit: EnergyUnit, levels: Vec<Level>) -> Self {
-        debug_assert!(levels.windows(2).all(|w| w[0].energy < w[1].energy));
+        debug_assert!(levels.windows(2).all(|w| w[0].energy < w[1].energy
+            || (w[0].energy == w[1].energy && !(w[0].is_exact() && w[1].is_exact()))));
         debug_assert!(levels.iter().all(|l| !l.degeneracy.is_zero()));
         LevelList { unit, levels }
     }
@@ -153,10 +247,22 @@ impl LevelList {
         self.levels.iter().map(|l| &l.degeneracy).sum()
     }
 
-    /// Number of states with energy at most `e`: N(≤ e).
+    /// Whether every energy is exact (no level carries an enclosure).
+    pub fn is_exact(&self) -> bool {
+        self.levels.iter().all(Level::is_exact)
+    }
+
+    /// Number of states with energy at most `e`: N(≤ e). For enclosed
+    /// energies, the states whose enclosure lies at or below `e` (the
+    /// listing models refine enclosures until each lies on one side of a
+    /// cutoff they are asked for).
     pub fn count_up_to(&self, e: &BigRational) -> BigUint {
-        let end = self.levels.partition_point(|l| &l.energy <= e);
-        self.levels[..end].iter().map(|l| &l.degeneracy).sum()
+        self.levels
+            .iter()
+            .take_while(|l| l.lowest() <= e)
+            .filter(|l| l.highest() <= e)
+            .map(|l| &l.degeneracy)
+            .sum()
     }
 
     /// The cumulative count N(≤ E_i) at every level energy E_i.
@@ -171,12 +277,23 @@ impl LevelList {
             .collect()
     }
 
-    /// The levels with energy at most `cutoff`.
+    /// The levels with energy at most `cutoff`; an enclosed level is kept
+    /// when its energy may lie at or below the cutoff (so that no state
+    /// at or below it is left out).
     pub fn truncated(&self, cutoff: &BigRational) -> LevelList {
-        let end = self.levels.partition_point(|l| &l.energy <= cutoff);
+        let levels = if self.is_exact() {
+            let end = self.levels.partition_point(|l| &l.energy <= cutoff);
+            self.levels[..end].to_vec()
+        } else {
+            self.levels
+                .iter()
+                .filter(|l| l.lowest() <= cutoff)
+                .cloned()
+                .collect()
+        };
         LevelList {
             unit: self.unit.clone(),
-            levels: self.levels[..end].to_vec(),
+            levels,
         }
     }
 
@@ -217,13 +334,17 @@ impl LevelList {
                     out.push(b[j].clone());
                     j += 1;
                 }
-                Ordering::Equal => {
+                Ordering::Equal if a[i].is_exact() && b[j].is_exact() => {
                     out.push(Level::new(
                         a[i].energy.clone(),
                         &a[i].degeneracy + &b[j].degeneracy,
                     ));
                     i += 1;
                     j += 1;
+                }
+                Ordering::Equal => {
+                    out.push(a[i].clone());
+                    i += 1;
                 }
             }
         }
@@ -246,13 +367,17 @@ impl LevelList {
     fn product_impl(&self, other: &LevelList, cutoff: Option<&BigRational>) -> Result<LevelList> {
         self.same_unit(other, "product")?;
         let mut pairs = Vec::new();
+        let exact = other.is_exact();
         for a in &self.levels {
             for b in &other.levels {
-                let e = &a.energy + &b.energy;
-                if cutoff.is_some_and(|c| &e > c) {
-                    break; // `other` is sorted: every later b is higher still
+                let l = a.combined(b);
+                if cutoff.is_some_and(|c| l.lowest() > c) {
+                    if exact {
+                        break; // `other` is sorted: every later b is higher still
+                    }
+                    continue;
                 }
-                pairs.push(Level::new(e, &a.degeneracy * &b.degeneracy));
+                pairs.push(l);
             }
         }
         Ok(LevelList::new(self.unit.clone(), pairs))
@@ -265,7 +390,7 @@ impl LevelList {
             levels: self
                 .levels
                 .iter()
-                .map(|l| Level::new(&l.energy + delta, l.degeneracy.clone()))
+                .map(|l| l.mapped(|e| e + delta))
                 .collect(),
         }
     }
@@ -286,7 +411,7 @@ impl LevelList {
             levels: self
                 .levels
                 .iter()
-                .map(|l| Level::new(&l.energy * factor, l.degeneracy.clone()))
+                .map(|l| l.mapped(|e| e * factor))
                 .collect(),
         })
     }

@@ -11,7 +11,7 @@ use crate::models::diatomic::ParityWeights;
 use crate::models::ParticleInBox;
 use crate::spectrum::Spectrum;
 use crate::sum::ball::{Ball, RP};
-use crate::sum::{rational_ball, ratio_ball, thermo, Cached, Certified, Temperature};
+use crate::sum::{ratio_ball, rational_ball, thermo, Cached, Certified, Temperature};
 use crate::units::constants;
 use num_rational::BigRational;
 use num_traits::{One, Signed};
@@ -376,9 +376,10 @@ fn translation(m: &BigRational, t: &BigRational, o: &MolarOptions) -> Result<Par
             // ln[(2π m kT/h²)^{3/2} kT/p] + 5/2
             let pi = Ball::rounded(Float::with_val(p, rug::float::Constant::Pi), Float::new(RP));
             let a = ratio_ball(&[m, &k, t], &[&h, &h], p).mul(&pi.mul_int(2));
-            let ln_q = ln(&a)
-                .mul(&exact(p, 1.5f64))
-                .add(&ln(&ratio_ball(&[&k, t], &[&o.pressure], p)));
+            let ln_q =
+                ln(&a)
+                    .mul(&exact(p, 1.5f64))
+                    .add(&ln(&ratio_ball(&[&k, t], &[&o.pressure], p)));
             Ok(Part {
                 s: ln_q.add(&exact(p, 2.5f64)),
                 h: exact(p, 2.5f64),

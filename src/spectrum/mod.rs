@@ -45,6 +45,20 @@ pub trait Spectrum: Send + Sync {
     /// `budget`.
     fn levels_within(&self, cutoff: &BigRational, budget: &Budget) -> Result<LevelList>;
 
+    /// As [`Spectrum::levels_within`], for a sum at `bits` working bits:
+    /// every level whose energy is not rational carries an enclosure of
+    /// half-width at most `2^−bits` of its energy's magnitude (measured
+    /// from zero of the spectrum's energies). Default: `levels_within`
+    /// (exact energies need no precision).
+    fn levels_within_bits(
+        &self,
+        cutoff: &BigRational,
+        budget: &Budget,
+        _bits: u32,
+    ) -> Result<LevelList> {
+        self.levels_within(cutoff, budget)
+    }
+
     /// All levels with energy at most `cutoff`, within the default budget.
     fn levels_up_to(&self, cutoff: &BigRational) -> Result<LevelList> {
         self.levels_within(cutoff, &Budget::default())

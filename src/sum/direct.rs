@@ -278,16 +278,16 @@ fn stats_from(
     let (g0, [e, m1, m2]) = match by_ladders {
         Some((g0, sums)) => (g0, with_tails(sums, tails)),
         None => {
-            let levels = s.levels_up_to(&cut)?;
+            let levels = s.levels_within_bits(&cut, &budget, prec)?;
             let mut it = levels.iter();
             let ground = it.next().ok_or_else(|| {
                 Error::invalid("spectrum", s.describe(), "it has no levels to sum")
             })?;
-            if ground.energy != e0 {
+            if ground.energy != e0 || !ground.is_exact() {
                 return Err(Error::invalid(
                     "spectrum",
                     s.describe(),
-                    "its lowest listed level differs from its ground energy",
+                    "its lowest listed level differs from its ground energy, or is not exact",
                 ));
             }
             let beta_r = Float::with_val(prec, &to_rug(beta));
@@ -295,12 +295,25 @@ fn stats_from(
             // reduced big-rational difference), then rounded once to the
             // working precision.
             let e0_r = to_rug(&e0);
+            // An enclosed energy moves x by at most β·(half-width).
+            let beta_f = beta.to_f64().unwrap_or(f64::INFINITY);
             let terms = it.map(|l| {
                 let excitation = to_rug(&l.energy) - &e0_r;
                 let x = Float::with_val(prec, &excitation) * &beta_r;
-                (x, big(&l.degeneracy))
+                let shift = match &l.enclosure {
+                    None => 0.0,
+                    Some(e) => (e.radius().to_f64().unwrap_or(f64::INFINITY) * beta_f) * 1.01,
+                };
+                (x, big(&l.degeneracy), shift)
             });
-            (big(&ground.degeneracy), excited_sums(terms, tails, prec))
+            let sums = enclosed_sums(terms, tails, prec).ok_or_else(|| {
+                Error::invalid(
+                    "spectrum",
+                    s.describe(),
+                    "an enclosed level is not separated from the ground level at this precision",
+                )
+            })?;
+            (big(&ground.degeneracy), sums)
         }
     };
     if g0 == 0 {
@@ -319,19 +332,41 @@ fn stats_from(
 }
 
 /// Excitation sums `Σ g e^{−x}`, `Σ g x e^{−x}`, `Σ g x² e^{−x}` over
-/// terms `(x, g)` with x > 0 given to within 3 units of relative error, as
-/// balls carrying their rounding (all terms positive: relative to each sum)
-/// and the absolute tail bounds `tails`.
-pub(crate) fn excited_sums(
-    terms: impl Iterator<Item = (Float, Integer)>,
+/// terms `(x, g, d)` with x > 0 given to within 3 units of relative error
+/// and, for an energy known only within an enclosure, the true x within
+/// `d` of it (d = 0 for exact energies), as balls carrying their rounding
+/// and enclosures (all terms positive: relative to each sum) and the
+/// absolute tail bounds `tails`.
+///
+/// For x* within d of x, `x*^k e^{−x*}` differs from `x^k e^{−x}` by at
+/// most a relative `(1 + d/(x − d))^k e^d − 1 ≤ s + s²` with `s = k d/(x −
+/// d) + d` when s ≤ 1/2; each sum takes the largest such bound of its
+/// terms. An enclosure reaching down to the ground (x ≤ 2d) or too wide
+/// for that bound makes the sum unbounded (`None`).
+pub(crate) fn enclosed_sums(
+    terms: impl Iterator<Item = (Float, Integer, f64)>,
     tails: [Float; 3],
     prec: u32,
-) -> [Ball; 3] {
+) -> Option<[Ball; 3]> {
     let (mut e, mut m1, mut m2) = (Float::new(prec), Float::new(prec), Float::new(prec));
     let mut w = Float::new(prec);
     let mut x_max = 0f64;
     let mut n = 0usize;
-    for (x, g) in terms {
+    let mut spread = [0f64; 3];
+    for (x, g, d) in terms {
+        if d > 0.0 {
+            let xf = x.to_f64();
+            if !(xf > 2.0 * d) {
+                return None;
+            }
+            for (k, sp) in spread.iter_mut().enumerate() {
+                let s = k as f64 * d / (xf - d) + d;
+                if !(s <= 0.5) {
+                    return None;
+                }
+                *sp = sp.max((s + s * s) * 1.01);
+            }
+        }
         use rug::Assign;
         w.assign(-&x);
         w.exp_mut();
@@ -348,7 +383,25 @@ pub(crate) fn excited_sums(
     // and each product one more; all terms are positive, so each sum's
     // relative error is at most (3 x_max + n + 16) units.
     let rel = Float::with_val(64, (3.0 * x_max + n as f64 + 16.0) * 1.01) >> prec;
-    with_tails([e, m1, m2].map(|v| Ball::with_rel(v, &rel)), tails)
+    let mut k = 0;
+    let sums = [e, m1, m2].map(|v| {
+        let r = super::ball::up_add(&rel, &Float::with_val(64, spread[k]));
+        k += 1;
+        Ball::with_rel(v, &r)
+    });
+    Some(with_tails(sums, tails))
+}
+
+/// As [`enclosed_sums`] for terms `(x, g)` whose energies are all exact.
+pub(crate) fn excited_sums(
+    terms: impl Iterator<Item = (Float, Integer)>,
+    tails: [Float; 3],
+    prec: u32,
+) -> [Ball; 3] {
+    let zero = || Ball::exact(Float::new(prec));
+    // With d = 0 for every term no enclosure can fail.
+    enclosed_sums(terms.map(|(x, g)| (x, g, 0.0)), tails, prec)
+        .unwrap_or_else(|| [zero(), zero(), zero()])
 }
 
 /// The sums' balls widened by the absolute tail bounds.

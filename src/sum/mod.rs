@@ -572,7 +572,9 @@ pub fn thermo_metered(
 /// wrapped (and cached) in turn.
 pub struct Cached<'a> {
     inner: &'a dyn Spectrum,
-    store: std::sync::Mutex<Option<(BigRational, crate::level::LevelList)>>,
+    /// The widest listing so far: its cutoff, its precision in bits and
+    /// its levels.
+    store: std::sync::Mutex<Option<(BigRational, u32, crate::level::LevelList)>>,
     parts: Option<Vec<(Cached<'a>, BigRational)>>,
 }
 
@@ -611,19 +613,33 @@ impl Spectrum for Cached<'_> {
         cutoff: &BigRational,
         budget: &crate::spectrum::Budget,
     ) -> Result<crate::level::LevelList> {
+        self.levels_within_bits(cutoff, budget, 0)
+    }
+    fn levels_within_bits(
+        &self,
+        cutoff: &BigRational,
+        budget: &crate::spectrum::Budget,
+        bits: u32,
+    ) -> Result<crate::level::LevelList> {
         // A poisoned lock only means another thread panicked mid-listing;
         // the store then holds a whole earlier listing or none.
         let mut store = self
             .store
             .lock()
             .unwrap_or_else(std::sync::PoisonError::into_inner);
-        if let Some((c, list)) = store.as_ref() {
-            if cutoff <= c {
+        if let Some((c, b, list)) = store.as_ref() {
+            if cutoff <= c && bits <= *b {
                 return Ok(list.truncated(cutoff));
             }
         }
-        let list = self.inner.levels_within(cutoff, budget)?;
-        *store = Some((cutoff.clone(), list.clone()));
+        let list = if bits == 0 {
+            self.inner.levels_within(cutoff, budget)?
+        } else {
+            self.inner.levels_within_bits(cutoff, budget, bits)?
+        };
+        // Exact listings serve every precision.
+        let b = if list.is_exact() { u32::MAX } else { bits };
+        *store = Some((cutoff.clone(), b, list.clone()));
         Ok(list)
     }
     fn states_at(&self, energy: &BigRational) -> Result<Vec<crate::spectrum::State>> {
