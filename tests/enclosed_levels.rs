@@ -65,7 +65,9 @@ fn ladder_list(cutoff: &BigRational, bits: u32) -> LevelList {
     LevelList::new(EnergyUnit::Kelvin, out)
 }
 
-struct RootTwoLadder;
+/// The ladder, its enclosures at the engine's precision or at a fixed
+/// number of bits.
+struct RootTwoLadder(Option<u32>);
 
 impl Spectrum for RootTwoLadder {
     fn describe(&self) -> String {
@@ -84,7 +86,7 @@ impl Spectrum for RootTwoLadder {
         self.levels_within_bits(cutoff, budget, 200)
     }
     fn levels_within_bits(&self, cutoff: &BigRational, _: &Budget, bits: u32) -> Result<LevelList> {
-        Ok(ladder_list(cutoff, bits + 8))
+        Ok(ladder_list(cutoff, self.0.unwrap_or(bits + 8)))
     }
     fn states_at(&self, _: &BigRational) -> Result<Vec<State>> {
         Ok(Vec::new())
@@ -118,7 +120,7 @@ fn enclosed_levels_sum_to_the_closed_form_with_every_digit_certified() {
     // end (kT = 40: some three thousand terms).
     for kt in ["0.01", "0.3", "1", "7", "40"] {
         let t = Temperature::Kelvin(r(kt));
-        let p = thermo(&RootTwoLadder, &t, 30).unwrap();
+        let p = thermo(&RootTwoLadder(None), &t, 30).unwrap();
         assert!(p.certified, "kT = {kt}: not certified");
         let [q, u, cv] = closed(kt);
         let f = |s: &str| s.parse::<f64>().unwrap();
@@ -131,7 +133,7 @@ fn enclosed_levels_sum_to_the_closed_form_with_every_digit_certified() {
         assert!((f(&pt.u_over_kt) / u - 1.0).abs() < 1e-13, "U at {kt}");
         assert!((f(&pt.cv_over_k) / cv - 1.0).abs() < 1e-13, "Cv at {kt}");
         // Ziv: the 30-digit values are the 60-digit ones rounded.
-        let p60 = ThermoPoint::of(&thermo(&RootTwoLadder, &t, 60).unwrap());
+        let p60 = ThermoPoint::of(&thermo(&RootTwoLadder(None), &t, 60).unwrap());
         for (a, b) in [
             (&pt.q, &p60.q),
             (&pt.u_over_kt, &p60.u_over_kt),
@@ -146,35 +148,15 @@ fn enclosed_levels_sum_to_the_closed_form_with_every_digit_certified() {
 fn wide_enclosures_are_charged_not_ignored() {
     // Enclosures of ±2^-20 relative cannot support 30 digits: the engine
     // must not certify them, however many working bits it spends.
-    struct Coarse;
-    impl Spectrum for Coarse {
-        fn describe(&self) -> String {
-            "coarse".into()
-        }
-        fn unit(&self) -> EnergyUnit {
-            EnergyUnit::Kelvin
-        }
-        fn quantum_numbers(&self) -> Vec<String> {
-            vec!["n".into()]
-        }
-        fn ground_energy(&self) -> BigRational {
-            BigRational::zero()
-        }
-        fn levels_within(&self, cutoff: &BigRational, _: &Budget) -> Result<LevelList> {
-            Ok(ladder_list(cutoff, 20))
-        }
-        fn states_at(&self, _: &BigRational) -> Result<Vec<State>> {
-            Ok(Vec::new())
-        }
-        fn count_bound(&self, energy: &BigRational) -> BigUint {
-            RootTwoLadder.count_bound(energy)
-        }
-        fn growth_exponent(&self) -> Option<f64> {
-            Some(1.0)
-        }
-    }
     let t = Temperature::Kelvin(r("3"));
-    let p = zsum::sum::thermo_limited(&Coarse, &t, 30, zsum::sum::Path::Auto, 2048).unwrap();
+    let p = zsum::sum::thermo_limited(
+        &RootTwoLadder(Some(20)),
+        &t,
+        30,
+        zsum::sum::Path::Auto,
+        2048,
+    )
+    .unwrap();
     assert!(!p.certified);
     assert!(p.certified_digits < 10, "{}", p.certified_digits);
     // The radius of ln q covers the true value.
@@ -186,7 +168,7 @@ fn wide_enclosures_are_charged_not_ignored() {
 
 #[test]
 fn lists_carry_enclosures_through_every_operation_and_never_merge_them() {
-    let list = RootTwoLadder.levels_up_to(&r("3")).unwrap();
+    let list = RootTwoLadder(None).levels_up_to(&r("3")).unwrap();
     // 0, √2, 2√2: the two excited levels are enclosed, the ground exact.
     assert_eq!(list.len(), 3);
     assert!(list.levels()[0].is_exact());

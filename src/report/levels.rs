@@ -7,6 +7,7 @@ use crate::error::Result;
 use crate::exact::{exact_decimal, format_sig, parse_rational, rational_string};
 use crate::export::{units_block, Column, Tabular};
 use crate::models::particle_box::{Origin, ParticleInBox};
+use crate::report::text::{level_energy_text, listing_bits};
 use crate::spectrum::{Budget, Spectrum, State};
 use crate::units::{box_unit_joules, constants, EnergyUnit};
 use num_bigint::BigUint;
@@ -85,8 +86,13 @@ impl Default for ListOptions {
 /// One level as reported.
 #[derive(Debug, Clone, Serialize)]
 pub struct LevelRow {
-    /// Exact energy in the listing's unit, e.g. `"27/4"`.
+    /// Exact energy in the listing's unit, e.g. `"27/4"`; an energy that
+    /// is not rational as `~` and its correctly rounded decimal.
     pub energy: String,
+    /// For an energy that is not rational, its certified enclosure
+    /// `[lo, hi]` as exact rationals.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub enclosure: Option<[String; 2]>,
     /// Energy at a box's physical scale, correctly rounded, when one is
     /// given.
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -234,6 +240,7 @@ impl LevelsReport {
                 total += &l.level.degeneracy;
                 LevelRow {
                     energy: rational_string(&l.level.energy),
+                    enclosure: None,
                     energy_physical: match (&unit_value, scale) {
                         (Some(v), Some(s)) => Some(format_sig(&(&l.level.energy * v), s.digits)),
                         _ => None,
@@ -315,7 +322,7 @@ impl LevelsReport {
         let budget = opts
             .budget
             .with_output(LISTED_LEVEL_BYTES, LISTED_STATE_BYTES);
-        let list = spectrum.levels_within(cutoff, &budget)?;
+        let list = spectrum.levels_within_bits(cutoff, &budget, listing_bits(opts.digits))?;
         if opts.with_states {
             let states = spectrum
                 .count_bound(cutoff)
@@ -367,7 +374,11 @@ impl LevelsReport {
                 None
             };
             levels.push(LevelRow {
-                energy: rational_string(&l.energy),
+                energy: level_energy_text(l, opts.digits),
+                enclosure: l
+                    .enclosure
+                    .as_ref()
+                    .map(|e| [rational_string(&e.lo), rational_string(&e.hi)]),
                 energy_physical: None,
                 energy_converted: factor
                     .as_ref()

@@ -43,3 +43,29 @@ pub fn theta_line(theta: &str, unit: &str, kelvin: &Option<String>) -> String {
         _ => format!("θ = {theta} {unit}"),
     }
 }
+
+/// A level's energy as printed: exact energies as exact rationals
+/// ("27/4"), an energy known only by its certified enclosure as `~` and its
+/// decimal correctly rounded to `digits` significant digits, or to as many
+/// as the enclosure decides (both ends round alike), never more.
+pub fn level_energy_text(l: &crate::level::Level, digits: u32) -> String {
+    match &l.enclosure {
+        None => crate::exact::rational_string(&l.energy),
+        Some(e) => {
+            let mut d = digits.max(1);
+            loop {
+                let lo = crate::exact::format_sig(&e.lo, d);
+                if d == 1 || lo == crate::exact::format_sig(&e.hi, d) {
+                    return format!("~{lo}");
+                }
+                d -= 1;
+            }
+        }
+    }
+}
+
+/// The working bits at which a listing's enclosed energies decide `digits`
+/// significant digits (with a margin for the rounding boundary).
+pub fn listing_bits(digits: u32) -> u32 {
+    (digits as f64 * std::f64::consts::LOG2_10).ceil() as u32 + 24
+}
