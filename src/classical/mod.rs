@@ -65,6 +65,15 @@ pub(crate) enum Form {
         /// The unique-axis constant (A prolate, C oblate).
         unique: BigRational,
     },
+    /// An asymmetric top with constants A ≥ B ≥ C and the mean `wbar` of
+    /// its four symmetry classes' spin weights.
+    Asymmetric {
+        /// A, B, C.
+        abc: [BigRational; 3],
+        /// The mean weight (2I+1)²/σ for a pair of equivalent nuclei, 1/σ
+        /// for weights 1 and 0).
+        wbar: BigRational,
+    },
     /// `E = b J(J+1)` with `(2J+1)²` states.
     Spherical(BigRational),
     /// Harmonic modes `(ω, degeneracy)`, with or without zero-point energy.
@@ -156,6 +165,13 @@ impl Form {
             Structure::Rotor { b, weights, .. } => Form::Rotor(b, weights),
             Structure::Top { b, unique } => Form::Top { b, unique },
             Structure::Spherical(b) => Form::Spherical(b),
+            Structure::Asymmetric { abc, weights } => {
+                let sum: BigUint = weights.iter().sum();
+                Form::Asymmetric {
+                    abc,
+                    wbar: BigRational::new(sum.into(), 4.into()),
+                }
+            }
             Structure::Near { parts, shift } => Form::Shifted(
                 Box::new(Form::Parts(
                     parts
@@ -242,6 +258,14 @@ impl Form {
                     "classical × [1 + (B/12kT)(4 − B/A)]: first quantum correction",
                 ),
             ],
+            Form::Asymmetric { .. } => vec![
+                approx("classical", "ḡ sqrt(π (kT)³/(A B C)), ḡ the mean spin weight"),
+                approx(
+                    "first",
+                    "classical × [1 + (2(A+B+C) − AB/C − BC/A − CA/B)/12kT]: first quantum \
+                     correction",
+                ),
+            ],
             Form::Spherical(_) => vec![
                 approx("classical", "sqrt(π (kT/B)³)"),
                 approx("first", "classical × (1 + B/4kT)"),
@@ -285,6 +309,7 @@ impl Form {
         match self {
             Form::Squares(ws) => ws.iter().min().cloned().unwrap_or_else(BigRational::zero),
             Form::Rotor(b, _) | Form::Spherical(b) | Form::Top { b, .. } => b.clone(),
+            Form::Asymmetric { abc, .. } => abc[1].clone(),
             Form::Harmonic(modes, _) => modes
                 .iter()
                 .map(|(w, _)| w.clone())
@@ -366,6 +391,23 @@ impl Form {
                 if index >= 1 {
                     let ratio = Float::with_val(PREC, &bf / &uf);
                     let coef = (fl(4.0) - ratio) * &bf / 12u32;
+                    let corr = t.powf(-1.0).scale(&coef).add_const(&fl(1.0));
+                    q = q.mul(&corr);
+                }
+                q.ln()
+            }
+            Form::Asymmetric { abc, wbar } => {
+                let [a, b, c] = abc.each_ref().map(to_float);
+                let pi = Float::with_val(PREC, rug::float::Constant::Pi);
+                let k = pi / (Float::with_val(PREC, &a * &b) * &c);
+                let mut q = t.powf(3.0).scale(&k).powf(0.5).scale(&to_float(wbar));
+                if index >= 1 {
+                    // (2(A+B+C) − AB/C − BC/A − CA/B)/12
+                    let ab_c = Float::with_val(PREC, &a * &b) / &c;
+                    let bc_a = Float::with_val(PREC, &b * &c) / &a;
+                    let ca_b = Float::with_val(PREC, &c * &a) / &b;
+                    let sum = Float::with_val(PREC, &a + &b) + &c;
+                    let coef = (sum * 2u32 - ab_c - bc_a - ca_b) / 12u32;
                     let corr = t.powf(-1.0).scale(&coef).add_const(&fl(1.0));
                     q = q.mul(&corr);
                 }

@@ -43,6 +43,16 @@ pub enum Structure<'a> {
         /// The unique-axis constant.
         unique: BigRational,
     },
+    /// An asymmetric top with constants `a ≥ b ≥ c` and nuclear-spin
+    /// weights per rotational symmetry class `[ee, eo, oe, oo]` (parities of
+    /// Ka and Kc): levels are eigenvalues, summed level by level from
+    /// certified enclosures.
+    Asymmetric {
+        /// The rotational constants A, B, C.
+        abc: [BigRational; 3],
+        /// The weights of the four (Ka, Kc) parity classes.
+        weights: [BigUint; 4],
+    },
     /// A spherical top: `E = b J(J+1)` with `(2J+1)²` states; summed level
     /// by level.
     Spherical(BigRational),

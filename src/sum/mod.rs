@@ -329,6 +329,7 @@ fn stats_metered(
         Structure::Opaque
         | Structure::Finite
         | Structure::Top { .. }
+        | Structure::Asymmetric { .. }
         | Structure::Spherical(_)
         | Structure::Near { .. }
         | Structure::Rotor { rigid: false, .. } => direct::stats(s, beta, prec, true),
