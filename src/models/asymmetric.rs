@@ -1040,16 +1040,24 @@ impl Sub {
     }
 
     /// Newton's method on det(T − xI) = Π q_i, whose logarithmic derivative
-    /// is Σ q_i'/q_i with q_i' = −1 + (e_{i−1}/q_{i−1}) q_{i−1}'/q_{i−1}, at
-    /// the working precision until the step is below 2^(gexp−8). Only a
-    /// guess: what it returns is certified by counts, or discarded.
-    fn newton(&self, start: &Float, gexp: i64) -> Float {
+    /// is Σ q_i'/q_i with q_i' = −1 + (e_{i−1}/q_{i−1}) q_{i−1}'/q_{i−1} (one
+    /// division per pivot: u = 1/q_i), at the working precision. It stops
+    /// when the step is below 2^(gexp−8), or, if `lax`, already when the
+    /// step s is small enough that the next one, about s²/gap, would be, for
+    /// a gap to the nearest other eigenvalue or pole of at least 2^(mag−24).
+    /// Only a guess: what it returns is certified by counts, or discarded.
+    fn newton(&self, start: &Float, gexp: i64, lax: bool) -> Float {
         let mp = &self.mp;
         let p = mp.prec;
         let m = self.len();
         let mut x = Float::with_val(p, start);
         let tol = pow2(gexp - 8);
-        let (mut q, mut dq, mut r, mut t, mut s) = (
+        let done = if lax {
+            pow2((gexp - 8 + self.mag - 24).div_euclid(2))
+        } else {
+            tol.clone()
+        };
+        let (mut q, mut dq, mut u, mut r, mut s) = (
             Float::new(p),
             Float::new(p),
             Float::new(p),
@@ -1063,10 +1071,10 @@ impl Sub {
             s.assign(0u32);
             for i in 0..m {
                 if i > 0 {
-                    r.assign(&mp.elo[i - 1] / &q);
-                    t.assign(&r * &dq);
-                    t /= &q;
-                    dq.assign(&t);
+                    // u = 1/q_{i−1}: r = e u, q_i' = −1 + r q_{i−1}' u.
+                    r.assign(&mp.elo[i - 1] * &u);
+                    dq *= &r;
+                    dq *= &u;
                     dq -= 1u32;
                     q.assign(&mp.dlo[i] - &x);
                     q -= &r;
@@ -1075,8 +1083,9 @@ impl Sub {
                     zero_at = Some(i);
                     break;
                 }
-                t.assign(&dq / &q);
-                s += &t;
+                u.assign(q.recip_ref());
+                r.assign(&dq * &u);
+                s += &r;
             }
             match zero_at {
                 Some(i) if i + 1 == m => return x,
@@ -1086,10 +1095,9 @@ impl Sub {
                 }
                 None => {}
             }
-            t.assign(&s);
-            t.recip_mut();
-            x -= &t;
-            if !t.is_finite() || t.cmp_abs(&tol) != Some(Ordering::Greater) {
+            s.recip_mut();
+            x -= &s;
+            if !s.is_finite() || s.cmp_abs(&done) != Some(Ordering::Greater) {
                 break;
             }
         }
@@ -1097,15 +1105,24 @@ impl Sub {
     }
 
     /// Eigenvalue k enclosed in [c·2^g − 2^g, c·2^g + 2^g] around Newton's
-    /// answer from `start`, if the certified counts confirm it: returns the
-    /// lower end and log2 of the width.
+    /// answer from `start` (lax, then strict), if the certified counts
+    /// confirm it: returns the lower end and log2 of the width.
     fn enclose(&mut self, k: usize, start: &Float, gexp: i64) -> Option<(Float, i64)> {
         self.ensure(self.prec_for(gexp));
-        let x = self.newton(start, gexp);
+        let lax = self.newton(start, gexp, true);
+        self.confirm(k, &lax, gexp).or_else(|| {
+            let strict = self.newton(&lax, gexp, false);
+            self.confirm(k, &strict, gexp)
+        })
+    }
+
+    /// The grid enclosure [c·2^g − 2^g, c·2^g + 2^g] around x, c = round(x/2^g),
+    /// if the certified counts at its ends are k and k + 1.
+    fn confirm(&self, k: usize, x: &Float, gexp: i64) -> Option<(Float, i64)> {
         if !x.is_finite() {
             return None;
         }
-        let c = Float::with_val(x.prec(), &x >> sh(gexp)).to_integer()?;
+        let c = Float::with_val(x.prec(), x >> sh(gexp)).to_integer()?;
         let at = |i: Integer| {
             let mut f = Float::with_val(i.significant_bits().max(2), &i);
             f <<= sh(gexp);
@@ -1209,22 +1226,46 @@ impl Sub {
             }
             neg
         };
+        // Newton on Σ q_i'/q_i in f64, kept inside the bracket.
+        let newton = |mut x: f64, lo: f64, hi: f64| {
+            for _ in 0..4 {
+                let (mut q, mut dq, mut s) = (1.0f64, 0.0f64, 0.0f64);
+                for i in 0..m {
+                    let r = if i == 0 { 0.0 } else { e[i - 1] / q };
+                    dq = if i == 0 { -1.0 } else { -1.0 + r * dq / q };
+                    q = d[i] - x - r;
+                    s += dq / q;
+                }
+                let next = x - 1.0 / s;
+                if !(next > lo && next < hi) {
+                    break;
+                }
+                x = next;
+            }
+            x
+        };
+        // Bisection to about 20 bits, every count narrowing the brackets of
+        // all eigenvalues still to come, then Newton.
+        let (mut lo, mut hi) = (vec![-radius; m], vec![radius; m]);
         Some(
             (0..m)
                 .map(|k| {
-                    let (mut lo, mut hi) = (-radius, radius);
                     for _ in 0..2200 {
-                        let mid = 0.5 * (lo + hi);
-                        if mid <= lo || mid >= hi {
+                        let (l, h) = (lo[k], hi[k]);
+                        let mid = 0.5 * (l + h);
+                        if mid <= l || mid >= h || h - l < 1e-6 * l.abs().max(h.abs()) {
                             break;
                         }
-                        if below(mid) > k {
-                            hi = mid;
-                        } else {
-                            lo = mid;
+                        let c = below(mid);
+                        for i in k..m {
+                            if i < c {
+                                hi[i] = hi[i].min(mid);
+                            } else {
+                                lo[i] = lo[i].max(mid);
+                            }
                         }
                     }
-                    0.5 * (lo + hi)
+                    newton(0.5 * (lo[k] + hi[k]), lo[k], hi[k])
                 })
                 .collect(),
         )
