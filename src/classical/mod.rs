@@ -259,7 +259,10 @@ impl Form {
                 ),
             ],
             Form::Asymmetric { .. } => vec![
-                approx("classical", "ḡ sqrt(π (kT)³/(A B C)), ḡ the mean spin weight"),
+                approx(
+                    "classical",
+                    "ḡ sqrt(π (kT)³/(A B C)), ḡ the mean spin weight",
+                ),
                 approx(
                     "first",
                     "classical × [1 + (2(A+B+C) − AB/C − BC/A − CA/B)/12kT]: first quantum \

@@ -305,10 +305,16 @@ pub struct TopModel {
     /// Rotational constant B (in --unit).
     #[arg(long = "B", value_name = "B", allow_hyphen_values = true)]
     pub b: String,
-    /// Prolate top: constant A > B.
-    #[arg(long = "A", value_name = "A", allow_hyphen_values = true, conflicts_with_all = ["c", "spherical"])]
+    /// Prolate top: constant A > B. With --C as well: an asymmetric top,
+    /// A ≥ B ≥ C.
+    #[arg(
+        long = "A",
+        value_name = "A",
+        allow_hyphen_values = true,
+        conflicts_with = "spherical"
+    )]
     pub a: Option<String>,
-    /// Oblate top: constant C < B.
+    /// Oblate top: constant C < B. With --A as well: an asymmetric top.
     #[arg(
         long = "C",
         value_name = "C",
@@ -328,6 +334,25 @@ pub struct TopModel {
     /// Distortion constant D_K. Default 0.
     #[arg(long = "DK", value_name = "D_K", allow_hyphen_values = true)]
     pub dk: Option<String>,
+    /// Asymmetric top: quartic constant δ_J (Watson's A reduction, whose
+    /// Δ_J, Δ_JK, Δ_K are --DJ, --DJK, --DK). Default 0.
+    #[arg(long = "dJ", value_name = "d_J", allow_hyphen_values = true)]
+    pub small_dj: Option<String>,
+    /// Asymmetric top: quartic constant δ_K. Default 0.
+    #[arg(long = "dK", value_name = "d_K", allow_hyphen_values = true)]
+    pub small_dk: Option<String>,
+    /// Asymmetric top: spin weights of the symmetry classes EE:EO:OE:OO
+    /// (parities of Ka and Kc), e.g. 1:3:3:1.
+    #[arg(long, value_name = "EE:EO:OE:OO", conflicts_with_all = ["pair_spin", "pair_axis"])]
+    pub weights: Option<String>,
+    /// Asymmetric top: nuclear spin I of a pair of equivalent nuclei
+    /// (e.g. 1/2 for two protons); with --pair-axis.
+    #[arg(long, value_name = "I", requires = "pair_axis")]
+    pub pair_spin: Option<String>,
+    /// Asymmetric top: the principal axis (a, b or c) whose two-fold
+    /// rotation exchanges the pair (b for water).
+    #[arg(long, value_name = "AXIS", requires = "pair_spin")]
+    pub pair_axis: Option<String>,
     /// Unit of the typed constants, and so of the energies: cm-1, K, meV,
     /// eV, J or kJ/mol.
     #[arg(long, value_name = "UNIT", default_value = "cm-1")]

@@ -16,8 +16,8 @@ use zsum::exact::parse_rational;
 use zsum::export::{render, write_atomic, Format};
 use zsum::models::level_file::LevelFile;
 use zsum::models::spec::{
-    AnharmonicSpec, BoxSpec, DiatomicSpec, LevelsSpec, ModelSpec, MorseSpec, OscillatorSpec,
-    RotorSpec, Selection, SpecError, SphericalTopSpec, Text, TopSpec, ZeemanSpec,
+    AnharmonicSpec, AsymmetricTopSpec, BoxSpec, DiatomicSpec, LevelsSpec, ModelSpec, MorseSpec,
+    OscillatorSpec, RotorSpec, Selection, SpecError, SphericalTopSpec, Text, TopSpec, ZeemanSpec,
 };
 use zsum::models::ParticleInBox;
 use zsum::report::{check_digits, BoxScale, CountReport, LevelsReport, ListOptions};
@@ -285,6 +285,32 @@ fn top(a: &TopModel) -> Result<ModelSpec> {
             d: opt_constant("--DJ", &a.dj, &unit)?,
         }));
     }
+    let asymmetric_only = [&a.small_dj, &a.small_dk, &a.weights, &a.pair_spin]
+        .iter()
+        .any(|x| x.is_some());
+    if let (Some(big_a), Some(c)) = (&a.a, &a.c) {
+        let text = |s: &Option<String>| s.as_ref().map(|v| Text::new(v.clone()));
+        return Ok(ModelSpec::AsymmetricTop(AsymmetricTopSpec {
+            a: constant("--A", big_a, &unit)?,
+            b,
+            c: constant("--C", c, &unit)?,
+            dj: opt_constant("--DJ", &a.dj, &unit)?,
+            djk: opt_constant("--DJK", &a.djk, &unit)?,
+            dk: opt_constant("--DK", &a.dk, &unit)?,
+            small_dj: opt_constant("--dJ", &a.small_dj, &unit)?,
+            small_dk: opt_constant("--dK", &a.small_dk, &unit)?,
+            weights: text(&a.weights),
+            pair_spin: text(&a.pair_spin),
+            pair_axis: text(&a.pair_axis),
+        }));
+    }
+    if asymmetric_only {
+        return Err(Error::invalid(
+            "--dJ/--dK/--weights/--pair-spin",
+            "given",
+            "they describe an asymmetric top: give both --A and --C with --B",
+        ));
+    }
     if a.a.is_none() && a.c.is_none() {
         return Err(Error::invalid(
             "top",
@@ -391,6 +417,8 @@ fn levels_top(a: TopLevels) -> Result<Option<String>> {
     let m = build(&top(&a.model)?)?;
     let id = if a.model.spherical {
         "spherical_top"
+    } else if a.model.a.is_some() && a.model.c.is_some() {
+        "asymmetric_top"
     } else {
         "top"
     };

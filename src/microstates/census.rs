@@ -67,7 +67,7 @@ pub fn census(
     let with_states = counts.counts.iter().filter(|n| !n.is_zero()).count();
     let total: BigUint = counts.counts.iter().sum();
     budget.check(
-        &format!("a census table of {with_states} rows"),
+        format!("a census table of {with_states} rows"),
         with_states as f64 * census_row_bytes(total.bits()),
         "use a coarser step or a lower cutoff",
     )?;

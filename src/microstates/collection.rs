@@ -697,7 +697,7 @@ pub fn microstates(
             8.0 * (n as f64 + 1.0)
         };
         budget.check_listing(
-            &format!(
+            format!(
                 "counting {n} particles ({}) over at least {} energies",
                 stats.name(),
                 crate::exact::format_sig_f64(fewest, 3)
@@ -815,7 +815,7 @@ pub fn einstein_omega(n: u64, quanta: u64, unit: EnergyUnit, budget: &Budget) ->
     // The largest count, C(q + N − 1, q), sets the width of every cell.
     let bits = count_bits(&BigUint::from(bins), n, Statistics::Bose);
     budget.check(
-        &format!("the Einstein solid's {bins} counts"),
+        format!("the Einstein solid's {bins} counts"),
         bins as f64 * (bits / 8.0 + 32.0),
         "lower the number of quanta",
     )?;

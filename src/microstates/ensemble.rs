@@ -532,7 +532,7 @@ pub fn ensemble_sweep(
     // temperature (about a kilobyte of numbers, six balls and five MPFR
     // values, and half a kilobyte of text).
     crate::spectrum::Budget::default().check(
-        &format!("Q_N of {n} particles over {} temperatures", grid.len()),
+        format!("Q_N of {n} particles over {} temperatures", grid.len()),
         n as f64 * 1024.0 + grid.len() as f64 * 1536.0,
         "give fewer temperatures or particles",
     )?;

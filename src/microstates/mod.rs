@@ -215,7 +215,7 @@ pub fn beyer_swinehart(
         })?;
     // Before any rounding work: the u128 grid alone.
     budget.check(
-        &format!("a census of {n} steps"),
+        format!("a census of {n} steps"),
         n as f64 * 16.0,
         "use a coarser step or a lower cutoff",
     )?;
@@ -236,7 +236,7 @@ pub fn beyer_swinehart(
         rounded.push((w, m.degeneracy));
     }
     budget.check(
-        &format!("a census of {n} steps"),
+        format!("a census of {n} steps"),
         census_bytes(&rounded, n),
         "use a coarser step or a lower cutoff",
     )?;
@@ -244,7 +244,7 @@ pub fn beyer_swinehart(
     // for each row of the table (its decimals).
     let components: f64 = rounded.iter().map(|(_, d)| f64::from(*d)).sum();
     budget.check_work(
-        &format!("a census of {n} steps"),
+        format!("a census of {n} steps"),
         n as f64 * (components + 1500.0),
         "use a coarser step or a lower cutoff",
     )?;

@@ -743,7 +743,7 @@ impl Spectrum for RovibDiatomic {
             found.push((v, j, w.clone()));
         }
         Budget::default().check(
-            &format!("listing the {total} states at {}", show(energy)),
+            format!("listing the {total} states at {}", show(energy)),
             total.to_f64().unwrap_or(f64::INFINITY) * (STATE_BYTES + 32.0),
             "choose a lower level",
         )?;

@@ -583,7 +583,7 @@ impl Spectrum for LevelFile {
         check_cutoff(self, cutoff)?;
         let list = self.levels.truncated(cutoff);
         budget.check_levels(
-            &format!(
+            format!(
                 "listing the levels up to {} {}",
                 rational_string(cutoff),
                 self.unit

@@ -2,6 +2,7 @@
 //! validating constructor that implements [`crate::spectrum::Spectrum`];
 //! [`spec`] describes each model kind as data and builds it.
 
+pub mod asym_top;
 pub mod asymmetric;
 pub mod diatomic;
 pub mod level_file;

@@ -657,7 +657,7 @@ impl Spectrum for HarmonicModes {
         };
         let n = self.components() as f64;
         Budget::default().check(
-            &format!("listing the {degeneracy} states at {}", show(energy)),
+            format!("listing the {degeneracy} states at {}", show(energy)),
             degeneracy.to_f64().unwrap_or(f64::INFINITY) * (STATE_BYTES + 8.0 * n),
             "choose a lower level",
         )?;
@@ -1024,7 +1024,7 @@ impl Spectrum for AnharmonicOscillator {
         check_cutoff(self, cutoff)?;
         let n = self.count_levels_up_to(cutoff);
         budget.check_levels(
-            &format!("listing the vibrational levels up to {}", show(cutoff)),
+            format!("listing the vibrational levels up to {}", show(cutoff)),
             n.to_f64().unwrap_or(f64::INFINITY),
             LEVEL_BYTES,
             "give a lower cutoff",

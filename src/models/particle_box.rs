@@ -476,7 +476,7 @@ impl ParticleInBox {
         let sparse = families * SPARSE_BYTES;
         let levels = families.min(m as f64 + 1.0);
         budget.check_listing(
-            &format!("listing the levels up to {}", rational_string(cutoff)),
+            format!("listing the levels up to {}", rational_string(cutoff)),
             dense.min(sparse) + levels * LEVEL_BYTES,
             levels,
             0.0,
@@ -530,7 +530,7 @@ impl ParticleInBox {
         let states = self.count_bound(cutoff).to_f64().unwrap_or(f64::INFINITY);
         let levels = self.estimated_families(cutoff).min(m as f64 + 1.0);
         budget.check_listing(
-            &format!("listing every state up to {}", rational_string(cutoff)),
+            format!("listing every state up to {}", rational_string(cutoff)),
             // The states themselves are counted once, as listed states.
             self.estimated_families(cutoff) * SPARSE_BYTES * 2.0,
             levels,
@@ -617,7 +617,7 @@ impl ParticleInBox {
         // The counters keep a few words per slice: the baseline alone.
         budget.check("counting the states", 0.0, "")?;
         budget.check_work(
-            &format!(
+            format!(
                 "counting the states up to {} ({steps:.1e} lattice steps)",
                 rational_string(cutoff)
             ),

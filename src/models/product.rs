@@ -216,6 +216,10 @@ impl Product {
     }
 }
 
+/// Working memory per combined pair before merging: a level (exact energy,
+/// degeneracy, optional enclosure) and its heap parts, as measured.
+const PAIR_BYTES: f64 = 136.0;
+
 /// Elementary operations per pair of levels when two parts are combined:
 /// an exact rational sum, a comparison with the cutoff and a merge.
 const PAIR_OPS: f64 = 400.0;
@@ -255,7 +259,7 @@ impl Spectrum for Product {
                     // Estimate before forming the product.
                     let pairs = a.len() as f64 * levels.len() as f64;
                     let what = format!("combining the parts up to {}", rational_string(cutoff));
-                    budget.check(&what, pairs * 128.0, "give a lower cutoff")?;
+                    budget.check(&what, pairs * PAIR_BYTES, "give a lower cutoff")?;
                     // An exact sum and comparison per pair (measured: about
                     // 1 µs at the reference speed).
                     budget.check_work(&what, pairs * PAIR_OPS, "give a lower cutoff")?;
@@ -268,7 +272,7 @@ impl Spectrum for Product {
         // The combined levels are known only now: what listing them costs
         // downstream is checked before any row is made.
         budget.check_levels(
-            &format!("listing the levels up to {}", rational_string(cutoff)),
+            format!("listing the levels up to {}", rational_string(cutoff)),
             list.len() as f64,
             128.0,
             "give a lower cutoff",

@@ -95,7 +95,7 @@ pub(crate) fn ladder(
 /// before any arithmetic: `j_est` is an estimate of the highest J reached.
 fn check_rungs(what: &str, j_est: f64, cutoff: &BigRational, budget: &Budget) -> Result<()> {
     budget.check_levels(
-        &format!(
+        format!(
             "listing the {what} levels up to {}",
             exact_decimal(cutoff, 30)
         ),
@@ -626,7 +626,7 @@ impl SymmetricTop {
         };
         let j_est = j_estimate(cutoff, lowest).min(turnover_estimate(&self.b, &self.dj));
         budget.check_levels(
-            &format!(
+            format!(
                 "listing the top's levels up to {}",
                 exact_decimal(cutoff, 30)
             ),

@@ -40,6 +40,8 @@
 
 use crate::error::{excerpt, Error, Result};
 use crate::exact::{parse_rational, rational_string};
+use crate::models::asym_top::{pair_weights, AsymmetricTop, Axis};
+use crate::models::asymmetric::{AsymmetricTopMath, Quartic};
 use crate::models::diatomic::{ParityWeights, RovibDiatomic};
 use crate::models::level_file::LevelFile;
 use crate::models::oscillator::{AnharmonicOscillator, HarmonicModes};
@@ -544,6 +546,126 @@ impl TopSpec {
     }
 }
 
+/// `asymmetric_top`: an asymmetric top with A ≥ B ≥ C, optional quartic
+/// distortion (Watson's A reduction) and nuclear-spin weights per symmetry
+/// class, set by hand (`weights = "ee:eo:oe:oo"`) or from a pair of
+/// equivalent nuclei (`pair_spin`, `pair_axis`).
+#[derive(Debug, Clone, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct AsymmetricTopSpec {
+    /// Rotational constant A (the largest).
+    #[serde(rename = "A")]
+    pub a: Text,
+    /// Rotational constant B.
+    #[serde(rename = "B")]
+    pub b: Text,
+    /// Rotational constant C (the smallest).
+    #[serde(rename = "C")]
+    pub c: Text,
+    /// Quartic constant Δ_J (default 0).
+    #[serde(rename = "DJ", default, skip_serializing_if = "Option::is_none")]
+    pub dj: Option<Text>,
+    /// Quartic constant Δ_JK (default 0).
+    #[serde(rename = "DJK", default, skip_serializing_if = "Option::is_none")]
+    pub djk: Option<Text>,
+    /// Quartic constant Δ_K (default 0).
+    #[serde(rename = "DK", default, skip_serializing_if = "Option::is_none")]
+    pub dk: Option<Text>,
+    /// Quartic constant δ_J (default 0).
+    #[serde(rename = "dJ", default, skip_serializing_if = "Option::is_none")]
+    pub small_dj: Option<Text>,
+    /// Quartic constant δ_K (default 0).
+    #[serde(rename = "dK", default, skip_serializing_if = "Option::is_none")]
+    pub small_dk: Option<Text>,
+    /// Spin weights of the classes (Ka, Kc parities) `ee:eo:oe:oo`.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub weights: Option<Text>,
+    /// Nuclear spin I of a pair of equivalent nuclei.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub pair_spin: Option<Text>,
+    /// The principal axis (a, b or c) whose two-fold rotation exchanges the
+    /// pair.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub pair_axis: Option<Text>,
+}
+
+/// Reads hand-set class weights `ee:eo:oe:oo`.
+pub fn parse_class_weights(text: &str) -> Result<[BigUint; 4]> {
+    let bad = || {
+        Error::parse(
+            "weights",
+            text,
+            "EE:EO:OE:OO (the parities of Ka and Kc) with non-negative integers, e.g. 1:3:3:1",
+        )
+    };
+    let parts: Vec<&str> = text.split(':').collect();
+    if parts.len() != 4 {
+        return Err(bad());
+    }
+    let mut out: [BigUint; 4] = Default::default();
+    for (o, p) in out.iter_mut().zip(parts) {
+        *o = p.trim().parse().map_err(|_| bad())?;
+    }
+    Ok(out)
+}
+
+impl AsymmetricTopSpec {
+    /// Builds the top.
+    pub fn build(&self) -> Built<AsymmetricTop> {
+        let mut e = Energies::default();
+        let a = e.read("A", &self.a)?;
+        let b = e.read("B", &self.b)?;
+        let c = e.read("C", &self.c)?;
+        let given = [
+            &self.dj,
+            &self.djk,
+            &self.dk,
+            &self.small_dj,
+            &self.small_dk,
+        ];
+        let quartic = if given.iter().any(|x| x.is_some()) {
+            Some(Quartic {
+                delta_j: e.optional("DJ", self.dj.as_ref())?,
+                delta_jk: e.optional("DJK", self.djk.as_ref())?,
+                delta_k: e.optional("DK", self.dk.as_ref())?,
+                small_delta_j: e.optional("dJ", self.small_dj.as_ref())?,
+                small_delta_k: e.optional("dK", self.small_dk.as_ref())?,
+            })
+        } else {
+            None
+        };
+        let unit = e.unit();
+        let math = AsymmetricTopMath::new(a, b, c, quartic)?;
+        let top = AsymmetricTop::new(math, unit);
+        let weights = match (&self.weights, &self.pair_spin, &self.pair_axis) {
+            (Some(w), None, None) => parse_class_weights(w.as_str()).map_err(at("weights"))?,
+            (None, Some(s), Some(x)) => pair_weights(
+                parse_twice_spin(s.as_str()).map_err(at("pair_spin"))?,
+                Axis::parse(x.as_str()).map_err(at("pair_axis"))?,
+            ),
+            (None, None, None) => return Ok(top),
+            (Some(_), _, _) => {
+                return Err(SpecError::at(
+                    "weights",
+                    Error::invalid(
+                        "spin weights",
+                        "given with a nuclear-spin pair",
+                        "give the class weights or the pair's spin and axis, not both",
+                    ),
+                ))
+            }
+            (None, Some(_), None) | (None, None, Some(_)) => {
+                return Err(SpecError::whole(Error::invalid(
+                    "nuclear-spin pair",
+                    "half given",
+                    "give both the pair's spin (pair_spin) and its exchange axis (pair_axis)",
+                )))
+            }
+        };
+        Ok(top.with_weights(weights)?)
+    }
+}
+
 /// `spherical_top`: a spherical top, (2J+1)² states per J.
 #[derive(Debug, Clone, PartialEq, Eq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
@@ -977,7 +1099,7 @@ impl BoxSpec {
 /// A model described as data: which model, and its constants as written.
 ///
 /// It (de)serialises as a table whose `kind` names the variant
-/// (`rotor`, `top`, `spherical_top`, `oscillator`, `anharmonic`, `morse`,
+/// (`rotor`, `top`, `spherical_top`, `asymmetric_top`, `oscillator`, `anharmonic`, `morse`,
 /// `diatomic`, `levels`, `zeeman`, `box`) and whose other fields are the
 /// variant's, named as a system file names them; unknown fields are
 /// refused.
@@ -990,6 +1112,8 @@ pub enum ModelSpec {
     Top(TopSpec),
     /// A spherical top.
     SphericalTop(SphericalTopSpec),
+    /// An asymmetric top.
+    AsymmetricTop(AsymmetricTopSpec),
     /// Harmonic modes.
     Oscillator(OscillatorSpec),
     /// An anharmonic diatomic vibration.
@@ -1012,6 +1136,7 @@ impl ModelSpec {
         "rotor",
         "top",
         "spherical_top",
+        "asymmetric_top",
         "oscillator",
         "anharmonic",
         "morse",
@@ -1027,6 +1152,7 @@ impl ModelSpec {
             ModelSpec::Rotor(_) => "rotor",
             ModelSpec::Top(_) => "top",
             ModelSpec::SphericalTop(_) => "spherical_top",
+            ModelSpec::AsymmetricTop(_) => "asymmetric_top",
             ModelSpec::Oscillator(_) => "oscillator",
             ModelSpec::Anharmonic(_) => "anharmonic",
             ModelSpec::Morse(_) => "morse",
@@ -1049,6 +1175,7 @@ impl ModelSpec {
             "rotor" => ModelSpec::Rotor(RotorSpec::deserialize(fields)?),
             "top" => ModelSpec::Top(TopSpec::deserialize(fields)?),
             "spherical_top" => ModelSpec::SphericalTop(SphericalTopSpec::deserialize(fields)?),
+            "asymmetric_top" => ModelSpec::AsymmetricTop(AsymmetricTopSpec::deserialize(fields)?),
             "oscillator" => ModelSpec::Oscillator(OscillatorSpec::deserialize(fields)?),
             "anharmonic" => ModelSpec::Anharmonic(AnharmonicSpec::deserialize(fields)?),
             "morse" => ModelSpec::Morse(MorseSpec::deserialize(fields)?),
@@ -1074,6 +1201,7 @@ impl ModelSpec {
             ModelSpec::Rotor(s) => Box::new(s.build()?),
             ModelSpec::Top(s) => Box::new(s.build()?),
             ModelSpec::SphericalTop(s) => Box::new(s.build()?),
+            ModelSpec::AsymmetricTop(s) => Box::new(s.build()?),
             ModelSpec::Oscillator(s) => Box::new(s.build()?),
             ModelSpec::Anharmonic(s) => Box::new(s.build()?),
             ModelSpec::Morse(s) => Box::new(s.build()?),

@@ -331,7 +331,7 @@ impl Spectrum for ZeemanMultiplet {
         }
         let n = self.count_bound(cutoff).to_u64().unwrap_or(u64::MAX);
         budget.check_levels(
-            &format!(
+            format!(
                 "listing the {n} levels up to {} {}",
                 rational_string(cutoff),
                 self.unit

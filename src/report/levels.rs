@@ -329,7 +329,7 @@ impl LevelsReport {
                 .to_f64()
                 .unwrap_or(f64::INFINITY);
             budget.check_listing(
-                &format!("listing every state up to {}", rational_string(cutoff)),
+                format!("listing every state up to {}", rational_string(cutoff)),
                 0.0,
                 list.len() as f64,
                 states,
@@ -387,13 +387,22 @@ impl LevelsReport {
                 families: None,
                 origin: None,
                 labels: spectrum.labels_at(&l.energy),
-                terms: terms
-                    .remove(&l.energy)
-                    .map(|mut t| {
-                        t.sort();
-                        t
-                    })
-                    .unwrap_or_default(),
+                terms: {
+                    // An enclosed level's terms are those the model placed
+                    // inside its enclosure (at whatever precision it listed
+                    // them); an exact level's, those at its energy.
+                    let keys: Vec<BigRational> = terms
+                        .range(l.lowest().clone()..=l.highest().clone())
+                        .map(|(k, _)| k.clone())
+                        .collect();
+                    let mut t: Vec<Vec<i64>> = keys
+                        .iter()
+                        .filter_map(|k| terms.remove(k))
+                        .flatten()
+                        .collect();
+                    t.sort();
+                    t
+                },
                 states,
             });
         }
@@ -444,6 +453,14 @@ impl LevelsReport {
             "{}; energies E in {}; levels up to {}",
             self.description, self.unit, self.up_to
         )];
+        if self.levels.iter().any(|l| l.enclosure.is_some()) {
+            p.push(
+                "~ marks an energy that is not rational (an eigenvalue): correctly rounded from \
+                 its certified enclosure, to the digits the enclosure decides (JSON gives the \
+                 enclosure)"
+                    .to_string(),
+            );
+        }
         for w in self.warnings.iter().flatten() {
             p.push(format!("warning: {w}"));
         }

@@ -130,6 +130,7 @@ fn first_excitation(
     beta: &BigRational,
     first: f64,
     ladders: bool,
+    prec: u32,
 ) -> Result<Option<(f64, BigRational)>> {
     let top = s.highest_energy();
     let g0 = s.count_bound(e0);
@@ -156,8 +157,10 @@ fn first_excitation(
                 .filter(|_| ladders)
             {
                 Some(l) => lowest_above(&l?, e0),
+                // At the sum's precision, so that a spectrum of enclosed
+                // energies is listed once for both.
                 None => s
-                    .levels_up_to(&cut)?
+                    .levels_within_bits(&cut, &crate::spectrum::Budget::default(), prec)?
                     .levels()
                     .get(1)
                     .map(|l| l.energy.clone()),
@@ -220,7 +223,7 @@ fn stats_from(
             ))
         }
         (None, Some(t)) => (t.clone(), None),
-        (Some(p), _) => match first_excitation(s, &e0, beta, 1.25 * span, ladders)? {
+        (Some(p), _) => match first_excitation(s, &e0, beta, 1.25 * span, ladders, prec)? {
             None => (e0.clone(), None),
             Some((x1, _)) => {
                 if x1.is_nan() || x1 > super::MAX_EXCITATION {
@@ -356,12 +359,13 @@ pub(crate) fn enclosed_sums(
     for (x, g, d) in terms {
         if d > 0.0 {
             let xf = x.to_f64();
-            if !(xf > 2.0 * d) {
+            // NaN fails too.
+            if xf.partial_cmp(&(2.0 * d)) != Some(std::cmp::Ordering::Greater) {
                 return None;
             }
             for (k, sp) in spread.iter_mut().enumerate() {
                 let s = k as f64 * d / (xf - d) + d;
-                if !(s <= 0.5) {
+                if s.is_nan() || s > 0.5 {
                     return None;
                 }
                 *sp = sp.max((s + s * s) * 1.01);

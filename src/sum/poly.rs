@@ -134,7 +134,7 @@ fn prepare(
         }
         diffs.push(table[0].clone());
     }
-    let x0 = Rational::from(beta * (Rational::from(&base) / &den - e0));
+    let x0 = beta * (Rational::from(&base) / &den - e0);
     let scale = Rational::from(beta / &den);
     Ok(Some(Prepared {
         j0,
