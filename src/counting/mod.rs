@@ -1,3 +1,4 @@
 //! Exact counters that do not list states.
 
+pub mod arc;
 pub mod lattice;
