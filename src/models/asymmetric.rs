@@ -241,12 +241,12 @@ impl Default for Effort {
 }
 
 /// A real symmetric tridiagonal matrix, exactly: its diagonal and the
-/// squares of its off-diagonal (`off_squared[i]` = T[i][i+1]², ≥ 0).
+/// squares of its off-diagonal (`off_squared[i]` = `T[i][i+1]²`, ≥ 0).
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub struct Tridiagonal {
     /// d_0, …, d_{m−1}.
     pub diagonal: Vec<BigRational>,
-    /// e_0, …, e_{m−2}, e_i = T[i][i+1]².
+    /// e_0, …, e_{m−2}, e_i = `T[i][i+1]²`.
     pub off_squared: Vec<BigRational>,
 }
 
