@@ -456,6 +456,14 @@ fn the_turnover_is_where_a_ladder_first_folds() {
     let err = with(["0", "0", "5", "0", "0"]).unwrap_err();
     assert_eq!(err.kind(), ErrorKind::InvalidParameter);
     assert!(err.message().contains("Δ_K"), "{}", err.message());
+    // All-zero quartic constants are the rigid top (a spherical one too,
+    // whose flat K ladder would otherwise count as folded).
+    let zero = ["0", "0", "0", "0", "0"];
+    let same = with(zero).unwrap();
+    assert_eq!(same.quartic(), None);
+    assert_eq!(same.turnover_j(), None);
+    let sphere = AsymmetricTopMath::new(r("2"), r("2"), r("2"), Some(quartic(zero))).unwrap();
+    assert_eq!(sphere.lower_bound(3), int(24));
 }
 
 #[test]

@@ -241,12 +241,12 @@ impl Default for Effort {
 }
 
 /// A real symmetric tridiagonal matrix, exactly: its diagonal and the
-/// squares of its off-diagonal (`off_squared[i]` = T[i][i+1]², ≥ 0).
+/// squares of its off-diagonal (`off_squared[i]` = `T[i][i+1]²`, ≥ 0).
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub struct Tridiagonal {
     /// d_0, …, d_{m−1}.
     pub diagonal: Vec<BigRational>,
-    /// e_0, …, e_{m−2}, e_i = T[i][i+1]².
+    /// e_0, …, e_{m−2}, e_i = `T[i][i+1]²`.
     pub off_squared: Vec<BigRational>,
 }
 
@@ -349,8 +349,8 @@ pub struct AsymmetricTopMath {
     c: BigRational,
     quartic: Option<Quartic>,
     effort: Effort,
-    /// The constants in GMP: (B+C)/2, A − (B+C)/2, (B−C)/4, C, and the
-    /// quartic constants (δ_K halved).
+    /// The constants in GMP: (B+C)/2, A − (B+C)/2, (B−C)/4 and the quartic
+    /// constants (δ_K halved).
     k: Constants,
 }
 
@@ -399,6 +399,18 @@ impl AsymmetricTopMath {
         quartic: Option<Quartic>,
     ) -> Result<Self> {
         check_order(&a, &b, &c)?;
+        // All-zero quartic constants are the rigid top.
+        let quartic = quartic.filter(|q| {
+            [
+                &q.delta_j,
+                &q.delta_jk,
+                &q.delta_k,
+                &q.small_delta_j,
+                &q.small_delta_k,
+            ]
+            .iter()
+            .any(|x| !x.is_zero())
+        });
         let (ra, rb, rc) = (rug_rat(&a), rug_rat(&b), rug_rat(&c));
         let half_bc = Rational::from(&rb + &rc) / 2u32;
         let k = Constants {
@@ -431,8 +443,8 @@ impl AsymmetricTopMath {
             return Err(Error::invalid(
                 what,
                 exact_decimal(v, 30),
-                "with the other constants it makes the energy stop increasing already at J = 1 \
-                 (see turnover_j); no rotational level beyond J = 0 is meaningful",
+                "with the other constants the energy stops increasing (with K, or with J) already \
+                 at J = 1 (see turnover_j); no rotational level beyond J = 0 is meaningful",
             ));
         }
         Ok(top)
@@ -500,7 +512,7 @@ impl AsymmetricTopMath {
             ));
         }
         let blocks = self.blocks(j);
-        let kinds: Vec<Wang> = blocks.iter().map(|b| b.0).collect();
+        let kinds: Vec<(Wang, Vec<u64>)> = blocks.iter().map(|b| (b.0, b.0.ks(j))).collect();
         let solved = solve(
             blocks.into_iter().map(|(_, d, e)| (d, e)).collect(),
             &check_width(width)?,
@@ -513,8 +525,8 @@ impl AsymmetricTopMath {
                     .members
                     .iter()
                     .map(|&(b, rank)| {
-                        let block = kinds[b];
-                        let ka = block.ks(j)[rank];
+                        let (block, ks) = &kinds[b];
+                        let (block, ka) = (*block, ks[rank]);
                         AsymState {
                             ka,
                             kc: block.kc(j, ka),
@@ -1296,13 +1308,14 @@ impl Sub {
             .collect())
     }
 
-    /// The eigenvalue in [lo, hi] exactly, if it is rational: the one
-    /// integer-over-L candidate there (the interval is narrower than 1/L),
-    /// tested exactly.
+    /// The eigenvalue of an enclosure exactly, if it is rational: the one
+    /// integer-over-L candidate in it (it is narrower than 1/L), tested
+    /// exactly. The counts place the eigenvalue in [lo, hi) (hi itself may
+    /// be the next eigenvalue), so a candidate equal to hi is not it.
     fn rational_root(&self, lo: &Rational, hi: &Rational) -> Option<Rational> {
         let c = Integer::from(Rational::from(hi * &self.scale).floor_ref());
         let x = Rational::from((c, self.scale.clone()));
-        (&x >= lo && self.sturm(&x).1).then_some(x)
+        (&x >= lo && &x < hi && self.sturm(&x).1).then_some(x)
     }
 
     /// The characteristic polynomial of s·T in μ (integer, monic; index =
