@@ -287,6 +287,9 @@ fn spawn_oracle(
     child
 }
 
+/// An oracle case: name, A:B:C, quartic constants, the J to compare.
+type OracleSet<'a> = (&'a str, [&'a str; 3], Option<[&'a str; 5]>, Vec<u64>);
+
 #[test]
 fn every_level_agrees_with_a_full_matrix_diagonalisation_in_mpmath() {
     // Independent oracle: tests/crosscheck/asym_oracle.py builds the full
@@ -306,7 +309,7 @@ fn every_level_agrees_with_a_full_matrix_diagonalisation_in_mpmath() {
     let distorted_to = distorted_water().turnover_j().unwrap().min(16);
     // Invented constants (not spectroscopic data) for the two limits.
     let near_oblate_q = ["0.0002", "0.0011", "-0.0004", "0.00003", "0.0002"];
-    let sets: Vec<(&str, [&str; 3], Option<[&str; 5]>, Vec<u64>)> = vec![
+    let sets: Vec<OracleSet> = vec![
         ("water", WATER, None, all),
         (
             "water-quartic",
