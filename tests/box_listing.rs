@@ -3,7 +3,8 @@
 //! as `classified_levels_reference`), and, for the cube, counts of sums of
 //! three positive squares made here by brute force.
 
-use num_bigint::BigUint;
+use num_bigint::{BigInt, BigUint};
+use num_integer::Integer;
 use num_rational::BigRational;
 use num_traits::ToPrimitive;
 use proptest::prelude::*;
@@ -22,32 +23,42 @@ fn boxed(sides: &str) -> ParticleInBox {
 
 /// The new listing, through both ways out (classified levels and the
 /// spectrum's level list), equals the reference at `cutoff`: same energies,
-/// degeneracies and family counts in the same order, or the same error.
-/// Returns the number of levels compared.
+/// degeneracies and family counts in the same order, or the same error. The
+/// new listing runs on 1 and on 3 threads, which cut the energies into
+/// different runs of blocks. Returns the number of levels compared.
 fn same_as_reference(b: &ParticleInBox, cutoff: &BigRational, budget: &Budget) -> usize {
-    let new = b.classified_levels(cutoff, budget);
     let old = b.classified_levels_reference(cutoff, budget);
-    let list = b.levels_within(cutoff, budget);
-    match (new, old, list) {
-        (Ok(new), Ok(old), Ok(list)) => {
-            assert_eq!(new, old, "{b:?} up to {cutoff}");
-            let plain: Vec<_> = old.iter().map(|c| c.level.clone()).collect();
-            assert_eq!(list.levels(), &plain[..], "{b:?} up to {cutoff}");
-            old.len()
+    for threads in [1, 3] {
+        let pool = rayon::ThreadPoolBuilder::new()
+            .num_threads(threads)
+            .build()
+            .unwrap();
+        let (new, list) = pool.install(|| {
+            (
+                b.classified_levels(cutoff, budget),
+                b.levels_within(cutoff, budget),
+            )
+        });
+        match (new, &old, list) {
+            (Ok(new), Ok(old), Ok(list)) => {
+                assert_eq!(&new, old, "{b:?} up to {cutoff} on {threads} threads");
+                let plain: Vec<_> = old.iter().map(|c| c.level.clone()).collect();
+                assert_eq!(list.levels(), &plain[..], "{b:?} up to {cutoff}");
+            }
+            (Err(new), Err(old), Err(list)) => {
+                assert_eq!(new.to_string(), old.to_string());
+                assert_eq!(list.to_string(), old.to_string());
+                assert_eq!(new.kind(), old.kind());
+            }
+            (new, old, list) => panic!(
+                "{b:?} up to {cutoff}: new {:?}, reference {:?}, list {:?}",
+                new.map(|v| v.len()),
+                old.as_ref().map(|v| v.len()),
+                list.map(|v| v.len())
+            ),
         }
-        (Err(new), Err(old), Err(list)) => {
-            assert_eq!(new.to_string(), old.to_string());
-            assert_eq!(list.to_string(), old.to_string());
-            assert_eq!(new.kind(), old.kind());
-            0
-        }
-        (new, old, list) => panic!(
-            "{b:?} up to {cutoff}: new {:?}, reference {:?}, list {:?}",
-            new.map(|v| v.len()),
-            old.map(|v| v.len()),
-            list.map(|v| v.len())
-        ),
     }
+    old.map_or(0, |v| v.len())
 }
 
 #[test]
@@ -184,18 +195,43 @@ fn sides_strategy() -> impl Strategy<Value = Vec<BigRational>> {
     prop::collection::vec(side, 1..=3).prop_map(|v| v.into_iter().map(r).collect())
 }
 
-proptest! {
-    #![proptest_config(ProptestConfig::with_cases(48))]
+/// The highest cutoff the random cases reach for a box: about a million
+/// states by Weyl's law, and at most two million scaled energies (the
+/// energies times the least common multiple of the squared side
+/// numerators), so that the dense enumeration spans up to 31 blocks.
+fn top_cutoff(b: &ParticleInBox) -> f64 {
+    let scale = b
+        .sides()
+        .iter()
+        .fold(BigInt::from(1), |d, s| d.lcm(&(s.numer() * s.numer())));
+    let mut hi = 2e6 / scale.to_f64().unwrap();
+    if b.weyl_estimate(hi) > 1e6 {
+        let mut lo = 0.0;
+        for _ in 0..60 {
+            let mid = (lo + hi) / 2.0;
+            if b.weyl_estimate(mid) > 1e6 {
+                hi = mid;
+            } else {
+                lo = mid;
+            }
+        }
+    }
+    hi
+}
 
-    /// Random boxes at random cutoffs p/q, from below the ground level to a
-    /// few thousand box units.
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(40))]
+
+    /// Random boxes at random cutoffs p/q, from below the ground level to
+    /// the top of [`top_cutoff`].
     #[test]
     fn listing_matches_the_reference_at_random_cutoffs(
         sides in sides_strategy(),
-        p in 0u64..40_000,
+        fraction in 0.0..1.0f64,
         q in 1u64..13,
     ) {
         let b = ParticleInBox::new(sides).unwrap();
+        let p = (top_cutoff(&b) * fraction * q as f64).floor() as u64;
         let cutoff = BigRational::new(p.into(), q.into());
         same_as_reference(&b, &cutoff, &Budget::default());
     }

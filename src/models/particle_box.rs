@@ -58,13 +58,14 @@ const MAX_COUNT_STEPS: f64 = 4e10;
 /// the reference machine against its 2e8 operations).
 const STEP_OPS: f64 = 0.3;
 
-/// Scaled energies per block of the dense enumeration: 128 Ki words
-/// (1 MiB), one core's L2 cache on the reference machine (measured best
-/// between 2^12 and 2^20 for the cube up to 1e6).
-const BLOCK: u64 = 1 << 17;
+/// Scaled energies per block of the dense enumeration: 64 Ki words
+/// (512 KiB), half of one core's L2 cache on the reference machine
+/// (measured best between 2^13 and 2^18 for the cube up to 1e6).
+const BLOCK: u64 = 1 << 16;
 /// States a block should see of each row of families, at least, for the
-/// rows it walks to be worth walking (see [`ParticleInBox::block_len`]).
-const ROW_HITS: f64 = 32.0;
+/// pass over the rows to be worth making (see [`ParticleInBox::block_len`];
+/// measured flat from 1 to 8 for the 2:3:5 box up to 1e4).
+const ROW_HITS: f64 = 4.0;
 /// Where the number of families starts in a word of the dense enumeration.
 const FAMILY_SHIFT: u32 = 32;
 
@@ -172,6 +173,61 @@ struct Family {
     k: u64,
     rep: [u64; 3],
     size: u64,
+}
+
+/// A row of families on its way up through the blocks of the dense
+/// enumeration: the next scaled energy `k` it reaches, the `step` to the
+/// one after, and the size of the family there (`first`) and of every later
+/// one (`rest`).
+#[derive(Debug, Clone, Copy)]
+struct Cursor {
+    k: u64,
+    step: u64,
+    first: u32,
+    rest: u32,
+}
+
+impl Cursor {
+    /// The cursor at the first family of `row` with scaled energy at least
+    /// `a`, if the row has one. The row's energies are `partial + w n²`, and
+    /// the step from `n` is `w (2n + 1)`.
+    fn new(row: &Row, a: u64) -> Option<Cursor> {
+        let (mut n, mut first) = (row.lo, row.size_first);
+        if row.partial + row.w * n * n < a {
+            let t = (a - row.partial).div_ceil(row.w);
+            let r = isqrt_u64(t);
+            n = if r * r < t { r + 1 } else { r };
+            first = row.size_rest;
+        }
+        (n <= row.hi).then_some(Cursor {
+            k: row.partial + row.w * n * n,
+            step: row.w * (2 * n + 1),
+            // Family sizes are 1, 2, 3 or 6.
+            first: first as u32,
+            rest: row.size_rest as u32,
+        })
+    }
+
+    /// Adds the row's families with scaled energy in `lo..=hi` to `slot`
+    /// (`slot[0]` is energy `lo`, which the cursor has reached), each as its
+    /// size plus one family (see [`FAMILY_SHIFT`]); `w2` is twice the weight
+    /// of the row's axis.
+    fn fill(&mut self, lo: u64, hi: u64, w2: u64, slot: &mut [u64]) {
+        let one = 1u64 << FAMILY_SHIFT;
+        let (mut k, mut step) = (self.k, self.step);
+        let (mut add, rest) = (u64::from(self.first) + one, u64::from(self.rest) + one);
+        while k <= hi {
+            slot[(k - lo) as usize] += add;
+            add = rest;
+            k += step;
+            step += w2;
+        }
+        if k != self.k {
+            self.first = self.rest;
+        }
+        self.k = k;
+        self.step = step;
+    }
 }
 
 impl ParticleInBox {
@@ -566,12 +622,13 @@ impl ParticleInBox {
     /// lowest first, within `budget`.
     ///
     /// The dense enumeration cuts the scaled energies `0..=m` into blocks
-    /// small enough to stay in a core's cache, and fills the blocks on every
-    /// core (rayon): each block walks the rows of families that reach it
-    /// (see [`ParticleInBox::visit_rows`]) and adds only the quantum numbers
-    /// whose energy falls inside it, so the scattered additions hit the
-    /// cache instead of memory. The levels come out already in order, and
-    /// each exact energy and degeneracy is made once, on every core.
+    /// small enough to stay in a core's cache, and runs of blocks go to the
+    /// cores (rayon). A run walks the rows of families that reach it once
+    /// (see [`ParticleInBox::visit_rows`]), keeping a [`Cursor`] per row,
+    /// and each block takes from every row the families whose energy falls
+    /// inside it, so the scattered additions hit the cache instead of
+    /// memory. The levels come out already in order, and each exact energy
+    /// and degeneracy is made once, on every core.
     fn listing<T: Send>(
         &self,
         cutoff: &BigRational,
@@ -596,28 +653,55 @@ impl ParticleInBox {
             ));
         }
         use rayon::prelude::*;
+        let w2 = 2 * self.sorted[self.dims() - 1].0;
         let block = self.block_len(m);
-        let blocks = m / block + 1;
-        let found: Vec<Vec<(u64, u64)>> = (0..blocks)
+        let found: Vec<Vec<(u64, u64)>> = self
+            .strips(m, block)
             .into_par_iter()
-            .map_init(Vec::new, |slot: &mut Vec<u64>, j| {
-                let a = j * block;
-                let b = m.min(a + block - 1);
-                slot.clear();
-                slot.resize((b - a + 1) as usize, 0);
-                self.fill_block(a, b, slot);
-                slot.iter()
-                    .enumerate()
-                    .filter(|&(_, &v)| v != 0)
-                    .map(|(i, &v)| (a + i as u64, v))
-                    .collect()
+            .map(|(a, b)| {
+                let mut rows = Vec::new();
+                self.visit_rows(b, &mut |row: &Row| rows.extend(Cursor::new(row, a)));
+                let mut found = Vec::new();
+                let mut slot = Vec::new();
+                let mut lo = a;
+                while lo <= b {
+                    let hi = b.min(lo + (block - 1));
+                    slot.clear();
+                    slot.resize((hi - lo + 1) as usize, 0u64);
+                    for row in &mut rows {
+                        row.fill(lo, hi, w2, &mut slot);
+                    }
+                    found.extend(
+                        slot.iter()
+                            .enumerate()
+                            .filter(|&(_, &v)| v != 0)
+                            .map(|(i, &v)| (lo + i as u64, v)),
+                    );
+                    lo = hi + 1;
+                }
+                found
             })
             .collect();
-        let found = found.concat();
+        // The levels in order, made on every core straight from each run's
+        // list (no joined copy): level i lies in the run that starts last at
+        // or before it.
+        let starts: Vec<usize> = found
+            .iter()
+            .scan(0, |total, run| {
+                let start = *total;
+                *total += run.len();
+                Some(start)
+            })
+            .collect();
+        let total = found.iter().map(Vec::len).sum();
         let low = (1u64 << FAMILY_SHIFT) - 1;
-        Ok(found
+        Ok((0..total)
             .into_par_iter()
-            .map(|(k, v)| make(self.energy_of(k), v & low, v >> FAMILY_SHIFT))
+            .map(|i| {
+                let run = starts.partition_point(|&s| s <= i) - 1;
+                let (k, v) = found[run][i - starts[run]];
+                make(self.energy_of(k), v & low, v >> FAMILY_SHIFT)
+            })
             .collect())
     }
 
@@ -640,8 +724,8 @@ impl ParticleInBox {
 
     /// Scaled energies per block of the dense enumeration: [`BLOCK`], or
     /// more where the last axis's steps are so wide that a block that size
-    /// would see fewer than a few dozen states of each row (the walk visits
-    /// every row once per block).
+    /// would see fewer than [`ROW_HITS`] states of each row (every block
+    /// passes over every row).
     fn block_len(&self, m: u64) -> u64 {
         let w_last = self.sorted.last().map_or(1, |&(w, _)| w);
         let step = 2.0 * (m as f64 * w_last as f64).sqrt();
@@ -649,36 +733,21 @@ impl ParticleInBox {
         BLOCK.max(wide).min(m + 1)
     }
 
-    /// Adds, for every family with scaled energy in `a..=b`, its size and
-    /// one family to `slot[k - a]` (degeneracy in the low half of the word,
-    /// families in the high half).
-    fn fill_block(&self, a: u64, b: u64, slot: &mut [u64]) {
-        let one = 1u64 << FAMILY_SHIFT;
-        self.visit_rows(b, &mut |row: &Row| {
-            // The first n in the row whose energy reaches a: the least n with
-            // w n² ≥ a − partial (the row's energies below b are its own).
-            let mut n = row.lo;
-            if row.partial + row.w * n * n < a {
-                let t = (a - row.partial).div_ceil(row.w);
-                let r = isqrt_u64(t);
-                n = if r * r < t { r + 1 } else { r };
-            }
-            if n > row.hi {
-                return;
-            }
-            let mut k = row.partial + row.w * n * n;
-            if n == row.lo {
-                slot[(k - a) as usize] += row.size_first + one;
-                k += row.w * (2 * n + 1);
-                n += 1;
-            }
-            let add = row.size_rest + one;
-            while n <= row.hi {
-                slot[(k - a) as usize] += add;
-                k += row.w * (2 * n + 1);
-                n += 1;
-            }
-        });
+    /// The scaled energies `0..=m` cut into runs of whole blocks (`(first,
+    /// last)`), one per core, each with about the same number of families:
+    /// the families up to `k` grow as `k^{d/2}`.
+    fn strips(&self, m: u64, block: u64) -> Vec<(u64, u64)> {
+        let blocks = m / block + 1;
+        let parts = (rayon::current_num_threads() as u64).clamp(1, blocks);
+        let power = 2.0 / self.dims() as f64;
+        let mut cuts: Vec<u64> = (0..=parts)
+            .map(|i| (blocks as f64 * (i as f64 / parts as f64).powf(power)).round() as u64)
+            .collect();
+        cuts[parts as usize] = blocks;
+        cuts.dedup();
+        cuts.windows(2)
+            .map(|c| (c[0] * block, m.min(c[1] * block - 1)))
+            .collect()
     }
 
     /// The levels up to `cutoff`, each with its families and its states
