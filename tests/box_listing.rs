@@ -8,6 +8,7 @@ use num_integer::Integer;
 use num_rational::BigRational;
 use num_traits::ToPrimitive;
 use proptest::prelude::*;
+use zsum::error::ErrorKind;
 use zsum::exact::parse_rational;
 use zsum::models::particle_box::ClassifiedLevel;
 use zsum::models::ParticleInBox;
@@ -112,6 +113,25 @@ fn tiny_cutoffs_are_refused_as_before() {
     let e = cube.classified_levels(&r("1e9"), &small).unwrap_err();
     assert!(e.to_string().contains("memory budget"), "{e}");
     assert_eq!(same_as_reference(&cube, &r("1e9"), &small), 0);
+}
+
+#[test]
+fn levels_that_could_hold_2_to_the_32_states_are_refused_by_name() {
+    // With no memory budget to speak of, the cube up to 6e9 passes the
+    // estimate, but a level there could hold π/4 · 6e9 ≈ 4.7e9 > 2^32
+    // states (the area bound), more than half a dense word holds: refused
+    // before any memory is taken, naming the cutoff.
+    let cube = ParticleInBox::cube(3).unwrap();
+    let e = cube
+        .classified_levels(&r("6e9"), &Budget::bytes(u64::MAX))
+        .unwrap_err();
+    assert_eq!(e.kind(), ErrorKind::InvalidParameter);
+    assert!(e.to_string().contains("cutoff 6000000000"), "{e}");
+    assert!(e.to_string().contains("2^32 states"), "{e}");
+    let e = cube
+        .levels_within(&r("6e9"), &Budget::bytes(u64::MAX))
+        .unwrap_err();
+    assert!(e.to_string().contains("2^32 states"), "{e}");
 }
 
 /// For every n ≤ `limit`: the number of ordered triples of positive integers
