@@ -21,6 +21,11 @@
 //! its quantum numbers within the groups (its family); the level's degeneracy
 //! is the sum of its families' sizes.
 //!
+//! A listing of levels adds the families into one word per scaled energy
+//! (while that array is small enough), in blocks of energies that fit a
+//! core's cache, on every core; the levels come out in order. Larger
+//! listings sort the families instead.
+//!
 //! # Where degeneracy comes from
 //! A level holding one family is degenerate because the box's symmetry
 //! requires it ([`Origin::Symmetry`]); a level holding several families,
@@ -59,8 +64,8 @@ const MAX_COUNT_STEPS: f64 = 4e10;
 const STEP_OPS: f64 = 0.3;
 
 /// Scaled energies per block of the dense enumeration: 64 Ki words
-/// (512 KiB), half of one core's L2 cache on the reference machine
-/// (measured best between 2^13 and 2^18 for the cube up to 1e6).
+/// (512 KiB), half of one core's L2 cache on the reference machine (of
+/// 2^13 to 2^18, 2^15 and 2^16 measured best for the cube up to 1e6).
 const BLOCK: u64 = 1 << 16;
 /// States a block should see of each row of families, at least, for the
 /// pass over the rows to be worth making (see [`ParticleInBox::block_len`];
@@ -636,12 +641,12 @@ impl ParticleInBox {
         make: impl Fn(BigRational, u64, u64) -> T + Sync,
     ) -> Result<Vec<T>> {
         let (m, dense) = self.plan_listing(cutoff, budget)?;
-        // One word per energy, the degeneracy in the low half and the number
-        // of families in the high half; neither half can carry over while
-        // the number of states at one energy stays below 2^32.
         if !dense {
             return Ok(self.sparse_levels(m, |k, deg, fam| make(self.energy_of(k), deg, fam)));
         }
+        // One word per energy, the degeneracy in the low half and the number
+        // of families in the high half; neither half can carry over while
+        // the number of states at one energy stays below 2^32.
         if self.states_per_level_bound(m) >= (1u64 << FAMILY_SHIFT) as f64 {
             // Only a memory budget of tens of gigabytes lets a listing this
             // high through to here.
