@@ -15,6 +15,22 @@ fn levels(c: &mut Criterion) {
     g.bench_function("cube_up_to_1e6", |b| {
         b.iter(|| black_box(cube.levels_up_to(black_box(&cut)).unwrap().len()))
     });
+    // The listing as it was before the blocked walk, under the same load, as
+    // the figure the one above is compared with.
+    g.bench_function("cube_up_to_1e6_reference", |b| {
+        b.iter(|| {
+            let levels = cube
+                .classified_levels_reference(black_box(&cut), &Budget::default())
+                .unwrap();
+            black_box(
+                levels
+                    .into_iter()
+                    .map(|c| c.level)
+                    .collect::<Vec<_>>()
+                    .len(),
+            )
+        })
+    });
     let rect = ParticleInBox::new(vec![
         parse_rational("2").unwrap(),
         parse_rational("3").unwrap(),

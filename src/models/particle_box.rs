@@ -21,6 +21,11 @@
 //! its quantum numbers within the groups (its family); the level's degeneracy
 //! is the sum of its families' sizes.
 //!
+//! A listing of levels adds the families into one word per scaled energy
+//! (while that array is small enough), in blocks of energies that fit a
+//! core's cache, on every core; the levels come out in order. Larger
+//! listings sort the families instead.
+//!
 //! # Where degeneracy comes from
 //! A level holding one family is degenerate because the box's symmetry
 //! requires it ([`Origin::Symmetry`]); a level holding several families,
@@ -57,6 +62,17 @@ const MAX_COUNT_STEPS: f64 = 4e10;
 /// cheaper than an elementary operation (measured 6.7e8 steps a second on
 /// the reference machine against its 2e8 operations).
 const STEP_OPS: f64 = 0.3;
+
+/// Scaled energies per block of the dense enumeration: 64 Ki words
+/// (512 KiB), half of one core's L2 cache on the reference machine (of
+/// 2^13 to 2^18, 2^15 and 2^16 measured best for the cube up to 1e6).
+const BLOCK: u64 = 1 << 16;
+/// States a block should see of each row of families, at least, for the
+/// pass over the rows to be worth making (see [`ParticleInBox::block_len`];
+/// measured flat from 1 to 8 for the 2:3:5 box up to 1e4).
+const ROW_HITS: f64 = 4.0;
+/// Where the number of families starts in a word of the dense enumeration.
+const FAMILY_SHIFT: u32 = 32;
 
 /// Why a level is degenerate.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
@@ -162,6 +178,61 @@ struct Family {
     k: u64,
     rep: [u64; 3],
     size: u64,
+}
+
+/// A row of families on its way up through the blocks of the dense
+/// enumeration: the next scaled energy `k` it reaches, the `step` to the
+/// one after, and the size of the family there (`first`) and of every later
+/// one (`rest`).
+#[derive(Debug, Clone, Copy)]
+struct Cursor {
+    k: u64,
+    step: u64,
+    first: u32,
+    rest: u32,
+}
+
+impl Cursor {
+    /// The cursor at the first family of `row` with scaled energy at least
+    /// `a`, if the row has one. The row's energies are `partial + w n²`, and
+    /// the step from `n` is `w (2n + 1)`.
+    fn new(row: &Row, a: u64) -> Option<Cursor> {
+        let (mut n, mut first) = (row.lo, row.size_first);
+        if row.partial + row.w * n * n < a {
+            let t = (a - row.partial).div_ceil(row.w);
+            let r = isqrt_u64(t);
+            n = if r * r < t { r + 1 } else { r };
+            first = row.size_rest;
+        }
+        (n <= row.hi).then_some(Cursor {
+            k: row.partial + row.w * n * n,
+            step: row.w * (2 * n + 1),
+            // Family sizes are 1, 2, 3 or 6.
+            first: first as u32,
+            rest: row.size_rest as u32,
+        })
+    }
+
+    /// Adds the row's families with scaled energy in `lo..=hi` to `slot`
+    /// (`slot[0]` is energy `lo`, which the cursor has reached), each as its
+    /// size plus one family (see [`FAMILY_SHIFT`]); `w2` is twice the weight
+    /// of the row's axis.
+    fn fill(&mut self, lo: u64, hi: u64, w2: u64, slot: &mut [u64]) {
+        let one = 1u64 << FAMILY_SHIFT;
+        let (mut k, mut step) = (self.k, self.step);
+        let (mut add, rest) = (u64::from(self.first) + one, u64::from(self.rest) + one);
+        while k <= hi {
+            slot[(k - lo) as usize] += add;
+            add = rest;
+            k += step;
+            step += w2;
+        }
+        if k != self.k {
+            self.first = self.rest;
+        }
+        self.k = k;
+        self.step = step;
+    }
 }
 
 impl ParticleInBox {
@@ -470,6 +541,59 @@ impl ParticleInBox {
         cutoff: &BigRational,
         budget: &Budget,
     ) -> Result<Vec<ClassifiedLevel>> {
+        self.listing(cutoff, budget, |energy, degeneracy, families| {
+            ClassifiedLevel {
+                level: Level::new(energy, degeneracy),
+                families,
+            }
+        })
+    }
+
+    /// The listing as it was before the blocked walk: one walk over the
+    /// whole dense array (or the sparse path), on one core. Kept as the
+    /// reference the faster [`ParticleInBox::classified_levels`] is tested
+    /// against; not part of the interface.
+    #[doc(hidden)]
+    pub fn classified_levels_reference(
+        &self,
+        cutoff: &BigRational,
+        budget: &Budget,
+    ) -> Result<Vec<ClassifiedLevel>> {
+        let (m, dense) = self.plan_listing(cutoff, budget)?;
+        let make = |k: u64, deg: u64, fam: u64| ClassifiedLevel {
+            level: Level::new(self.energy_of(k), deg),
+            families: fam,
+        };
+        if !dense {
+            return Ok(self.sparse_levels(m, make));
+        }
+        let mut out = Vec::new();
+        let len = m as usize + 1;
+        // One word per energy: degeneracy in the low 40 bits, number of
+        // families above them (one memory touch per family).
+        const FAM: u64 = 1 << 40;
+        let mut slot = vec![0u64; len];
+        self.visit_rows(m, &mut |row: &Row| {
+            let mut k = row.partial + row.w * row.lo * row.lo;
+            slot[k as usize] += row.size_first + FAM;
+            let add = row.size_rest + FAM;
+            for n in row.lo + 1..=row.hi {
+                k = row.partial + row.w * n * n;
+                slot[k as usize] += add;
+            }
+        });
+        for (k, &v) in slot.iter().enumerate() {
+            if v != 0 {
+                out.push(make(k as u64, v & (FAM - 1), v >> 40));
+            }
+        }
+        Ok(out)
+    }
+
+    /// The scaled cutoff and whether the dense enumeration (one slot per
+    /// scaled energy) is the one to use, after checking the listing's
+    /// estimated memory against `budget`.
+    fn plan_listing(&self, cutoff: &BigRational, budget: &Budget) -> Result<(u64, bool)> {
         let m = self.scaled_cutoff(cutoff)?;
         let families = self.estimated_families(cutoff);
         let dense = (m as f64 + 1.0) * DENSE_BYTES;
@@ -482,41 +606,153 @@ impl ParticleInBox {
             0.0,
             "use `count` for the number of states, or a lower cutoff",
         )?;
-        let make = |k: u64, deg: u64, fam: u64| ClassifiedLevel {
-            level: Level::new(self.energy_of(k), deg),
-            families: fam,
-        };
-        let mut out = Vec::new();
-        if dense <= sparse.max(64.0 * 1024.0 * 1024.0) {
-            let len = m as usize + 1;
-            // One word per energy: degeneracy in the low 40 bits, number of
-            // families above them (one memory touch per family).
-            const FAM: u64 = 1 << 40;
-            let mut slot = vec![0u64; len];
-            self.visit_rows(m, &mut |row: &Row| {
-                let mut k = row.partial + row.w * row.lo * row.lo;
-                slot[k as usize] += row.size_first + FAM;
-                let add = row.size_rest + FAM;
-                for n in row.lo + 1..=row.hi {
-                    k = row.partial + row.w * n * n;
-                    slot[k as usize] += add;
-                }
-            });
-            for (k, &v) in slot.iter().enumerate() {
-                if v != 0 {
-                    out.push(make(k as u64, v & (FAM - 1), v >> 40));
-                }
-            }
-        } else {
-            let mut all: Vec<(u64, u64)> = Vec::new();
-            self.visit_families(m, &mut |f| all.push((f.k, f.size)));
-            all.sort_unstable();
-            for chunk in all.chunk_by(|a, b| a.0 == b.0) {
+        Ok((m, dense <= sparse.max(64.0 * 1024.0 * 1024.0)))
+    }
+
+    /// The sparse enumeration: every family's scaled energy and size,
+    /// sorted, then merged into levels `make(k, degeneracy, families)`.
+    fn sparse_levels<T>(&self, m: u64, make: impl Fn(u64, u64, u64) -> T) -> Vec<T> {
+        let mut all: Vec<(u64, u64)> = Vec::new();
+        self.visit_families(m, &mut |f| all.push((f.k, f.size)));
+        all.sort_unstable();
+        all.chunk_by(|a, b| a.0 == b.0)
+            .map(|chunk| {
                 let deg: u64 = chunk.iter().map(|c| c.1).sum();
-                out.push(make(chunk[0].0, deg, chunk.len() as u64));
-            }
+                make(chunk[0].0, deg, chunk.len() as u64)
+            })
+            .collect()
+    }
+
+    /// The levels up to `cutoff` as `make(energy, degeneracy, families)`,
+    /// lowest first, within `budget`.
+    ///
+    /// The dense enumeration cuts the scaled energies `0..=m` into blocks
+    /// small enough to stay in a core's cache, and runs of blocks go to the
+    /// cores (rayon). A run walks the rows of families that reach it once
+    /// (see [`ParticleInBox::visit_rows`]), keeping a [`Cursor`] per row,
+    /// and each block takes from every row the families whose energy falls
+    /// inside it, so the scattered additions hit the cache instead of
+    /// memory. The levels come out already in order, and each exact energy
+    /// and degeneracy is made once, on every core.
+    fn listing<T: Send>(
+        &self,
+        cutoff: &BigRational,
+        budget: &Budget,
+        make: impl Fn(BigRational, u64, u64) -> T + Sync,
+    ) -> Result<Vec<T>> {
+        let (m, dense) = self.plan_listing(cutoff, budget)?;
+        if !dense {
+            return Ok(self.sparse_levels(m, |k, deg, fam| make(self.energy_of(k), deg, fam)));
         }
-        Ok(out)
+        // One word per energy, the degeneracy in the low half and the number
+        // of families in the high half; neither half can carry over while
+        // the number of states at one energy stays below 2^32.
+        if self.states_per_level_bound(m) >= (1u64 << FAMILY_SHIFT) as f64 {
+            // Only a memory budget of tens of gigabytes lets a listing this
+            // high through to here.
+            return Err(Error::invalid(
+                "cutoff",
+                rational_string(cutoff),
+                "listing every level that high is beyond what zsum handles (one level could \
+                 hold 2^32 states or more); count the states instead, or give a lower cutoff",
+            ));
+        }
+        use rayon::prelude::*;
+        let w2 = 2 * self.sorted[self.dims() - 1].0;
+        let block = self.block_len(m);
+        let found: Vec<Vec<(u64, u64)>> = self
+            .strips(m, block)
+            .into_par_iter()
+            .map(|(a, b)| {
+                let mut rows = Vec::new();
+                self.visit_rows(b, &mut |row: &Row| rows.extend(Cursor::new(row, a)));
+                let mut found = Vec::new();
+                let mut slot = Vec::new();
+                let mut lo = a;
+                while lo <= b {
+                    let hi = b.min(lo + (block - 1));
+                    slot.clear();
+                    slot.resize((hi - lo + 1) as usize, 0u64);
+                    for row in &mut rows {
+                        row.fill(lo, hi, w2, &mut slot);
+                    }
+                    found.extend(
+                        slot.iter()
+                            .enumerate()
+                            .filter(|&(_, &v)| v != 0)
+                            .map(|(i, &v)| (lo + i as u64, v)),
+                    );
+                    lo = hi + 1;
+                }
+                found
+            })
+            .collect();
+        // The levels in order, made on every core straight from each run's
+        // list (no joined copy): level i lies in the run that starts last at
+        // or before it.
+        let starts: Vec<usize> = found
+            .iter()
+            .scan(0, |total, run| {
+                let start = *total;
+                *total += run.len();
+                Some(start)
+            })
+            .collect();
+        let total = found.iter().map(Vec::len).sum();
+        let low = (1u64 << FAMILY_SHIFT) - 1;
+        Ok((0..total)
+            .into_par_iter()
+            .map(|i| {
+                let run = starts.partition_point(|&s| s <= i) - 1;
+                let (k, v) = found[run][i - starts[run]];
+                make(self.energy_of(k), v & low, v >> FAMILY_SHIFT)
+            })
+            .collect())
+    }
+
+    /// An upper bound on the number of states at any one scaled energy `k ≤
+    /// m`. The last quantum number is fixed by the others, so the count is
+    /// at most the number of positive `(n_1, …, n_{d-1})` with
+    /// `Σ w_i n_i² < m`: 1 in 1D, `√(m/w_1)` in 2D, and in 3D the area
+    /// `π m / (4 √(w_1 w_2))` of the quarter ellipse, which holds the unit
+    /// cell `[n_1 − 1, n_1] × [n_2 − 1, n_2]` of every such pair. A
+    /// generous margin covers the rounding of the f64 arithmetic.
+    fn states_per_level_bound(&self, m: u64) -> f64 {
+        let w = self.weights();
+        let bound = match w.as_slice() {
+            [_] => 1.0,
+            [w1, _] => (m as f64 / *w1 as f64).sqrt(),
+            _ => std::f64::consts::PI / 4.0 * m as f64 / (w[0] as f64 * w[1] as f64).sqrt(),
+        };
+        bound * 1.01 + 2.0
+    }
+
+    /// Scaled energies per block of the dense enumeration: [`BLOCK`], or
+    /// more where the last axis's steps are so wide that a block that size
+    /// would see fewer than [`ROW_HITS`] states of each row (every block
+    /// passes over every row).
+    fn block_len(&self, m: u64) -> u64 {
+        let w_last = self.sorted.last().map_or(1, |&(w, _)| w);
+        let step = 2.0 * (m as f64 * w_last as f64).sqrt();
+        let wide = (ROW_HITS * step) as u64;
+        BLOCK.max(wide).min(m + 1)
+    }
+
+    /// The scaled energies `0..=m` cut into runs of whole blocks (`(first,
+    /// last)`), one per core, each with about the same number of families:
+    /// the families up to `k` grow as `k^{d/2}`.
+    fn strips(&self, m: u64, block: u64) -> Vec<(u64, u64)> {
+        let blocks = m / block + 1;
+        let parts = (rayon::current_num_threads() as u64).clamp(1, blocks);
+        let power = 2.0 / self.dims() as f64;
+        let mut cuts: Vec<u64> = (0..=parts)
+            .map(|i| (blocks as f64 * (i as f64 / parts as f64).powf(power)).round() as u64)
+            .collect();
+        cuts[parts as usize] = blocks;
+        cuts.dedup();
+        cuts.windows(2)
+            .map(|c| (c[0] * block, m.min(c[1] * block - 1)))
+            .collect()
     }
 
     /// The levels up to `cutoff`, each with its families and its states
@@ -675,11 +911,10 @@ impl Spectrum for ParticleInBox {
     }
 
     fn levels_within(&self, cutoff: &BigRational, budget: &Budget) -> Result<LevelList> {
-        let levels = self.classified_levels(cutoff, budget)?;
-        Ok(LevelList::from_sorted(
-            self.unit(),
-            levels.into_iter().map(|c| c.level).collect(),
-        ))
+        let levels = self.listing(cutoff, budget, |energy, degeneracy, _| {
+            Level::new(energy, degeneracy)
+        })?;
+        Ok(LevelList::from_sorted(self.unit(), levels))
     }
 
     fn states_at(&self, energy: &BigRational) -> Result<Vec<State>> {
