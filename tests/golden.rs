@@ -168,6 +168,34 @@ const CASES: &[(&str, &[&str])] = &[
         &["thermo", "top", "--C", "2", "--B", "3", "--T", "20,300"],
     ),
     (
+        "levels-asymmetric-top-json",
+        &[
+            "levels",
+            "top",
+            "--A",
+            "27.8806",
+            "--B",
+            "14.5218",
+            "--C",
+            "9.2777",
+            "--pair-spin",
+            "1/2",
+            "--pair-axis",
+            "b",
+            "--up-to",
+            "140",
+            "--format",
+            "json",
+        ],
+    ),
+    (
+        "thermo-asymmetric-top-table",
+        &[
+            "thermo", "top", "--A", "27.8806", "--B", "14.5218", "--C", "9.2777", "--DJ",
+            "0.00125", "--DK", "0.0326", "--dJ", "0.00051", "--T", "1,10,30", "--digits", "20",
+        ],
+    ),
+    (
         "thermo-oscillator-json",
         &[
             "thermo",

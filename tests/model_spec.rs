@@ -10,8 +10,9 @@ use num_rational::BigRational;
 use std::path::Path;
 use zsum::exact::{parse_rational, rational_string};
 use zsum::models::spec::{
-    AnharmonicSpec, BoxSpec, DiatomicSpec, LevelEntry, LevelsSpec, ModelSpec, MorseSpec,
-    OscillatorSpec, RotorSpec, Selection, SpecError, SphericalTopSpec, Text, TopSpec, ZeemanSpec,
+    AnharmonicSpec, AsymmetricTopSpec, BoxSpec, DiatomicSpec, LevelEntry, LevelsSpec, ModelSpec,
+    MorseSpec, OscillatorSpec, RotorSpec, Selection, SpecError, SphericalTopSpec, Text, TopSpec,
+    ZeemanSpec,
 };
 use zsum::spectrum::Spectrum;
 use zsum::system::System;
@@ -559,6 +560,19 @@ fn one_of_each() -> Vec<ModelSpec> {
     all.push(ModelSpec::Box(BoxSpec {
         dims: Some(2),
         ..BoxSpec::default()
+    }));
+    all.push(ModelSpec::AsymmetricTop(AsymmetricTopSpec {
+        a: t("27.8806 cm-1"),
+        b: t("14.5218 cm-1"),
+        c: t("9.2777 cm-1"),
+        dj: Some(t("0.00125 cm-1")),
+        djk: None,
+        dk: None,
+        small_dj: Some(t("0.0005 cm-1")),
+        small_dk: None,
+        weights: None,
+        pair_spin: Some(t("1/2")),
+        pair_axis: Some(t("b")),
     }));
     all
 }

@@ -444,7 +444,7 @@ impl AsymmetricTopMath {
                 what,
                 exact_decimal(v, 30),
                 "with the other constants the energy stops increasing (with K, or with J) already \
-                 at J = 1 (see turnover_j); no rotational level beyond J = 0 is meaningful",
+                 at J = 1; no rotational level beyond J = 0 is meaningful",
             ));
         }
         Ok(top)
