@@ -231,6 +231,14 @@ fn bad_asymmetric_tops_are_refused_with_status_2() {
     assert!(out.stdout.is_empty());
     // Asymmetric-only flags on a symmetric top.
     refused(&with(&["--A", "27", "--dJ", "0.001"]), "asymmetric top");
+    // Work beyond the time budget is refused from its estimate, at once:
+    // at 1e5 K the sum would need J up to about 775.
+    refused(
+        &[
+            "thermo", "top", "--A", "27.8806", "--B", "14.5218", "--C", "9.2777", "--T", "1e5",
+        ],
+        "would take about",
+    );
     // A distortion that turns the levels over at once.
     refused(
         &with(&["--A", "27", "--C", "9", "--DJ", "10"]),
