@@ -2,29 +2,13 @@
 //! module docs of [`crate::sum`].
 
 use super::ball::Ball;
+use super::convert::{big, to_rug};
 use super::{check_excitation, ln_target, rational_ball, Stats};
 use crate::error::{Error, Result};
 use crate::spectrum::Spectrum;
-use num_bigint::BigInt;
 use num_rational::BigRational;
 use num_traits::{ToPrimitive, Zero};
-use rug::{Float, Integer, Rational};
-
-/// An exact integer as a GMP integer.
-pub(crate) fn big_int(b: &BigInt) -> Integer {
-    let (sign, digits) = b.to_u32_digits();
-    let i = Integer::from_digits(&digits, rug::integer::Order::Lsf);
-    if sign == num_bigint::Sign::Minus {
-        -i
-    } else {
-        i
-    }
-}
-
-/// An exact rational as an MPFR-ready rational.
-pub(crate) fn to_rug(r: &BigRational) -> Rational {
-    Rational::from((big_int(r.numer()), big_int(r.denom())))
-}
+use rug::{Float, Integer};
 
 /// a + b as an unreduced ratio over the product of the (positive)
 /// denominators: the same value, compared and converted exactly as the
@@ -416,9 +400,4 @@ fn with_tails(sums: [Ball; 3], tails: [Float; 3]) -> [Ball; 3] {
         i += 1;
         b
     })
-}
-
-/// A big natural number as an MPFR-ready integer.
-pub(crate) fn big(b: &num_bigint::BigUint) -> Integer {
-    Integer::from_digits(&b.to_u32_digits(), rug::integer::Order::Lsf)
 }

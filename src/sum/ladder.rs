@@ -4,7 +4,8 @@
 //! own exponential), and by a fixed-point recurrence otherwise.
 
 use super::ball::{up_add, Ball, RP};
-use super::direct::{big, excited_sums, to_rug};
+use super::convert::{big, to_rug};
+use super::direct::excited_sums;
 use super::{check_excitation, ln_target, rational_ball, Stats};
 use crate::error::{Error, Result};
 use num_bigint::BigUint;

@@ -67,8 +67,9 @@
 pub(crate) mod ball;
 mod certified;
 mod closed;
+mod convert;
 mod direct;
-pub(crate) use direct::to_rug;
+pub(crate) use convert::to_rug;
 pub(crate) mod format;
 mod ladder;
 mod poly;

@@ -36,7 +36,7 @@
 //! s at most 8, and each addition of non-negative terms one more.
 
 use super::ball::{Ball, RP};
-use super::direct::{big_int, to_rug};
+use super::convert::{big, big_int, to_rug};
 use crate::error::{Error, Result};
 use crate::spectrum::PolyLadder;
 use num_rational::BigRational;
@@ -83,10 +83,7 @@ fn prepare(
         a.pop();
     }
     let den = big_int(&l.denominator);
-    let weights = [
-        super::direct::big(&l.weights[0]),
-        super::direct::big(&l.weights[1]),
-    ];
+    let weights = [big(&l.weights[0]), big(&l.weights[1])];
     let e0_num = Rational::from(e0 * &den);
     let stride = if weights[0] == 0 || weights[1] == 0 {
         2
