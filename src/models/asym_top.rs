@@ -185,19 +185,25 @@ impl AsymmetricTop {
     /// every J examined. `None` when not even J = 0 qualifies.
     fn j_last(&self, cutoff: &BigRational) -> Option<u64> {
         if self.math.quartic().is_none() {
-            let [_, _, c] = self.math.constants();
-            // J(J+1) ≤ q ⇔ (2J+1)² ≤ 4q + 1 for integer J(J+1) ≤ ⌊q⌋.
-            let q = (cutoff / c).floor().to_integer();
-            if q.is_negative() {
-                return None;
-            }
-            let j = ((q * 4u32 + 1u32).sqrt() - 1u32) / 2u32;
-            return Some(j.to_u64().unwrap_or(u64::MAX).min(MAX_J));
+            return self
+                .rigid_j_last(cutoff)
+                .map(|j| j.to_u64().unwrap_or(u64::MAX).min(MAX_J));
         }
         let last = self.math.turnover_j().unwrap_or(MAX_J).min(MAX_J);
         (0..=last)
             .rev()
             .find(|&j| &self.math.lower_bound(j) <= cutoff)
+    }
+
+    /// The rigid top's last J with C·J(J+1) ≤ `cutoff`, uncapped: J(J+1) ≤
+    /// q ⇔ (2J+1)² ≤ 4q + 1 for q = ⌊cutoff/C⌋. `None` below zero.
+    fn rigid_j_last(&self, cutoff: &BigRational) -> Option<BigInt> {
+        let [_, _, c] = self.math.constants();
+        let q = (cutoff / c).floor().to_integer();
+        if q.is_negative() {
+            return None;
+        }
+        Some(((q * 4u32 + 1u32).sqrt() - 1u32) / 2u32)
     }
 
     /// The levels of J whose energy may lie at or below `cutoff`, refined
@@ -416,13 +422,10 @@ impl Spectrum for AsymmetricTop {
         // certified lower bound (distorted, whose levels end at the
         // turnover); J's (2J+1)² states weigh at most the largest weight.
         let m = if self.math.quartic().is_none() {
-            let [_, _, c] = self.math.constants();
-            let q = (energy / c).floor().to_integer();
-            if q.is_negative() {
-                return BigUint::zero();
+            match self.rigid_j_last(energy) {
+                Some(j) => j.to_biguint().unwrap_or_default() + 1u32,
+                None => return BigUint::zero(),
             }
-            let j = ((q * 4u32 + 1u32).sqrt() - 1u32) / 2u32;
-            j.to_biguint().unwrap_or_default() + 1u32
         } else {
             if self.math.turnover_j().is_none() && &self.math.lower_bound(MAX_J) <= energy {
                 // Levels beyond the largest J solved may lie below: no
