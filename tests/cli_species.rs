@@ -113,7 +113,7 @@ fn bad_input_is_refused() {
     );
     refused(
         &["thermo", "CO", "--T", "300", "--isomer", "para", "-o", o],
-        "ortho and para",
+        "nuclear-spin isomers",
     );
     let bad = dir.path().join("mine.toml");
     std::fs::write(

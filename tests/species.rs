@@ -194,7 +194,7 @@ fn isomer_states_are_consistent() {
         ..MolarOptions::default()
     };
     let e = molar(db.find("CO").unwrap(), &parse_rational("300").unwrap(), &o).unwrap_err();
-    assert!(e.to_string().contains("ortho and para"), "{e}");
+    assert!(e.to_string().contains("nuclear-spin isomers"), "{e}");
 }
 
 /// Sackur–Tetrode against the engine's exact sum for He in a 1 cm cube:

@@ -116,7 +116,14 @@ pub struct AsymmetricTop {
     math: AsymmetricTopMath,
     weights: [BigUint; 4],
     unit: EnergyUnit,
+    /// The certified levels of each (J, bits) computed so far, shared by
+    /// clones (a molecule's spin isomers are clones with other weights):
+    /// a listing, its count bound and its warnings certify each J once.
+    solved: std::sync::Arc<std::sync::Mutex<Solved>>,
 }
+
+/// Certified levels by (J, working bits).
+type Solved = std::collections::HashMap<(u64, u32), std::sync::Arc<Vec<AsymLevel>>>;
 
 impl AsymmetricTop {
     /// The top with every symmetry class of weight 1, energies in `unit`.
@@ -125,6 +132,7 @@ impl AsymmetricTop {
             math,
             weights: std::array::from_fn(|_| BigUint::one()),
             unit,
+            solved: Default::default(),
         }
     }
 
@@ -211,18 +219,36 @@ impl AsymmetricTop {
     fn levels_of_j(&self, j: u64, cutoff: &BigRational, bits: u32) -> Result<Vec<AsymLevel>> {
         let mut b = bits;
         loop {
-            let levels = self.math.levels_of_j(j, &self.width(j, b))?;
+            let levels = self.solved(j, b)?;
             let straddles = levels
                 .iter()
                 .any(|l| l.value.lo() <= cutoff && l.value.hi() > cutoff);
             if !straddles || b >= bits + 256 {
                 return Ok(levels
-                    .into_iter()
+                    .iter()
                     .filter(|l| l.value.lo() <= cutoff)
+                    .cloned()
                     .collect());
             }
             b += 64;
         }
+    }
+
+    /// The certified levels of J at `bits`, computed once per (J, bits)
+    /// for this top and its clones. The lock is not held while solving
+    /// (the cores of a listing solve different J).
+    fn solved(&self, j: u64, bits: u32) -> Result<std::sync::Arc<Vec<AsymLevel>>> {
+        let lock = || {
+            self.solved
+                .lock()
+                .unwrap_or_else(std::sync::PoisonError::into_inner)
+        };
+        if let Some(l) = lock().get(&(j, bits)) {
+            return Ok(l.clone());
+        }
+        let levels = std::sync::Arc::new(self.math.levels_of_j(j, &self.width(j, bits))?);
+        lock().insert((j, bits), levels.clone());
+        Ok(levels)
     }
 
     fn ground(&self) -> BigRational {

@@ -19,6 +19,7 @@ pub fn isomer_name(isomer: &Isomer) -> String {
         Isomer::Ortho => "ortho".into(),
         Isomer::Para => "para".into(),
         Isomer::Fraction(x) => format!("fraction={}", exact_decimal(x, 20)),
+        Isomer::Named(n) => n.clone(),
     }
 }
 

@@ -32,6 +32,9 @@ impl ConstantRow {
             Quantity::DE => "D_e".to_string(),
             Quantity::We => "we".to_string(),
             Quantity::WeXe => "wexe".to_string(),
+            Quantity::TopConstant { name } => format!("rotational constant {name}"),
+            Quantity::SymmetryNumber => "symmetry number".to_string(),
+            Quantity::Mode { degeneracy } => format!("harmonic mode (g = {degeneracy})"),
             Quantity::ElectronicLevel { label, degeneracy } => format!(
                 "electronic level {} (g = {degeneracy})",
                 label.clone().unwrap_or_default()

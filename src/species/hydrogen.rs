@@ -20,8 +20,8 @@
 //! level for a frozen composition (normal, ortho, para, a fraction).
 
 use super::molar::{
-    degeneracy, div, exact, isomer_parts, molar_with, prec, Basis, Degeneracy, Isomer,
-    MolarOptions, MolarValues, Spectra,
+    degeneracy, div, isomer_parts, molar_with, prec, Basis, Degeneracy, Isomer, MolarOptions,
+    MolarValues, Spectra,
 };
 use super::Species;
 use crate::error::{Error, Result};
@@ -159,24 +159,24 @@ impl HydrogenGrid {
             };
             let ip = isomer_parts(sp, &cached, t, digits)?;
             let rt = r.mul(&rational_ball(t, p));
-            let (wo, wp) = (ip.w_ortho, ip.w_para);
-            let xn = div(&exact(p, wo), &exact(p, wo + wp));
-            let h_n = xn
-                .mul(&ip.ortho.h)
-                .add(&exact(p, 1u32).sub(&xn).mul(&ip.para.h));
+            let (Some(o_iso), Some(p_iso)) = (ip.get("ortho"), ip.get("para")) else {
+                return Err(super::molar::no_isomers(sp));
+            };
+            let xn = ip.normal_fractions(p);
+            let h_n = xn[0].mul(&o_iso.part.h).add(&xn[1].mul(&p_iso.part.h));
             let conv = h_n.sub(&ip.eq.h).mul(&rt);
             let per_kg = div(&conv, &kg).div_int(1000);
             // The upper isomer's lowest level lies above the common zero.
-            let ortho_upper = ip.ortho_zero.c.is_sign_positive() && !ip.ortho_zero.c.is_zero();
+            let ortho_upper = o_iso.zero.c.is_sign_positive() && !o_iso.zero.c.is_zero();
             ground = if ortho_upper {
                 Isomer::Para
             } else {
                 Isomer::Ortho
             };
             let (upper, lower) = if ortho_upper {
-                (&ip.ortho.h, &ip.para.h)
+                (&o_iso.part.h, &p_iso.part.h)
             } else {
-                (&ip.para.h, &ip.ortho.h)
+                (&p_iso.part.h, &o_iso.part.h)
             };
             let to_ground = upper.sub(lower).mul(&rt);
             let equilibrium_ortho_fraction = eq.ortho_fraction.clone().ok_or_else(|| {

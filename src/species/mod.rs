@@ -39,6 +39,7 @@
 pub mod hydrogen;
 pub mod liquefier;
 mod molar;
+pub mod poly;
 
 use crate::error::{Error, ErrorKind, Result};
 use crate::exact::parse_rational;
@@ -113,6 +114,25 @@ struct FileElectronic {
     source: String,
 }
 
+/// A polyatomic species' rotation: a model description of kind `rotor`,
+/// `top`, `spherical_top` or `asymmetric_top` (as a system file writes it,
+/// nuclear-spin statistics included), with its source.
+#[derive(Debug, Clone, Deserialize, Serialize)]
+#[serde(deny_unknown_fields)]
+struct FileTop {
+    model: crate::models::spec::ModelSpec,
+    source: String,
+}
+
+/// Harmonic vibrational modes, each `"<wavenumber> <unit>"` with an
+/// optional degeneracy `" x2"`, with their source.
+#[derive(Debug, Clone, Deserialize, Serialize)]
+#[serde(deny_unknown_fields)]
+struct FileModes {
+    freq: Vec<String>,
+    source: String,
+}
+
 #[derive(Debug, Clone, Deserialize, Serialize)]
 #[serde(deny_unknown_fields)]
 struct FileSpecies {
@@ -125,6 +145,9 @@ struct FileSpecies {
     swap_parity: Option<bool>,
     rotation: Option<FileRotation>,
     vibration: Option<FileVibration>,
+    symmetry_number: Option<u32>,
+    top: Option<FileTop>,
+    modes: Option<FileModes>,
     electronic: FileElectronic,
 }
 
@@ -136,6 +159,22 @@ pub enum Kind {
     Atom,
     /// A linear molecule: rotation and one vibration.
     Linear,
+    /// A polyatomic molecule: a rotor or top with its nuclear-spin
+    /// statistics and harmonic modes.
+    Polyatomic,
+}
+
+/// A polyatomic molecule's rotation and vibrations.
+#[derive(Debug, Clone)]
+pub struct Polyatomic {
+    /// The rotation, with its spin statistics.
+    pub rotation: poly::Rotation,
+    /// Its description (as a system file writes it).
+    pub rotation_spec: crate::models::spec::ModelSpec,
+    /// The harmonic modes as a system file writes them (`"667.4 cm-1 x2"`).
+    pub modes: Vec<String>,
+    /// The symmetry number, as the file gives it and the statistics imply.
+    pub symmetry_number: u32,
 }
 
 /// Rotational and vibrational constants of a linear molecule, in cm⁻¹.
@@ -168,8 +207,10 @@ pub struct Species {
     pub kind: Kind,
     /// Mass in kg, exact.
     pub mass_kg: BigRational,
-    /// The molecule's constants (None for atoms).
+    /// The molecule's constants (linear molecules of kind `linear`).
     pub molecule: Option<Molecule>,
+    /// A polyatomic molecule's rotation and modes.
+    pub polyatomic: Option<Polyatomic>,
     /// Electronic levels.
     pub electronic: LevelFile,
     raw: FileSpecies,
@@ -198,13 +239,118 @@ fn cm1(species: &str, field: &str, unit: &str) -> Result<BigRational> {
     u.factor_to(&EnergyUnit::Wavenumber)
 }
 
+/// Refuses the fields of a linear molecule (`why` says what the kind gives
+/// instead).
+fn no_linear_fields(n: &str, f: &FileSpecies, why: &str) -> Result<()> {
+    for (field, present) in [
+        ("rotation", f.rotation.is_some()),
+        ("vibration", f.vibration.is_some()),
+        ("nuclear_spin", f.nuclear_spin.is_some()),
+        ("swap_parity", f.swap_parity.is_some()),
+        ("homonuclear", f.homonuclear.is_some()),
+    ] {
+        if present {
+            return Err(field_err(n, field, "given", why));
+        }
+    }
+    Ok(())
+}
+
+/// The rotation, modes and symmetry number of a polyatomic species, checked
+/// against each other.
+fn polyatomic_from(n: &str, f: &FileSpecies) -> Result<Polyatomic> {
+    no_linear_fields(
+        n,
+        f,
+        "a polyatomic species gives its rotation as `top` (a model description with its \
+         nuclear-spin statistics) and its vibrations as `modes`",
+    )?;
+    let top = f.top.as_ref().ok_or_else(|| {
+        field_err(
+            n,
+            "top",
+            "missing",
+            "a polyatomic species needs top = { model = { kind = ..., ... }, source = ... }",
+        )
+    })?;
+    let modes = f.modes.as_ref().ok_or_else(|| {
+        field_err(
+            n,
+            "modes",
+            "missing",
+            "a polyatomic species needs modes = { freq = [\"1595 cm-1\", ...], source = ... }",
+        )
+    })?;
+    for (field, src) in [("top.source", &top.source), ("modes.source", &modes.source)] {
+        if src.trim().is_empty() {
+            return Err(field_err(n, field, "", "every constant needs its source"));
+        }
+    }
+    let rotation = poly::Rotation::from_spec(&top.model)
+        .map_err(|e| field_err(n, "top.model", top.model.kind(), e.message()))?;
+    let implied = rotation.implied_symmetry_number();
+    let given = f.symmetry_number.ok_or_else(|| {
+        field_err(
+            n,
+            "symmetry_number",
+            "missing",
+            &format!(
+                "give the symmetry number; the nuclear-spin statistics of top.model imply {}",
+                crate::exact::rational_string(&implied)
+            ),
+        )
+    })?;
+    if BigRational::from_integer(given.into()) != implied {
+        return Err(field_err(
+            n,
+            "symmetry_number",
+            &given.to_string(),
+            &format!(
+                "it contradicts the nuclear-spin statistics of top.model, which imply {} ({} \
+                 nuclear-spin functions over a mean weight of {} per rotational state); give \
+                 the statistics of the molecule's equivalent nuclei or correct the number",
+                crate::exact::rational_string(&implied),
+                rotation.spin_states(),
+                crate::exact::rational_string(&rotation.mean_weight())
+            ),
+        ));
+    }
+    Ok(Polyatomic {
+        rotation,
+        rotation_spec: top.model.clone(),
+        modes: modes.freq.clone(),
+        symmetry_number: given,
+    })
+}
+
 impl Species {
     fn from_file(f: FileSpecies) -> Result<Self> {
         let n = f.name.clone();
         let kind = match f.kind.as_str() {
             "atom" => Kind::Atom,
             "linear" => Kind::Linear,
-            other => return Err(field_err(&n, "kind", other, "atom or linear")),
+            "polyatomic" => Kind::Polyatomic,
+            other => return Err(field_err(&n, "kind", other, "atom, linear or polyatomic")),
+        };
+        let polyatomic = match kind {
+            Kind::Polyatomic => Some(polyatomic_from(&n, &f)?),
+            _ => {
+                for (field, present) in [
+                    ("top", f.top.is_some()),
+                    ("modes", f.modes.is_some()),
+                    ("symmetry_number", f.symmetry_number.is_some()),
+                ] {
+                    if present {
+                        return Err(field_err(
+                            &n,
+                            field,
+                            "given",
+                            "top, modes and symmetry_number belong to kind = \"polyatomic\"",
+                        ));
+                    }
+                }
+                None
+            }
         };
         let mass_kg = parse_mass_kg(&format!("{}{}", f.mass.value, f.mass.unit))
             .map_err(|e| field_err(&n, "mass", &f.mass.value, &e.to_string()))?;
@@ -217,23 +363,13 @@ impl Species {
             ));
         }
         let molecule = match kind {
+            Kind::Polyatomic => None,
             Kind::Atom => {
-                for (field, present) in [
-                    ("rotation", f.rotation.is_some()),
-                    ("vibration", f.vibration.is_some()),
-                    ("nuclear_spin", f.nuclear_spin.is_some()),
-                    ("swap_parity", f.swap_parity.is_some()),
-                    ("homonuclear", f.homonuclear.is_some()),
-                ] {
-                    if present {
-                        return Err(field_err(
-                            &n,
-                            field,
-                            "given",
-                            "an atom has no rotation, vibration or ortho/para statistics",
-                        ));
-                    }
-                }
+                no_linear_fields(
+                    &n,
+                    &f,
+                    "an atom has no rotation, vibration or ortho/para statistics",
+                )?;
                 None
             }
             Kind::Linear => {
@@ -343,6 +479,7 @@ impl Species {
             kind,
             mass_kg,
             molecule,
+            polyatomic,
             electronic,
             raw: f,
         };
@@ -351,13 +488,43 @@ impl Species {
         Ok(sp)
     }
 
-    /// Whether ortho and para modifications exist (homonuclear, spin > 0).
+    /// Whether nuclear-spin isomers exist (homonuclear diatomics with
+    /// spin > 0; polyatomics whose statistics single them out).
     pub fn has_spin_isomers(&self) -> bool {
-        matches!(&self.molecule, Some(m) if m.twice_spin.unwrap_or(0) > 0)
+        !self.isomers().is_empty()
     }
 
-    /// (2I+1)² for a homonuclear molecule, else 1.
+    /// The nuclear-spin isomers, each with its number of nuclear-spin
+    /// functions (ortho-H2: 3, para-H2: 1), ortho first; empty without.
+    pub fn isomers(&self) -> Vec<(String, u64)> {
+        if let Some(p) = &self.polyatomic {
+            return p
+                .rotation
+                .isomers()
+                .into_iter()
+                .map(|i| (i.name, i.spin_functions))
+                .collect();
+        }
+        match &self.molecule {
+            Some(m) if m.twice_spin.unwrap_or(0) > 0 => ["ortho", "para"]
+                .into_iter()
+                .filter_map(|name| {
+                    let w = crate::system::restrict_weights(m.weights.clone(), Some(name)).ok()?;
+                    let top = w.weight(0).max(w.weight(1)).clone();
+                    Some((name.to_string(), u64::try_from(top).unwrap_or(u64::MAX)))
+                })
+                .collect(),
+            _ => Vec::new(),
+        }
+    }
+
+    /// The number of nuclear-spin functions of the equivalent nuclei:
+    /// (2I+1)² for a homonuclear diatomic, 4 for water, 16 for methane;
+    /// 1 without statistics.
     pub fn spin_states(&self) -> u64 {
+        if let Some(p) = &self.polyatomic {
+            return p.rotation.spin_states();
+        }
         match &self.molecule {
             Some(Molecule {
                 twice_spin: Some(t),
@@ -365,6 +532,54 @@ impl Species {
             }) => (*t as u64 + 1).pow(2),
             _ => 1,
         }
+    }
+
+    /// The internal spectrum of the isomer called `name` alone, with its
+    /// spin weights.
+    pub fn internal_isomer(
+        &self,
+        model: VibModel,
+        name: &str,
+    ) -> Result<Box<dyn Spectrum + Send + Sync>> {
+        if let Some(p) = &self.polyatomic {
+            return self.polyatomic_internal(p, Some(name));
+        }
+        let m = self
+            .molecule
+            .as_ref()
+            .filter(|_| self.has_spin_isomers())
+            .ok_or_else(|| molar::no_isomers(self))?;
+        let w = crate::system::restrict_weights(m.weights.clone(), Some(name))?;
+        self.internal(model, Some(w))
+    }
+
+    fn polyatomic_internal(
+        &self,
+        p: &Polyatomic,
+        isomer: Option<&str>,
+    ) -> Result<Box<dyn Spectrum + Send + Sync>> {
+        let modes = OscillatorSpec {
+            freq: p.modes.iter().map(|m| Text::new(m.clone())).collect(),
+            zero_point: false,
+        }
+        .build()?;
+        Ok(Box::new(Product::new(
+            vec![
+                Part {
+                    name: "rotation".into(),
+                    spectrum: p.rotation.spectrum(isomer)?,
+                },
+                Part {
+                    name: "vibration".into(),
+                    spectrum: Box::new(modes),
+                },
+                Part {
+                    name: "electronic".into(),
+                    spectrum: Box::new(self.electronic.clone()),
+                },
+            ],
+            Some(EnergyUnit::Wavenumber),
+        )?))
     }
 
     /// Molar mass in kg/mol, exact.
@@ -379,6 +594,9 @@ impl Species {
         model: VibModel,
         weights: Option<ParityWeights>,
     ) -> Result<Box<dyn Spectrum + Send + Sync>> {
+        if let Some(p) = &self.polyatomic {
+            return self.polyatomic_internal(p, None);
+        }
         let el: Box<dyn Spectrum + Send + Sync> = Box::new(self.electronic.clone());
         let Some(m) = &self.molecule else {
             return Ok(el);
@@ -530,6 +748,37 @@ impl Species {
                 )?);
             }
         }
+        if let (Some(p), Some(top), Some(modes)) = (&self.polyatomic, &f.top, &f.modes) {
+            out.extend(top_constants(n, &top.model, &top.source)?);
+            out.push(SpeciesConstant {
+                quantity: Quantity::SymmetryNumber,
+                value: BigRational::from_integer(p.symmetry_number.into()),
+                written: p.symmetry_number.to_string(),
+                unit: "1".into(),
+                source: Some(format!(
+                    "checked: {} nuclear-spin functions over a mean weight of {} per rotational \
+                     state",
+                    p.rotation.spin_states(),
+                    crate::exact::rational_string(&p.rotation.mean_weight())
+                )),
+            });
+            for m in &modes.freq {
+                let mut words = m.split_whitespace();
+                let (v, u) = (words.next().unwrap_or(""), words.next().unwrap_or(""));
+                let degeneracy = words
+                    .next()
+                    .and_then(|d| d.strip_prefix('x'))
+                    .and_then(|d| d.parse().ok())
+                    .unwrap_or(1);
+                out.push(given(
+                    Quantity::Mode { degeneracy },
+                    "modes.freq",
+                    v,
+                    u,
+                    &modes.source,
+                )?);
+            }
+        }
         for (i, l) in f.electronic.levels.iter().enumerate() {
             out.push(given(
                 Quantity::ElectronicLevel {
@@ -544,6 +793,39 @@ impl Species {
         }
         Ok(out)
     }
+}
+
+/// The energy constants of a top's model description (`"27.88 cm-1"`
+/// fields), in the description's field order.
+fn top_constants(
+    n: &str,
+    model: &crate::models::spec::ModelSpec,
+    source: &str,
+) -> Result<Vec<SpeciesConstant>> {
+    let table = toml::Value::try_from(model)
+        .map_err(|e| field_err(n, "top.model", model.kind(), &e.to_string()))?;
+    let mut out = Vec::new();
+    for (name, v) in table.as_table().into_iter().flatten() {
+        let Some(text) = v.as_str() else { continue };
+        let mut words = text.split_whitespace();
+        let (Some(value), Some(unit), None) = (words.next(), words.next(), words.next()) else {
+            continue;
+        };
+        let Ok(x) = parse_rational(value) else {
+            continue;
+        };
+        if EnergyUnit::parse(unit).is_err() {
+            continue;
+        }
+        out.push(SpeciesConstant {
+            quantity: Quantity::TopConstant { name: name.clone() },
+            value: x,
+            written: value.to_string(),
+            unit: unit.to_string(),
+            source: Some(source.to_string()),
+        });
+    }
+    Ok(out)
 }
 
 /// What one constant of a species is.
@@ -570,6 +852,19 @@ pub enum Quantity {
     We,
     /// The anharmonicity ω_e x_e.
     WeXe,
+    /// A rotational or distortion constant of a polyatomic species' top,
+    /// named as its model description names it (`A`, `B`, `C`, `DJ`).
+    TopConstant {
+        /// The field's name.
+        name: String,
+    },
+    /// The symmetry number of a polyatomic species.
+    SymmetryNumber,
+    /// A harmonic mode's wavenumber, with its degeneracy.
+    Mode {
+        /// 1 for a non-degenerate mode, 2 for a bend of a linear molecule.
+        degeneracy: u32,
+    },
     /// An electronic level's energy, with its label and degeneracy.
     ElectronicLevel {
         /// The level's label, if the file gives one.

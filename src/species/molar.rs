@@ -7,7 +7,6 @@
 use super::Species;
 use crate::error::{Error, ErrorKind, Result};
 use crate::exact::{exact_decimal, rational_string};
-use crate::models::diatomic::ParityWeights;
 use crate::models::ParticleInBox;
 use crate::spectrum::Spectrum;
 use crate::sum::ball::{Ball, RP};
@@ -51,20 +50,33 @@ pub enum Isomer {
     Ortho,
     /// Only the para modification.
     Para,
-    /// Frozen at this ortho fraction.
+    /// Frozen at this ortho fraction (species with exactly two isomers,
+    /// ortho and para).
     Fraction(BigRational),
+    /// Only the isomer of this name, for species whose isomers are named
+    /// otherwise (methane's `meta`); ortho and para are [`Isomer::Ortho`]
+    /// and [`Isomer::Para`].
+    Named(String),
 }
 
 impl Isomer {
-    /// Reads `equilibrium`, `normal`, `ortho`, `para` or `fraction=X` (0 ≤ X ≤ 1).
+    /// Reads `equilibrium`, `normal`, `ortho`, `para`, `fraction=X`
+    /// (0 ≤ X ≤ 1) or another isomer's name (`meta`: a word of at most 16
+    /// lowercase letters; the species checks it).
     pub fn parse(text: &str) -> Result<Self> {
         Ok(match text {
             "equilibrium" => Isomer::Equilibrium,
             "normal" => Isomer::Normal,
             "ortho" => Isomer::Ortho,
             "para" => Isomer::Para,
+            name if (1..=16).contains(&name.len())
+                && name.bytes().all(|b| b.is_ascii_lowercase()) =>
+            {
+                Isomer::Named(name.to_string())
+            }
             other => {
-                let allowed = "equilibrium, normal, ortho, para or fraction=X with 0 <= X <= 1";
+                let allowed = "equilibrium, normal, ortho, para, an isomer's name (meta) or \
+                               fraction=X with 0 <= X <= 1";
                 let x = other
                     .strip_prefix("fraction=")
                     .ok_or_else(|| Error::parse("isomer", other, allowed))?;
@@ -86,6 +98,16 @@ impl Isomer {
     /// each isomer then keeps its own lowest level as its energy zero.
     pub fn is_frozen(&self) -> bool {
         !matches!(self, Isomer::Equilibrium)
+    }
+
+    /// The one isomer this state keeps, by name (`None` for mixtures).
+    pub fn single(&self) -> Option<&str> {
+        match self {
+            Isomer::Ortho => Some("ortho"),
+            Isomer::Para => Some("para"),
+            Isomer::Named(n) => Some(n),
+            _ => None,
+        }
     }
 }
 
@@ -434,38 +456,52 @@ fn xlnx(x: &Ball) -> Ball {
     ln(x).mul(x)
 }
 
-/// The spin isomers' weights `(ortho, para)` of a species.
-pub(crate) fn isomer_weights(sp: &Species) -> Result<(ParityWeights, ParityWeights)> {
-    let m = sp
-        .molecule
-        .as_ref()
-        .filter(|_| sp.has_spin_isomers())
-        .ok_or_else(|| {
-            Error::invalid(
-            "isomer",
-            &sp.name,
-            "only homonuclear molecules with nuclear spin (H2, D2, N2) have ortho and para forms",
-        )
-        })?;
-    let o = crate::system::restrict_weights(m.weights.clone(), Some("ortho"))?;
-    let pw = crate::system::restrict_weights(m.weights.clone(), Some("para"))?;
-    Ok((o, pw))
+/// One spin isomer's internal part, from the common energy zero (the
+/// lowest level of the whole species).
+pub(crate) struct IsomerPart {
+    /// The isomer's name (`ortho`, `para`, `meta`).
+    pub name: String,
+    /// Its internal functions, with its spin weights in every level.
+    pub part: Part,
+    /// Its number of nuclear-spin functions (3 for ortho-H2).
+    pub w: u64,
+    /// Its lowest level above the common zero, in units of kT: subtracted
+    /// from its H/RT when the composition is frozen, so that each isomer
+    /// keeps its own lowest level as its energy zero.
+    pub zero: Ball,
 }
 
 /// Internal parts of the equilibrium mixture and of each isomer, with the
 /// common energy zero (the equilibrium ground level).
 pub(crate) struct IsomerParts {
     pub eq: Part,
-    pub ortho: Part,
-    pub para: Part,
-    /// Spin weights of the ortho and para parities.
-    pub w_ortho: u64,
-    pub w_para: u64,
-    /// Each isomer's lowest level above the common zero, in units of kT:
-    /// subtracted from its H/RT when the composition is frozen, so that
-    /// each isomer keeps its own lowest level as its energy zero.
-    pub ortho_zero: Ball,
-    pub para_zero: Ball,
+    /// The isomers in the species' order (ortho before para).
+    pub isomers: Vec<IsomerPart>,
+    /// Each isomer's equilibrium fraction q_i/q.
+    pub eq_fractions: Vec<Ball>,
+}
+
+impl IsomerParts {
+    /// The isomer called `name`.
+    pub fn get(&self, name: &str) -> Option<&IsomerPart> {
+        self.isomers.iter().find(|i| i.name == name)
+    }
+
+    /// The high-temperature (statistical) fractions w_i / Σ w.
+    pub fn normal_fractions(&self, prec: u32) -> Vec<Ball> {
+        let total: u64 = self.isomers.iter().map(|i| i.w).sum();
+        let mut x: Vec<Ball> = self
+            .isomers
+            .iter()
+            .map(|i| div(&exact(prec, i.w), &exact(prec, total)))
+            .collect();
+        if x.len() == 2 {
+            // Two isomers: the second is 1 − x exactly as the mixture's
+            // formulas write it.
+            x[1] = exact(prec, 1u32).sub(&x[0]);
+        }
+        x
+    }
 }
 
 /// A species' internal spectra: the whole and, for species with spin
@@ -474,29 +510,19 @@ type Owned = Box<dyn Spectrum + Send + Sync>;
 
 pub(crate) struct Spectra {
     full: Owned,
-    /// Ortho and para spectra with their spin weights.
-    iso: Option<(Owned, Owned, u64, u64)>,
+    /// Each isomer's name, spectrum (with its spin weights) and number of
+    /// nuclear-spin functions; empty without isomers.
+    iso: Vec<(String, Owned, u64)>,
 }
 
 impl Spectra {
     pub fn new(sp: &Species, model: VibModel) -> Result<Self> {
         let full = sp.internal(model, None)?;
-        let iso = if sp.has_spin_isomers() {
-            let (o, pw) = isomer_weights(sp)?;
-            let w = |x: &ParityWeights| -> u64 {
-                let v = x.weight(0).max(x.weight(1)).clone();
-                u64::try_from(v).unwrap_or(u64::MAX)
-            };
-            let (wo, wp) = (w(&o), w(&pw));
-            Some((
-                sp.internal(model, Some(o))?,
-                sp.internal(model, Some(pw))?,
-                wo,
-                wp,
-            ))
-        } else {
-            None
-        };
+        let mut iso = Vec::new();
+        for (name, w) in sp.isomers() {
+            let s = sp.internal_isomer(model, &name)?;
+            iso.push((name, s, w));
+        }
         Ok(Spectra { full, iso })
     }
 
@@ -506,16 +532,28 @@ impl Spectra {
             full: Cached::new(self.full.as_ref()),
             iso: self
                 .iso
-                .as_ref()
-                .map(|(o, p, wo, wp)| (Cached::new(o.as_ref()), Cached::new(p.as_ref()), *wo, *wp)),
+                .iter()
+                .map(|(n, s, w)| (n.clone(), Cached::new(s.as_ref()), *w))
+                .collect(),
         }
     }
 }
 
-/// [`Spectra`] with level caches.
+/// [`Spectra`] with level caches (clones share them).
+#[derive(Clone)]
 pub(crate) struct CachedSpectra<'a> {
     full: Cached<'a>,
-    iso: Option<(Cached<'a>, Cached<'a>, u64, u64)>,
+    iso: Vec<(String, Cached<'a>, u64)>,
+}
+
+/// The refusal for a species without spin isomers asked for one.
+pub(crate) fn no_isomers(sp: &Species) -> Error {
+    Error::invalid(
+        "isomer",
+        &sp.name,
+        "only molecules with nuclear-spin isomers (H2, D2, N2, H2O, NH3, CH4, ...) have isomer \
+         states; `zsum species list` says which",
+    )
 }
 
 pub(crate) fn isomer_parts(
@@ -524,50 +562,83 @@ pub(crate) fn isomer_parts(
     t: &BigRational,
     digits: u32,
 ) -> Result<IsomerParts> {
-    let (o, p, wo, wp) = c.iso.as_ref().ok_or_else(|| {
-        Error::invalid(
-            "isomer",
-            &sp.name,
-            "only homonuclear molecules with nuclear spin (H2, D2, N2) have ortho and para forms",
-        )
-    })?;
+    if c.iso.is_empty() {
+        return Err(no_isomers(sp));
+    }
     let zero = c.full.ground_energy();
-    let ortho = internal_part(o, t, &zero, digits)?;
-    let para = internal_part(p, t, &zero, digits)?;
-    let prec = ortho.ln_q.prec();
     let c2 = c2_per_cm();
-    let above = |s: &Cached| ratio_ball(&[&(s.ground_energy() - &zero), &c2], &[t], prec);
-    let (ortho_zero, para_zero) = (above(o), above(p));
-    // The equilibrium mixture from its two isomers (q = q_o + q_p): with
-    // x = q_o/q, U and Cv are the mixture's mean and variance of E/kT,
-    // Cv = x Cv_o + (1 − x) Cv_p + x(1 − x)(U_o − U_p)², from absolute U/kT.
+    let mut isomers = Vec::with_capacity(c.iso.len());
+    for (name, s, w) in &c.iso {
+        let part = internal_part(s, t, &zero, digits)?;
+        let prec = part.ln_q.prec();
+        let above = ratio_ball(&[&(s.ground_energy() - &zero), &c2], &[t], prec);
+        isomers.push(IsomerPart {
+            name: name.clone(),
+            part,
+            w: *w,
+            zero: above,
+        });
+    }
+    let prec = isomers[0].part.ln_q.prec();
     let one = exact(prec, 1u32);
-    let d = para.ln_q.sub(&ortho.ln_q);
-    let x = div(&one, &exp(&d).add(&one));
-    let one_x = one.sub(&x);
-    let ln_q = ortho.ln_q.sub(&ln(&x));
-    let (uo, up) = (ortho.s.sub(&ortho.ln_q), para.s.sub(&para.ln_q));
-    let u = x.mul(&uo).add(&one_x.mul(&up));
-    let gap = uo.sub(&up);
-    let cv = x
-        .mul(&ortho.cv)
-        .add(&one_x.mul(&para.cv))
-        .add(&x.mul(&one_x).mul(&gap.mul(&gap)));
-    let h = x.mul(&ortho.h).add(&one_x.mul(&para.h));
-    let eq = Part {
-        s: ln_q.add(&u),
-        h,
-        cv,
-        ln_q,
+    let (eq, eq_fractions) = if let [o, p] = &isomers[..] {
+        // Two isomers (q = q_o + q_p): with x = q_o/q, U and Cv are the
+        // mixture's mean and variance of E/kT, Cv = x Cv_o + (1 − x) Cv_p
+        // + x(1 − x)(U_o − U_p)², from absolute U/kT.
+        let (ortho, para) = (&o.part, &p.part);
+        let d = para.ln_q.sub(&ortho.ln_q);
+        let x = div(&one, &exp(&d).add(&one));
+        let one_x = one.sub(&x);
+        let ln_q = ortho.ln_q.sub(&ln(&x));
+        let (uo, up) = (ortho.s.sub(&ortho.ln_q), para.s.sub(&para.ln_q));
+        let u = x.mul(&uo).add(&one_x.mul(&up));
+        let gap = uo.sub(&up);
+        let cv = x
+            .mul(&ortho.cv)
+            .add(&one_x.mul(&para.cv))
+            .add(&x.mul(&one_x).mul(&gap.mul(&gap)));
+        let h = x.mul(&ortho.h).add(&one_x.mul(&para.h));
+        let eq = Part {
+            s: ln_q.add(&u),
+            h,
+            cv,
+            ln_q,
+        };
+        (eq, vec![x, one_x])
+    } else {
+        // Any number of isomers: x_i = q_i/q from ln q_i − ln q_0, then
+        // U = Σ x_i U_i, Cv = Σ x_i Cv_i + Σ x_i (U_i − U)².
+        let base = &isomers[0].part.ln_q;
+        let rel: Vec<Ball> = isomers
+            .iter()
+            .map(|i| exp(&i.part.ln_q.sub(base)))
+            .collect();
+        let total = rel[1..].iter().fold(rel[0].clone(), |a, r| a.add(r));
+        let x: Vec<Ball> = rel.iter().map(|r| div(r, &total)).collect();
+        let ln_q = base.add(&ln(&total));
+        let us: Vec<Ball> = isomers.iter().map(|i| i.part.s.sub(&i.part.ln_q)).collect();
+        let weighted = |f: &dyn Fn(usize) -> Ball| {
+            (1..x.len()).fold(x[0].mul(&f(0)), |a, k| a.add(&x[k].mul(&f(k))))
+        };
+        let u = weighted(&|k| us[k].clone());
+        let spread = weighted(&|k| {
+            let d = us[k].sub(&u);
+            d.mul(&d)
+        });
+        let cv = weighted(&|k| isomers[k].part.cv.clone()).add(&spread);
+        let h = weighted(&|k| isomers[k].part.h.clone());
+        let eq = Part {
+            s: ln_q.add(&u),
+            h,
+            cv,
+            ln_q,
+        };
+        (eq, x)
     };
     Ok(IsomerParts {
         eq,
-        ortho,
-        para,
-        w_ortho: *wo,
-        w_para: *wp,
-        ortho_zero,
-        para_zero,
+        isomers,
+        eq_fractions,
     })
 }
 
@@ -687,69 +758,102 @@ pub(crate) fn molar_with(
     let mut degeneracy = degeneracy(sp, t, o)?;
     let tr = translation(&sp.mass_kg, t, o)?;
     let one = exact(p, 1u32);
-    let (int_s, int_s_total, int_h, int_cv, ortho) =
-        match (&o.isomer, sp.has_spin_isomers()) {
-            (Some(_), false) => return Err(Error::invalid(
-                "isomer",
-                &sp.name,
-                "only homonuclear molecules with nuclear spin (H2, D2, N2) have ortho and para \
-                 forms",
-            )),
-            (None, false) => {
-                let s = &cached.full;
-                let part = internal_part(s, t, &s.ground_energy(), o.digits)?;
-                let g = ln(&exact(p, sp.spin_states()));
-                let conv = part.s.sub(&g);
-                (conv, part.s, part.h, part.cv, None)
-            }
-            (iso, true) => {
-                let ip = isomer_parts(sp, cached, t, o.digits)?;
-                // Equilibrium ortho fraction q_o/q.
-                let d = ip.para.ln_q.sub(&ip.ortho.ln_q);
-                let x_eq = div(&one, &exp(&d).add(&one));
-                let (wo, wp) = (ip.w_ortho, ip.w_para);
-                let frozen = |x: Ball| {
-                    let one_x = one.sub(&x);
-                    let mix = xlnx(&x).add(&xlnx(&one_x));
-                    let total = x.mul(&ip.ortho.s).add(&one_x.mul(&ip.para.s)).sub(&mix);
-                    let so = ip.ortho.s.sub(&ln(&exact(p, wo)));
-                    let spp = ip.para.s.sub(&ln(&exact(p, wp)));
-                    let conv = x.mul(&so).add(&one_x.mul(&spp));
-                    // Frozen: each isomer from its own lowest level.
-                    let h = x
-                        .mul(&ip.ortho.h.sub(&ip.ortho_zero))
-                        .add(&one_x.mul(&ip.para.h.sub(&ip.para_zero)));
-                    let cv = x.mul(&ip.ortho.cv).add(&one_x.mul(&ip.para.cv));
-                    (conv, total, h, cv, Some(x))
+    let has_isomers = !cached.iso.is_empty();
+    let (int_s, int_s_total, int_h, int_cv, ortho) = match (&o.isomer, has_isomers) {
+        (Some(_), false) => return Err(no_isomers(sp)),
+        (None, false) => {
+            let s = &cached.full;
+            let part = internal_part(s, t, &s.ground_energy(), o.digits)?;
+            let g = ln(&exact(p, sp.spin_states()));
+            let conv = part.s.sub(&g);
+            (conv, part.s, part.h, part.cv, None)
+        }
+        (iso, true) => {
+            let ip = isomer_parts(sp, cached, t, o.digits)?;
+            let ortho_at = |x: &[Ball]| {
+                ip.isomers
+                    .iter()
+                    .position(|i| i.name == "ortho")
+                    .map(|k| x[k].clone())
+            };
+            // A frozen composition with fractions x_i: S without spin is
+            // Σ x_i (S_i − ln w_i), S_total adds the mixing −Σ x_i ln x_i,
+            // and each isomer keeps its own lowest level as H0.
+            let frozen = |x: Vec<Ball>| {
+                let sum = |f: &dyn Fn(&IsomerPart) -> Ball| {
+                    let mut terms = ip.isomers.iter().zip(&x).map(|(i, xi)| xi.mul(&f(i)));
+                    let first = terms.next().expect("a species with isomers has one");
+                    terms.fold(first, |a, b| a.add(&b))
                 };
-                match iso.clone().unwrap_or_default() {
-                    Isomer::Equilibrium => {
-                        let g = ln(&exact(p, sp.spin_states()));
-                        let conv = ip.eq.s.sub(&g);
-                        (
-                            conv,
-                            ip.eq.s.clone(),
-                            ip.eq.h.clone(),
-                            ip.eq.cv.clone(),
-                            Some(x_eq),
-                        )
-                    }
-                    Isomer::Normal => frozen(div(&exact(p, wo), &exact(p, wo + wp))),
-                    Isomer::Ortho => frozen(exact(p, 1u32)),
-                    Isomer::Para => frozen(exact(p, 0u32)),
-                    Isomer::Fraction(x) => frozen(rational_ball(&x, p)),
+                let mix = x[1..].iter().fold(xlnx(&x[0]), |a, xi| a.add(&xlnx(xi)));
+                let total = sum(&|i| i.part.s.clone()).sub(&mix);
+                let conv = sum(&|i| i.part.s.sub(&ln(&exact(p, i.w))));
+                let h = sum(&|i| i.part.h.sub(&i.zero));
+                let cv = sum(&|i| i.part.cv.clone());
+                let ortho = ortho_at(&x);
+                (conv, total, h, cv, ortho)
+            };
+            let only = |name: &str| -> Result<Vec<Ball>> {
+                if ip.get(name).is_none() {
+                    let names: Vec<&str> = ip.isomers.iter().map(|i| i.name.as_str()).collect();
+                    return Err(Error::invalid(
+                        "isomer",
+                        name,
+                        &format!(
+                            "{} has the isomers {}; or give equilibrium or normal",
+                            sp.name,
+                            names.join(", ")
+                        ),
+                    ));
                 }
+                Ok(ip
+                    .isomers
+                    .iter()
+                    .map(|i| exact(p, u32::from(i.name == name)))
+                    .collect())
+            };
+            match iso.clone().unwrap_or_default() {
+                Isomer::Equilibrium => {
+                    let g = ln(&exact(p, sp.spin_states()));
+                    let conv = ip.eq.s.sub(&g);
+                    (
+                        conv,
+                        ip.eq.s.clone(),
+                        ip.eq.h.clone(),
+                        ip.eq.cv.clone(),
+                        ortho_at(&ip.eq_fractions),
+                    )
+                }
+                Isomer::Normal => frozen(ip.normal_fractions(p)),
+                Isomer::Fraction(x) => {
+                    if ip.isomers.len() != 2 || ip.isomers[0].name != "ortho" {
+                        return Err(Error::invalid(
+                            "isomer",
+                            format!("fraction={}", exact_decimal(&x, 20)),
+                            &format!(
+                                "an ortho fraction needs a species with ortho and para alone; \
+                                 {} has {} isomers: give one of them by name, equilibrium or \
+                                 normal",
+                                sp.name,
+                                ip.isomers.len()
+                            ),
+                        ));
+                    }
+                    let x = rational_ball(&x, p);
+                    let one_x = one.sub(&x);
+                    frozen(vec![x, one_x])
+                }
+                single => frozen(only(single.single().unwrap_or_default())?),
             }
-        };
+        }
+    };
     let s = tr.s.add(&int_s);
     let s_total = tr.s.add(&int_s_total);
     let h = tr.h.add(&int_h);
     let cv = tr.cv.add(&int_cv);
     let r = rational_ball(&o.basis.per_k(sp), p);
     let rt = r.mul(&rational_ball(t, p));
-    let isomer = sp
-        .has_spin_isomers()
-        .then(|| o.isomer.clone().unwrap_or_default());
+    let isomer = has_isomers.then(|| o.isomer.clone().unwrap_or_default());
     let cp = cv.add(&one);
     let g = s.sub(&h);
     // A negative entropy is never printed unflagged.
@@ -820,7 +924,8 @@ impl MolarGrid {
         let mut order: Vec<usize> = (0..grid.len()).collect();
         order.sort_by(|a, b| grid[*b].cmp(&grid[*a]));
         let mut rows: Vec<Option<MolarValues>> = vec![None; grid.len()];
-        let cached = || spectra.cached();
+        let shared = spectra.cached();
+        let cached = || shared.clone();
         let work = |c: &_, i: usize, _: Option<(&crate::budget::Meter, f64)>| {
             molar_with(sp, c, &grid[i], o)
         };

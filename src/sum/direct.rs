@@ -289,7 +289,7 @@ fn stats_from(
                 let x = Float::with_val(prec, &excitation) * &beta_r;
                 let shift = match &l.enclosure {
                     None => 0.0,
-                    Some(e) => (e.radius().to_f64().unwrap_or(f64::INFINITY) * beta_f) * 1.01,
+                    Some(e) => (e.radius_f64() * beta_f) * 1.01,
                 };
                 (x, big(&l.degeneracy), shift)
             });

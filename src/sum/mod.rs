@@ -571,12 +571,14 @@ pub fn thermo_metered(
 /// later temperatures take the part of the list they need.
 ///
 /// A product's parts are summed separately by the engine, so each part is
-/// wrapped (and cached) in turn.
+/// wrapped (and cached) in turn. Clones share the store: the cores of a
+/// sweep list each spectrum once between them.
+#[derive(Clone)]
 pub struct Cached<'a> {
     inner: &'a dyn Spectrum,
     /// The widest listing so far: its cutoff, its precision in bits and
     /// its levels.
-    store: std::sync::Mutex<Option<(BigRational, u32, crate::level::LevelList)>>,
+    store: std::sync::Arc<std::sync::Mutex<Option<(BigRational, u32, crate::level::LevelList)>>>,
     parts: Option<Vec<(Cached<'a>, BigRational)>>,
 }
 
@@ -591,7 +593,7 @@ impl<'a> Cached<'a> {
         };
         Cached {
             inner,
-            store: std::sync::Mutex::new(None),
+            store: std::sync::Arc::new(std::sync::Mutex::new(None)),
             parts,
         }
     }
