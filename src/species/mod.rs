@@ -40,6 +40,7 @@ pub mod hydrogen;
 pub mod liquefier;
 mod molar;
 pub mod poly;
+pub mod spin;
 
 use crate::error::{Error, ErrorKind, Result};
 use crate::exact::parse_rational;

@@ -344,7 +344,7 @@ fn ln(b: &Ball) -> Ball {
 
 /// e to a ball (unbounded where it leaves MPFR's range or the radius is 1
 /// or more).
-fn exp(b: &Ball) -> Ball {
+pub(crate) fn exp(b: &Ball) -> Ball {
     b.exp()
         .unwrap_or_else(|| unbounded(Float::with_val(b.prec(), b.c.exp_ref())))
 }
