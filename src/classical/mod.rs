@@ -15,8 +15,8 @@
 //! | --- | --- | --- |
 //! | box, `E = Σ w_i n_i²` | `Π_i Σ_n e^{−w_i n²/t}` | classical `Π c_i`, `c_i = sqrt(π t/(4 w_i))` (V/Λ³); then the boundary terms of `Π (c_i − 1/2)` by order: 1D *euler-maclaurin*; 2D *perimeter*, *euler-maclaurin*; 3D *surface*, *edges*, *euler-maclaurin*. The full product is Euler–Maclaurin per axis, exact up to terms of order e^{−π² t/w} |
 //! | linear rotor, `E = B J(J+1)`, parity weights g_e, g_o | `Σ g_J (2J+1) e^{−y J(J+1)}`, y = B/t | classical `ḡ/y` with ḡ = (g_e+g_o)/2 (T/σθ for a homonuclear molecule); Mulholland `ḡ(1/y + 1/3 + y/15 + 4y²/315 + y³/315)` truncated after 1, 2, 3, 4 corrections |
-//! | symmetric top, B and unique constant A (or C) | `Σ_J Σ_{|K|≤J} (2J+1) e^{−(B J(J+1) + (A−B)K²)/t}` | classical `sqrt(π t³/(A B²))`; *first*: `× [1 + (B/12t)(4 − B/A)]` |
-//! | spherical top | `Σ (2J+1)² e^{−B J(J+1)/t}` | classical `sqrt(π t³/B³)`; *first*: `× (1 + B/4t)`; *exponential*: `× e^{B/4t}`, exact up to exponentially small terms |
+//! | symmetric top, B and unique constant A (or C), spin weights g(J, K) of mean ḡ, inversion splitting Δ | `Σ_J Σ_{|K|≤J} g (2J+1) e^{−(B J(J+1) + (A−B)K²)/t}` | classical `ḡ sqrt(π t³/(A B²))` (times `(1 + e^{−Δ/t})/2` with a splitting); *first*: `× [1 + (B/12t)(4 − B/A)]` |
+//! | spherical top, spin weights g(J) of mean ḡ per rotational state | `Σ g(J) (2J+1) e^{−B J(J+1)/t}` | classical `ḡ sqrt(π t³/B³)`; *first*: `× (1 + B/4t)`; *exponential*: `× e^{B/4t}`, exact up to exponentially small terms |
 //! | harmonic modes ω (no zero point) | `Π 1/(1 − e^{−x})`, x = ω/t | classical `1/x`; `1/x + 1/2 + x/12 − x³/720 + x⁵/30240` by order (*order1* … *order4*) |
 //! | harmonic modes with zero point | `Π 1/(2 sinh(x/2))` | classical `1/x`; `1/x − x/24 + 7x³/5760 − 31x⁵/967680` by order |
 //! | products, diatomics | independent parts | *classical* (every part classical), *first* (every part's first correction), *best* (every part's highest order) |
@@ -26,7 +26,15 @@
 //! Euler–Maclaurin for the box; the symmetric-top correction as in standard
 //! texts, from memory); each is checked against the exact sums in the tests.
 //! The rotor and top forms are rigid: centrifugal distortion is what the
-//! exact sum adds. A vibrating rotor is approximated as a rigid rotor with
+//! exact sum adds. A top's spin weights enter as their mean ḡ: the
+//! weights differ from ḡ by terms periodic in J and K with mean zero (the
+//! characters of the non-identity rotations, `(−1)^J` and the like), whose
+//! Gaussian-weighted sums are exponentially small at high temperature
+//! (Poisson summation: only non-zero frequencies remain): for the
+//! spherical top below every correction, as `tests/spin_species.rs`
+//! checks; for the symmetric top, periodic in K, about e^{−π² kT/9A}, A
+//! the unique constant (measured there), below the first correction once
+//! kT is a few times 9A/π². A vibrating rotor is approximated as a rigid rotor with
 //! B_0 = B_e − α_e/2 times harmonic vibration with the fundamental
 //! G(1) − G(0), energies from the true ground level.
 
@@ -41,7 +49,7 @@ use crate::units::EnergyUnit;
 use jet::{Jet, PREC};
 use num_bigint::BigUint;
 use num_rational::BigRational;
-use num_traits::Zero;
+use num_traits::{One, Zero};
 use rug::Float;
 use serde::Serialize;
 
@@ -58,12 +66,17 @@ pub(crate) enum Form {
     /// `E = b J(J+1)` with `(2J+1)·w(J mod 2)` states, weights `[even, odd]`.
     Rotor(BigRational, [BigUint; 2]),
     /// `E = b J(J+1) + (u − b) K²`, |K| ≤ J: a symmetric top with unique
-    /// constant `u`.
+    /// constant `u`, each rotational state weighing `weight` on average,
+    /// half of it `inversion` higher.
     Top {
         /// The J(J+1) constant B.
         b: BigRational,
         /// The unique-axis constant (A prolate, C oblate).
         unique: BigRational,
+        /// The mean nuclear-spin weight per rotational state (1 without).
+        weight: BigRational,
+        /// The inversion splitting Δ (zero without one).
+        inversion: BigRational,
     },
     /// An asymmetric top with constants A ≥ B ≥ C and the mean `wbar` of
     /// its four symmetry classes' spin weights.
@@ -74,8 +87,9 @@ pub(crate) enum Form {
         /// for weights 1 and 0).
         wbar: BigRational,
     },
-    /// `E = b J(J+1)` with `(2J+1)²` states.
-    Spherical(BigRational),
+    /// `E = b J(J+1)` with `(2J+1)²` rotational states, each weighing the
+    /// mean nuclear-spin weight (the second field, 1 without).
+    Spherical(BigRational, BigRational),
     /// Harmonic modes `(ω, degeneracy)`, with or without zero-point energy.
     Harmonic(Vec<(BigRational, u32)>, bool),
     /// Independent parts, each with the size of its unit in the whole's unit.
@@ -116,6 +130,23 @@ fn approx(name: &str, description: &str) -> Approximation {
     Approximation {
         name: name.to_string(),
         description: description.to_string(),
+    }
+}
+
+/// Adds the spin-weight factor to each description of a top's
+/// approximations, where there is one (`weight` ≠ 1 or an inversion
+/// splitting); the descriptions of unweighted tops stay as they were.
+fn weighted(
+    out: &mut [Approximation],
+    weight: &BigRational,
+    inversion: &BigRational,
+    factor: &str,
+) {
+    if weight.is_one() && inversion.is_zero() {
+        return;
+    }
+    for a in out {
+        a.description = format!("{}; × {factor}", a.description);
     }
 }
 
@@ -163,8 +194,18 @@ impl Form {
             // The approximations are those of the rigid rotor; centrifugal
             // terms are what the exact sum adds.
             Structure::Rotor { b, weights, .. } => Form::Rotor(b, weights),
-            Structure::Top { b, unique } => Form::Top { b, unique },
-            Structure::Spherical(b) => Form::Spherical(b),
+            Structure::Top {
+                b,
+                unique,
+                weight,
+                inversion,
+            } => Form::Top {
+                b,
+                unique,
+                weight,
+                inversion,
+            },
+            Structure::Spherical(l) => Form::Spherical(l.b, l.weight),
             Structure::Asymmetric { abc, weights } => {
                 let sum: BigUint = weights.iter().sum();
                 Form::Asymmetric {
@@ -251,13 +292,25 @@ impl Form {
                 }
                 out
             }
-            Form::Top { .. } => vec![
-                approx("classical", "sqrt(π (kT)³/(A B²)), A the unique constant"),
-                approx(
-                    "first",
-                    "classical × [1 + (B/12kT)(4 − B/A)]: first quantum correction",
-                ),
-            ],
+            Form::Top {
+                weight, inversion, ..
+            } => {
+                let mut out = vec![
+                    approx("classical", "sqrt(π (kT)³/(A B²)), A the unique constant"),
+                    approx(
+                        "first",
+                        "classical × [1 + (B/12kT)(4 − B/A)]: first quantum correction",
+                    ),
+                ];
+                let factor = if inversion.is_zero() {
+                    "ḡ, the mean spin weight per rotational state"
+                } else {
+                    "ḡ (1 + e^{−Δ/kT})/2, ḡ the mean spin weight per rotational state and Δ \
+                     the inversion splitting"
+                };
+                weighted(&mut out, weight, inversion, factor);
+                out
+            }
             Form::Asymmetric { .. } => vec![
                 approx(
                     "classical",
@@ -269,14 +322,23 @@ impl Form {
                      correction",
                 ),
             ],
-            Form::Spherical(_) => vec![
-                approx("classical", "sqrt(π (kT/B)³)"),
-                approx("first", "classical × (1 + B/4kT)"),
-                approx(
-                    "exponential",
-                    "classical × e^{B/4kT}: exact up to exponentially small terms",
-                ),
-            ],
+            Form::Spherical(_, weight) => {
+                let mut out = vec![
+                    approx("classical", "sqrt(π (kT/B)³)"),
+                    approx("first", "classical × (1 + B/4kT)"),
+                    approx(
+                        "exponential",
+                        "classical × e^{B/4kT}: exact up to exponentially small terms",
+                    ),
+                ];
+                weighted(
+                    &mut out,
+                    weight,
+                    &BigRational::zero(),
+                    "ḡ, the mean spin weight per rotational state",
+                );
+                out
+            }
             Form::Harmonic(_, zp) => {
                 let mut out = vec![approx("classical", "kT/ω per mode")];
                 let terms: &[&str] = if *zp {
@@ -311,7 +373,7 @@ impl Form {
     pub fn theta(&self) -> BigRational {
         match self {
             Form::Squares(ws) => ws.iter().min().cloned().unwrap_or_else(BigRational::zero),
-            Form::Rotor(b, _) | Form::Spherical(b) | Form::Top { b, .. } => b.clone(),
+            Form::Rotor(b, _) | Form::Spherical(b, _) | Form::Top { b, .. } => b.clone(),
             Form::Asymmetric { abc, .. } => abc[1].clone(),
             Form::Harmonic(modes, _) => modes
                 .iter()
@@ -386,11 +448,21 @@ impl Form {
                 let q = y.powf(-1.0).add(&y.poly(&c)).scale(&gbar);
                 q.ln()
             }
-            Form::Top { b, unique } => {
+            Form::Top {
+                b,
+                unique,
+                weight,
+                inversion,
+            } => {
                 let (bf, uf) = (to_float(b), to_float(unique));
                 let pi = Float::with_val(PREC, rug::float::Constant::Pi);
                 let k = pi / (Float::with_val(PREC, &uf * &bf) * &bf);
-                let mut q = t.powf(3.0).scale(&k).powf(0.5);
+                let mut q = t.powf(3.0).scale(&k).powf(0.5).scale(&to_float(weight));
+                if !inversion.is_zero() {
+                    // Half the weight lies Δ higher: × (1 + e^{−Δ/t})/2.
+                    let upper = t.powf(-1.0).scale(&-to_float(inversion)).exp();
+                    q = q.mul(&upper.add_const(&fl(1.0)).scale(&fl(0.5)));
+                }
                 if index >= 1 {
                     let ratio = Float::with_val(PREC, &bf / &uf);
                     let coef = (fl(4.0) - ratio) * &bf / 12u32;
@@ -416,11 +488,11 @@ impl Form {
                 }
                 q.ln()
             }
-            Form::Spherical(b) => {
+            Form::Spherical(b, weight) => {
                 let bf = to_float(b);
                 let pi = Float::with_val(PREC, rug::float::Constant::Pi);
                 let x = t.powf(-1.0).scale(&bf);
-                let mut q = x.powf(-3.0).scale(&pi).powf(0.5);
+                let mut q = x.powf(-3.0).scale(&pi).powf(0.5).scale(&to_float(weight));
                 let quarter = x.scale(&fl(0.25));
                 match index {
                     0 => {}

@@ -11,6 +11,7 @@ pub mod particle_box;
 pub mod product;
 pub mod rotor;
 pub mod spec;
+pub mod spin_species;
 
 pub mod zeeman;
 

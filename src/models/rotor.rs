@@ -11,6 +11,16 @@
 //! spherical:  E(J)    = B x − D x²,                     g = (2J+1)²
 //! ```
 //!
+//! # Nuclear-spin statistics
+//! [`SphericalTop::with_spin_statistics`] (four equivalent nuclei,
+//! methane-like) gives level J the weight (2J+1)·[a·m_A + e·2·m_E + f·m_F]
+//! instead of (2J+1)², and [`SymmetricTop::with_three_fold_spin`] (three
+//! equivalent nuclei on the top's axis, ammonia-like) weighs each (J, |K|)
+//! level by its K class and, with an inversion splitting, splits it into
+//! two components; both derived in [`crate::models::spin_species`]. Each
+//! model lists its spin isomers (`isomers`) and keeps one (`with_isomer`).
+//! Energies are those of the top without statistics.
+//!
 //! # Where the energy stops increasing
 //! A positive D makes E(J) fall again for large J; past that point the
 //! expansion means nothing. zsum lists levels only while E(J+1) > E(J) and,
@@ -21,11 +31,16 @@ use crate::error::{Error, Result};
 use crate::exact::exact_decimal;
 use crate::level::{Level, LevelList};
 use crate::models::diatomic::ParityWeights;
-use crate::spectrum::{check_cutoff, Budget, Spectrum, State, Structure};
+pub use crate::models::spin_species::IsomerInfo;
+use crate::models::spin_species::{
+    multiplet_weight, rotation_species_t, spherical_weight, tetrahedral_spin, three_fold_spin,
+    three_fold_weight, S3Species, TClass, TSpecies, ThreeFoldClass,
+};
+use crate::spectrum::{check_cutoff, Budget, Spectrum, SphericalLadder, State, Structure};
 use crate::units::EnergyUnit;
 use num_bigint::{BigInt, BigUint};
 use num_rational::BigRational;
-use num_traits::{Signed, ToPrimitive, Zero};
+use num_traits::{One, Signed, ToPrimitive, Zero};
 
 /// The rungs kept and, if the ladder turned over, the last J before it did.
 pub(crate) type Rungs = (Vec<(u64, BigRational)>, Option<u64>);
@@ -531,6 +546,128 @@ pub struct SymmetricTop {
     djk: BigRational,
     dk: BigRational,
     unit: EnergyUnit,
+    spin: Option<ThreeFold>,
+}
+
+/// Nuclear-spin statistics of three equivalent nuclei on a symmetric top's
+/// axis: the spin-function counts, the inversion splitting (if the two
+/// components are resolved), the isomer kept, and the lowest weighted level.
+#[derive(Debug, Clone, PartialEq, Eq)]
+struct ThreeFold {
+    twice_spin: u32,
+    counts: S3Species,
+    inversion: Option<BigRational>,
+    only: Option<ThreeFoldClass>,
+    ground: BigRational,
+}
+
+impl ThreeFold {
+    /// The spin functions of a class: ortho A1 + A2, para the E pairs' 2·m_E.
+    fn functions(&self, c: ThreeFoldClass) -> u64 {
+        match c {
+            ThreeFoldClass::Ortho => self.counts.a1 + self.counts.a2,
+            ThreeFoldClass::Para => 2 * self.counts.e,
+        }
+    }
+}
+
+/// One weighted (J, |K|) level of a symmetric top, or one inversion
+/// component of it: `w` states per M.
+struct TopTerm {
+    e: BigRational,
+    j: u64,
+    k: u64,
+    inv: Option<i64>,
+    w: u64,
+}
+
+impl TopTerm {
+    fn states(&self) -> BigUint {
+        BigUint::from(2 * self.j + 1) * self.w
+    }
+}
+
+/// `I` written from `2I`: `1/2`, `1`, `3/2`.
+fn spin_text(twice_spin: u32) -> String {
+    if twice_spin % 2 == 0 {
+        (twice_spin / 2).to_string()
+    } else {
+        format!("{twice_spin}/2")
+    }
+}
+
+/// Each isomer's name and spin functions, beside its class.
+fn isomer_table<C: Copy, const N: usize>(
+    classes: [(&'static str, C); N],
+    functions: impl Fn(C) -> u64,
+) -> Vec<(IsomerInfo, C)> {
+    classes
+        .into_iter()
+        .map(|(name, c)| {
+            let spin_functions = functions(c);
+            (
+                IsomerInfo {
+                    name,
+                    spin_functions,
+                },
+                c,
+            )
+        })
+        .collect()
+}
+
+/// The spin functions kept (those of `only`, or all) over the symmetry
+/// number `sigma`: the mean states per rotational state; 1 without
+/// statistics (an empty table).
+fn mean_weight<C: Copy + PartialEq>(
+    table: &[(IsomerInfo, C)],
+    only: Option<C>,
+    sigma: u64,
+) -> BigRational {
+    if table.is_empty() {
+        return BigRational::one();
+    }
+    let kept: u64 = table
+        .iter()
+        .filter(|(_, c)| only.is_none_or(|o| o == *c))
+        .map(|(i, _)| i.spin_functions)
+        .sum();
+    BigRational::new(kept.into(), sigma.into())
+}
+
+/// Refuses a selection without statistics, names an unknown isomer with the
+/// allowed ones, and an isomer without spin functions with the counts.
+fn pick_isomer<C: Copy>(isomers: &[(IsomerInfo, C)], name: &str, nuclei: &str) -> Result<C> {
+    if isomers.is_empty() {
+        return Err(Error::invalid(
+            "spin isomer",
+            name,
+            "this top has no nuclear-spin statistics: give them first (the spin of its equivalent \
+             nuclei)",
+        ));
+    }
+    let names: Vec<String> = isomers
+        .iter()
+        .map(|(i, _)| format!("{} ({} spin functions)", i.name, i.spin_functions))
+        .collect();
+    let Some((info, c)) = isomers.iter().find(|(i, _)| i.name == name) else {
+        return Err(Error::invalid(
+            "spin isomer",
+            name,
+            &format!("{nuclei} have the isomers {}", names.join(", ")),
+        ));
+    };
+    if info.spin_functions == 0 {
+        return Err(Error::invalid(
+            "spin isomer",
+            name,
+            &format!(
+                "{nuclei} have no {name} spin functions, so it has no levels; the isomers are {}",
+                names.join(", ")
+            ),
+        ));
+    }
+    Ok(*c)
 }
 
 impl SymmetricTop {
@@ -577,6 +714,7 @@ impl SymmetricTop {
             djk,
             dk,
             unit,
+            spin: None,
         };
         if top.energy(1, 0) <= top.energy(0, 0) {
             return Err(Error::invalid(
@@ -694,11 +832,226 @@ impl SymmetricTop {
     }
 }
 
+impl SymmetricTop {
+    /// The same top with the nuclear-spin statistics of three equivalent
+    /// nuclei of spin `twice_spin`/2 on its axis (ammonia-like): each
+    /// (J, |K|) level weighs (2J+1) times m_A1 + m_A2 (K = 0),
+    /// 2(m_A1 + m_A2) (K ≡ 0 mod 3, K > 0) or 2·m_E (K ≢ 0 mod 3), the
+    /// two inversion components together (see
+    /// [`crate::models::spin_species`]). With `inversion` = Some(Δ) the
+    /// components are listed apart, the upper one Δ higher (Δ ≥ 0; Δ = 0
+    /// lists exactly the merged levels). Energies are unchanged; a spin
+    /// beyond 2I = 20 or a negative Δ is refused.
+    ///
+    /// ```
+    /// use zsum::models::rotor::{SymmetricTop, TopShape};
+    /// use zsum::spectrum::Spectrum;
+    /// use zsum::exact::parse_rational;
+    /// use zsum::units::EnergyUnit;
+    /// let r = |s: &str| parse_rational(s).unwrap();
+    /// let nh3 = SymmetricTop::rigid(TopShape::Oblate, r("6.2"), r("9.9"), EnergyUnit::Wavenumber)?
+    ///     .with_three_fold_spin(1, Some(r("0.79")))?;
+    /// let l = nh3.levels_up_to(&r("20"))?;
+    /// // (0,0) only as its lower component: 4 spin functions, 1 state each.
+    /// assert_eq!(l.levels()[0].degeneracy, 4u32.into());
+    /// // (1,1) at B + C = 16.1, s and a each 3 × m_E = 3 × 2 states.
+    /// let s = l.iter().find(|x| x.energy == r("16.1")).unwrap();
+    /// assert_eq!(s.degeneracy, 6u32.into());
+    /// // (1,0) at 2B = 19.8 exists only as its upper component, 19.8 + 0.79 > 20.
+    /// assert!(l.iter().all(|x| x.energy != r("19.8")));
+    /// # Ok::<(), zsum::Error>(())
+    /// ```
+    pub fn with_three_fold_spin(
+        mut self,
+        twice_spin: u32,
+        inversion: Option<BigRational>,
+    ) -> Result<Self> {
+        let counts = three_fold_spin(twice_spin)?;
+        if let Some(d) = &inversion {
+            non_negative("inversion splitting", d)?;
+        }
+        self.spin = Some(ThreeFold {
+            twice_spin,
+            counts,
+            inversion,
+            only: None,
+            ground: BigRational::zero(),
+        });
+        self.settle_ground("both isomers")
+    }
+
+    /// The spin isomers: `ortho` (K ≡ 0 mod 3, m_A1 + m_A2 spin functions)
+    /// and `para` (the rest, 2·m_E); none without spin statistics.
+    pub fn isomers(&self) -> Vec<IsomerInfo> {
+        self.isomer_classes().into_iter().map(|(i, _)| i).collect()
+    }
+
+    fn isomer_classes(&self) -> Vec<(IsomerInfo, ThreeFoldClass)> {
+        let Some(sp) = &self.spin else {
+            return Vec::new();
+        };
+        isomer_table(
+            [
+                ("ortho", ThreeFoldClass::Ortho),
+                ("para", ThreeFoldClass::Para),
+            ],
+            |c| sp.functions(c),
+        )
+    }
+
+    /// Only the levels of one spin isomer class, with their weights.
+    pub fn only_isomer(self, class: ThreeFoldClass) -> Result<Self> {
+        let name = match class {
+            ThreeFoldClass::Ortho => "ortho",
+            ThreeFoldClass::Para => "para",
+        };
+        self.with_isomer(name)
+    }
+
+    /// Only the spin isomer `name` (`ortho` or `para`); an unknown name, an
+    /// isomer without spin functions, or a top without statistics is
+    /// refused, naming the isomers there are.
+    pub fn with_isomer(mut self, name: &str) -> Result<Self> {
+        let twice = self.spin.as_ref().map_or(0, |s| s.twice_spin);
+        let nuclei = format!("three nuclei of spin {}", spin_text(twice));
+        let class = pick_isomer(&self.isomer_classes(), name, &nuclei)?;
+        if let Some(sp) = &mut self.spin {
+            sp.only = Some(class);
+        }
+        self.settle_ground(name)
+    }
+
+    /// The mean number of states per rotational state (J, K, M): 1 without
+    /// statistics, (spin functions kept)/3 with them (8/3 for three
+    /// protons, 4/3 for either of their isomers).
+    pub fn mean_spin_weight(&self) -> BigRational {
+        let only = self.spin.as_ref().and_then(|s| s.only);
+        mean_weight(&self.isomer_classes(), only, 3)
+    }
+
+    /// The inversion splitting Δ, if the components are listed apart.
+    pub fn inversion(&self) -> Option<&BigRational> {
+        self.spin.as_ref().and_then(|s| s.inversion.as_ref())
+    }
+
+    /// Finds the lowest weighted level: every candidate lies at or below
+    /// the highest E(J ≤ 2, K) + Δ (K = 0 of the ortho class, |K| = 1 or 2
+    /// of the para class), so the listing up to there holds it.
+    fn settle_ground(mut self, what: &str) -> Result<Self> {
+        let delta = self.inversion().cloned().unwrap_or_else(BigRational::zero);
+        let probe = (0..=2u64)
+            .flat_map(|j| (0..=j).map(move |k| (j, k)))
+            .map(|(j, k)| self.energy(j, k))
+            .max()
+            .unwrap_or_else(BigRational::zero)
+            .max(BigRational::zero())
+            + delta;
+        let (terms, _) = self.weighted(&probe, &Budget::default())?;
+        let Some(ground) = terms.into_iter().map(|t| t.e).min() else {
+            return Err(Error::invalid(
+                "spin isomer",
+                what,
+                "none of its levels is bound: the centrifugal constants end the top's levels \\
+                 before its first one",
+            ));
+        };
+        if let Some(sp) = &mut self.spin {
+            sp.ground = ground;
+        }
+        Ok(self)
+    }
+
+    /// The per-M weights `(s, a)` of the (J, |K|) level, ±K together: the
+    /// number of K signs (and 0) without statistics.
+    fn component_weights(&self, j: u64, k: u64) -> (u64, u64) {
+        match &self.spin {
+            None => (if k == 0 { 1 } else { 2 }, 0),
+            Some(sp) if sp.only.is_some_and(|c| c != ThreeFoldClass::of(k)) => (0, 0),
+            Some(sp) => three_fold_weight(&sp.counts, sp.twice_spin % 2 == 1, j, k),
+        }
+    }
+
+    /// The weighted levels (or inversion components) up to `cutoff`, none
+    /// of weight zero, in row order, and the listing's notes.
+    fn weighted(
+        &self,
+        cutoff: &BigRational,
+        budget: &Budget,
+    ) -> Result<(Vec<TopTerm>, Vec<String>)> {
+        let (rows, notes) = self.rows(cutoff, budget)?;
+        let split = self.inversion();
+        let mut out = Vec::with_capacity(rows.len());
+        for (j, k, e) in rows {
+            let (ws, wa) = self.component_weights(j, k);
+            match split {
+                None => out.push(TopTerm {
+                    e,
+                    j,
+                    k,
+                    inv: None,
+                    w: ws + wa,
+                }),
+                Some(d) => {
+                    let up = &e + d;
+                    out.push(TopTerm {
+                        e,
+                        j,
+                        k,
+                        inv: Some(0),
+                        w: ws,
+                    });
+                    if &up <= cutoff {
+                        out.push(TopTerm {
+                            e: up,
+                            j,
+                            k,
+                            inv: Some(1),
+                            w: wa,
+                        });
+                    }
+                }
+            }
+        }
+        out.retain(|t| t.w > 0);
+        Ok((out, notes))
+    }
+
+    /// The states of one weighted term, as (J, K, M[, inv][, s]). With
+    /// statistics, `s` numbers the spin functions paired with the signed
+    /// K; for a (J, |K| ≡ 0 mod 3 > 0) inversion component, whose two ±K
+    /// combinations pair with the A1 and the A2 spin functions, +K labels
+    /// the first (m_A1 values of s) and −K the second (m_A2).
+    fn term_states(&self, t: &TopTerm, out: &mut Vec<State>) {
+        let (j, k) = (t.j as i64, t.k as i64);
+        let signed: Vec<(i64, u64)> = match (&self.spin, t.inv) {
+            (None, _) if k == 0 => vec![(0, 1)],
+            (None, _) => vec![(-k, 1), (k, 1)],
+            (Some(_), _) if k == 0 => vec![(0, t.w)],
+            (Some(sp), Some(_)) if t.k % 3 == 0 => vec![(-k, sp.counts.a2), (k, sp.counts.a1)],
+            (Some(_), _) => vec![(-k, t.w / 2), (k, t.w / 2)],
+        };
+        for (kk, count) in signed {
+            for m in -j..=j {
+                for s in 1..=count as i64 {
+                    let mut q = vec![j, kk, m];
+                    q.extend(t.inv);
+                    if self.spin.is_some() {
+                        q.push(s);
+                    }
+                    out.push(State(q));
+                }
+            }
+        }
+    }
+}
+
 impl Spectrum for SymmetricTop {
     fn structure(&self) -> Structure<'_> {
         Structure::Top {
             b: self.b.clone(),
             unique: self.unique.clone(),
+            weight: self.mean_spin_weight(),
+            inversion: self.inversion().cloned().unwrap_or_else(BigRational::zero),
         }
     }
 
@@ -707,34 +1060,65 @@ impl Spectrum for SymmetricTop {
             TopShape::Prolate => ("prolate", "A"),
             TopShape::Oblate => ("oblate", "C"),
         };
-        format!(
+        let mut text = format!(
             "{shape} symmetric top, {letter} = {} {u}, B = {} {u}",
             exact_decimal(&self.unique, 30),
             exact_decimal(&self.b, 30),
             u = self.unit
-        )
+        );
+        if let Some(sp) = &self.spin {
+            text += &format!(
+                ", three equivalent nuclei of spin {}",
+                spin_text(sp.twice_spin)
+            );
+            if let Some(d) = &sp.inversion {
+                text += &format!(
+                    ", inversion splitting {} {}",
+                    exact_decimal(d, 30),
+                    self.unit
+                );
+            }
+            match sp.only {
+                Some(ThreeFoldClass::Ortho) => text += ", ortho only (K = 0 mod 3)",
+                Some(ThreeFoldClass::Para) => text += ", para only (K not 0 mod 3)",
+                None => {}
+            }
+        }
+        text
     }
 
     fn unit(&self) -> EnergyUnit {
         self.unit.clone()
     }
 
+    /// `J`, `K`, `M`; with an inversion splitting `inv` (0 for the lower
+    /// "s", 1 for the upper "a" component); with spin statistics `s`, the
+    /// spin function paired with the state (see `term_states`).
     fn quantum_numbers(&self) -> Vec<String> {
-        ["J", "K", "M"].map(String::from).to_vec()
+        let mut q: Vec<String> = ["J", "K", "M"].map(String::from).to_vec();
+        if self.inversion().is_some() {
+            q.push("inv".into());
+        }
+        if self.spin.is_some() {
+            q.push("s".into());
+        }
+        q
     }
 
     fn ground_energy(&self) -> BigRational {
-        BigRational::zero()
+        self.spin
+            .as_ref()
+            .map_or_else(BigRational::zero, |s| s.ground.clone())
     }
 
     fn levels_within(&self, cutoff: &BigRational, budget: &Budget) -> Result<LevelList> {
         check_cutoff(self, cutoff)?;
-        let (rows, _) = self.rows(cutoff, budget)?;
-        let levels = rows
+        let (terms, _) = self.weighted(cutoff, budget)?;
+        let levels = terms
             .into_iter()
-            .map(|(j, k, e)| {
-                let signs = if k == 0 { 1u64 } else { 2 };
-                Level::new(e, BigUint::from(signs * (2 * j + 1)))
+            .map(|t| {
+                let g = t.states();
+                Level::new(t.e, g)
             })
             .collect();
         Ok(LevelList::new(self.unit.clone(), levels))
@@ -744,26 +1128,23 @@ impl Spectrum for SymmetricTop {
         if energy.is_negative() {
             return Ok(Vec::new());
         }
-        let (rows, _) = self.rows(energy, &Budget::default())?;
+        let (terms, _) = self.weighted(energy, &Budget::default())?;
         let mut out = Vec::new();
-        for (j, k, e) in rows {
-            if &e == energy {
-                let (j, k) = (j as i64, k as i64);
-                let ks: Vec<i64> = if k == 0 { vec![0] } else { vec![-k, k] };
-                for kk in ks {
-                    for m in -j..=j {
-                        out.push(State(vec![j, kk, m]));
-                    }
-                }
-            }
+        for t in terms.iter().filter(|t| &t.e == energy) {
+            self.term_states(t, &mut out);
         }
         out.sort();
         Ok(out)
     }
 
-    /// `J` and `K` ≥ 0: one term stands for the ±K pair.
+    /// `J` and `K` ≥ 0 (and `inv` with an inversion splitting): one term
+    /// stands for the ±K pair.
     fn term_numbers(&self) -> Vec<String> {
-        vec!["J".into(), "K".into()]
+        let mut t = vec!["J".into(), "K".into()];
+        if self.inversion().is_some() {
+            t.push("inv".into());
+        }
+        t
     }
 
     fn terms_within(
@@ -771,10 +1152,14 @@ impl Spectrum for SymmetricTop {
         cutoff: &BigRational,
         budget: &Budget,
     ) -> Result<Vec<(BigRational, Vec<i64>)>> {
-        let (rows, _) = self.rows(cutoff, budget)?;
-        Ok(rows
+        let (terms, _) = self.weighted(cutoff, budget)?;
+        Ok(terms
             .into_iter()
-            .map(|(j, k, e)| (e, vec![j as i64, k as i64]))
+            .map(|t| {
+                let mut q = vec![t.j as i64, t.k as i64];
+                q.extend(t.inv);
+                (t.e, q)
+            })
             .collect())
     }
 
@@ -783,12 +1168,14 @@ impl Spectrum for SymmetricTop {
     }
 
     fn count_bound(&self, energy: &BigRational) -> BigUint {
+        // Exact: the weighted terms up to `energy`, each counted once.
         if energy.is_negative() {
             return BigUint::zero();
         }
-        self.levels_up_to(energy)
-            .map(|l| l.total_states())
-            .unwrap_or_else(|_| BigUint::from(u64::MAX))
+        match self.weighted(energy, &Budget::default()) {
+            Ok((terms, _)) => terms.iter().map(TopTerm::states).sum(),
+            Err(_) => BigUint::from(u64::MAX),
+        }
     }
 
     fn warnings(&self, cutoff: &BigRational) -> Vec<String> {
@@ -798,12 +1185,53 @@ impl Spectrum for SymmetricTop {
     }
 }
 
-/// A spherical top: E = B J(J+1) − D [J(J+1)]², (2J+1)² states per J.
+/// A spherical top: E = B J(J+1) − D [J(J+1)]², (2J+1)² states per J, or
+/// with the nuclear-spin statistics of four equivalent nuclei
+/// (methane-like) (2J+1)·[a·m_A + e·2·m_E + f·m_F] states.
+///
+/// ```
+/// use zsum::models::rotor::SphericalTop;
+/// use zsum::spectrum::Spectrum;
+/// use zsum::exact::parse_rational;
+/// use zsum::units::EnergyUnit;
+/// let r = |s: &str| parse_rational(s).unwrap();
+/// let ch4 = SphericalTop::new(r("5.24"), r("0"), EnergyUnit::Wavenumber)?.with_spin_statistics(1)?;
+/// let l = ch4.levels_up_to(&r("32"))?;
+/// // J = 0: A (5); J = 1: F (3 × 3 M); J = 2: E + F ((2 + 3) × 5 M).
+/// let g: Vec<u32> = l.iter().map(|x| x.degeneracy.to_u32_digits()[0]).collect();
+/// assert_eq!(g, [5, 9, 25]);
+/// let meta = ch4.with_isomer("meta")?; // A levels only: J = 0, 3, 4, ...
+/// assert_eq!(meta.levels_up_to(&r("32"))?.len(), 1);
+/// # Ok::<(), zsum::Error>(())
+/// ```
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub struct SphericalTop {
     b: BigRational,
     d: BigRational,
     unit: EnergyUnit,
+    spin: Option<Tetrahedral>,
+}
+
+/// Nuclear-spin statistics of four equivalent nuclei on a tetrahedron: the
+/// spin-function counts by species of T, the class kept, and the lowest
+/// weighted level.
+#[derive(Debug, Clone, PartialEq, Eq)]
+struct Tetrahedral {
+    twice_spin: u32,
+    counts: TSpecies,
+    only: Option<TClass>,
+    ground: BigRational,
+}
+
+impl Tetrahedral {
+    /// The spin functions of a class: m_A, 2·m_E, 3·m_F.
+    fn functions(&self, c: TClass) -> u64 {
+        match c {
+            TClass::A => self.counts.a,
+            TClass::E => 2 * self.counts.e,
+            TClass::F => 3 * self.counts.f,
+        }
+    }
 }
 
 impl SphericalTop {
@@ -812,7 +1240,12 @@ impl SphericalTop {
     pub fn new(b: BigRational, d: BigRational, unit: EnergyUnit) -> Result<Self> {
         positive("rotational constant B", &b)?;
         non_negative("centrifugal constant D", &d)?;
-        let t = SphericalTop { b, d, unit };
+        let t = SphericalTop {
+            b,
+            d,
+            unit,
+            spin: None,
+        };
         if t.energy(1) <= t.energy(0) {
             return Err(Error::invalid(
                 "centrifugal constant D",
@@ -821,6 +1254,115 @@ impl SphericalTop {
             ));
         }
         Ok(t)
+    }
+
+    /// The same top with the nuclear-spin statistics of four equivalent
+    /// nuclei of spin `twice_spin`/2 (methane-like): level J holds
+    /// (2J+1)·[a·m_A + e·2·m_E + f·m_F] states, a, e, f the species of T
+    /// in D^J and m the spin functions of each (see
+    /// [`crate::models::spin_species`]). A spin beyond 2I = 20 is refused.
+    pub fn with_spin_statistics(mut self, twice_spin: u32) -> Result<Self> {
+        self.spin = Some(Tetrahedral {
+            twice_spin,
+            counts: tetrahedral_spin(twice_spin)?,
+            only: None,
+            ground: BigRational::zero(),
+        });
+        self.settle_ground("all isomers")
+    }
+
+    /// The spin isomers, as the trade names methane's: `meta` (A levels,
+    /// m_A spin functions), `para` (E, 2·m_E) and `ortho` (F, 3·m_F);
+    /// none without spin statistics.
+    pub fn isomers(&self) -> Vec<IsomerInfo> {
+        self.isomer_classes().into_iter().map(|(i, _)| i).collect()
+    }
+
+    fn isomer_classes(&self) -> Vec<(IsomerInfo, TClass)> {
+        let Some(sp) = &self.spin else {
+            return Vec::new();
+        };
+        isomer_table(
+            [
+                ("meta", TClass::A),
+                ("para", TClass::E),
+                ("ortho", TClass::F),
+            ],
+            |c| sp.functions(c),
+        )
+    }
+
+    /// Only the levels of rotational species `class` (A meta, E para, F
+    /// ortho), with their weights.
+    pub fn only_species(self, class: TClass) -> Result<Self> {
+        let name = match class {
+            TClass::A => "meta",
+            TClass::E => "para",
+            TClass::F => "ortho",
+        };
+        self.with_isomer(name)
+    }
+
+    /// Only the spin isomer `name` (`meta`, `para` or `ortho`); an unknown
+    /// name, an isomer without spin functions, or a top without statistics
+    /// is refused, naming the isomers there are.
+    pub fn with_isomer(mut self, name: &str) -> Result<Self> {
+        let twice = self.spin.as_ref().map_or(0, |s| s.twice_spin);
+        let nuclei = format!("four nuclei of spin {}", spin_text(twice));
+        let class = pick_isomer(&self.isomer_classes(), name, &nuclei)?;
+        if let Some(sp) = &mut self.spin {
+            sp.only = Some(class);
+        }
+        self.settle_ground(name)
+    }
+
+    /// The mean number of states per rotational state (J, K, M): 1 without
+    /// statistics, (spin functions kept)/12 with them (16/12 for methane,
+    /// 5/12 for its meta isomer).
+    pub fn mean_spin_weight(&self) -> BigRational {
+        let only = self.spin.as_ref().and_then(|s| s.only);
+        mean_weight(&self.isomer_classes(), only, 12)
+    }
+
+    /// The states per M of level J: 2J+1 without statistics, else the
+    /// weighted species count.
+    fn k_weight(&self, j: u64) -> BigUint {
+        match &self.spin {
+            None => BigUint::from(2 * j + 1),
+            Some(sp) => BigUint::from(spherical_weight(
+                &rotation_species_t(j),
+                &sp.counts,
+                sp.only,
+            )),
+        }
+    }
+
+    fn degeneracy(&self, j: u64) -> BigUint {
+        BigUint::from(2 * j + 1) * self.k_weight(j)
+    }
+
+    /// The lowest J with a non-zero weight (A at J = 0, F at 1, E at 2: the
+    /// first six J hold every species) must be on the ladder.
+    fn settle_ground(mut self, what: &str) -> Result<Self> {
+        let Some(j) = (0..=6u64).find(|&j| !self.k_weight(j).is_zero()) else {
+            return Err(Error::invalid("spin isomer", what, "it has no levels"));
+        };
+        let e = self.energy(j);
+        let (rungs, _) = self.rungs(&e, &Budget::default())?;
+        if rungs.last().map(|r| r.0) != Some(j) {
+            return Err(Error::invalid(
+                "spin isomer",
+                what,
+                &format!(
+                    "its first level, J = {j}, lies beyond where the centrifugal constant D \\
+                     ends the ladder"
+                ),
+            ));
+        }
+        if let Some(sp) = &mut self.spin {
+            sp.ground = e;
+        }
+        Ok(self)
     }
 
     /// E(J), exactly.
@@ -838,27 +1380,58 @@ impl SphericalTop {
 
 impl Spectrum for SphericalTop {
     fn structure(&self) -> Structure<'_> {
-        Structure::Spherical(self.b.clone())
+        Structure::Spherical(SphericalLadder {
+            b: self.b.clone(),
+            weight: self.mean_spin_weight(),
+        })
     }
 
     fn describe(&self) -> String {
-        format!(
+        let mut text = format!(
             "spherical top, B = {} {}",
             exact_decimal(&self.b, 30),
             self.unit
-        )
+        );
+        if let Some(sp) = &self.spin {
+            text += &format!(
+                ", four equivalent nuclei of spin {} (weights A {}, E pair {}, F {})",
+                spin_text(sp.twice_spin),
+                multiplet_weight(&sp.counts, TClass::A),
+                multiplet_weight(&sp.counts, TClass::E),
+                multiplet_weight(&sp.counts, TClass::F)
+            );
+            match sp.only {
+                Some(TClass::A) => text += ", meta (A) only",
+                Some(TClass::E) => text += ", para (E) only",
+                Some(TClass::F) => text += ", ortho (F) only",
+                None => {}
+            }
+        }
+        text
     }
 
     fn unit(&self) -> EnergyUnit {
         self.unit.clone()
     }
 
+    /// `J`, `K`, `M` without statistics. With them `J`, `tau`, `M`, `s`:
+    /// `tau` numbers the rotational multiplets of J by species of T (the A
+    /// ones first, then the E pairs, then the F triplets, counted whether
+    /// kept or not), and `s` the allowed rotation–spin states built on the
+    /// multiplet (m_A, 2·m_E or m_F of them).
     fn quantum_numbers(&self) -> Vec<String> {
-        ["J", "K", "M"].map(String::from).to_vec()
+        let k = if self.spin.is_some() { "tau" } else { "K" };
+        let mut q: Vec<String> = ["J", k, "M"].map(String::from).to_vec();
+        if self.spin.is_some() {
+            q.push("s".into());
+        }
+        q
     }
 
     fn ground_energy(&self) -> BigRational {
-        BigRational::zero()
+        self.spin
+            .as_ref()
+            .map_or_else(BigRational::zero, |s| s.ground.clone())
     }
 
     fn levels_within(&self, cutoff: &BigRational, budget: &Budget) -> Result<LevelList> {
@@ -866,26 +1439,52 @@ impl Spectrum for SphericalTop {
         let (rungs, _) = self.rungs(cutoff, budget)?;
         let levels = rungs
             .into_iter()
-            .map(|(j, e)| Level::new(e, BigUint::from((2 * j + 1) * (2 * j + 1))))
+            .map(|(j, e)| Level::new(e, self.degeneracy(j)))
+            .filter(|l| !l.degeneracy.is_zero())
             .collect();
         Ok(LevelList::from_sorted(self.unit.clone(), levels))
     }
 
     fn states_at(&self, energy: &BigRational) -> Result<Vec<State>> {
         let (rungs, _) = self.rungs(energy, &Budget::default())?;
-        match rungs.last() {
-            Some((j, e)) if e == energy => {
-                let j = *j as i64;
-                let mut out = Vec::new();
+        let Some((j, e)) = rungs.last() else {
+            return Ok(Vec::new());
+        };
+        if e != energy {
+            return Ok(Vec::new());
+        }
+        let (ju, j) = (*j, *j as i64);
+        let mut out = Vec::new();
+        match &self.spin {
+            None => {
                 for k in -j..=j {
                     for m in -j..=j {
                         out.push(State(vec![j, k, m]));
                     }
                 }
-                Ok(out)
             }
-            _ => Ok(Vec::new()),
+            Some(sp) => {
+                let rot = rotation_species_t(ju);
+                let mut tau = 0i64;
+                for c in TClass::ALL {
+                    let w = if sp.only.is_none_or(|o| o == c) {
+                        multiplet_weight(&sp.counts, c) as i64
+                    } else {
+                        0
+                    };
+                    for _ in 0..rot.get(c) {
+                        tau += 1;
+                        for m in -j..=j {
+                            for s in 1..=w {
+                                out.push(State(vec![j, tau, m, s]));
+                            }
+                        }
+                    }
+                }
+                out.sort();
+            }
         }
+        Ok(out)
     }
 
     fn term_numbers(&self) -> Vec<String> {
@@ -898,7 +1497,7 @@ impl Spectrum for SphericalTop {
         budget: &Budget,
     ) -> Result<Vec<(BigRational, Vec<i64>)>> {
         let (rungs, _) = self.rungs(cutoff, budget)?;
-        Ok(rung_terms(rungs, |_| true))
+        Ok(rung_terms(rungs, |j| !self.k_weight(j).is_zero()))
     }
 
     fn highest_energy(&self) -> Option<BigRational> {
@@ -911,10 +1510,7 @@ impl Spectrum for SphericalTop {
 
     fn count_bound(&self, energy: &BigRational) -> BigUint {
         match self.rungs(energy, &Budget::default()) {
-            Ok((rungs, _)) => rungs
-                .iter()
-                .map(|(j, _)| BigUint::from((2 * j + 1) * (2 * j + 1)))
-                .sum(),
+            Ok((rungs, _)) => rungs.iter().map(|(j, _)| self.degeneracy(*j)).sum(),
             Err(_) => BigUint::from(u64::MAX),
         }
     }

@@ -10,7 +10,7 @@ mod ladder;
 mod structure;
 
 pub use ladder::PolyLadder;
-pub use structure::Structure;
+pub use structure::{SphericalLadder, Structure};
 
 use crate::error::{Error, Result};
 use crate::level::LevelList;

@@ -8,6 +8,18 @@ use super::Spectrum;
 use num_bigint::BigUint;
 use num_rational::BigRational;
 
+/// A spherical top's ladder: `E = b J(J+1)` with `(2J+1)²` rotational
+/// states per J, each weighing on average `weight` nuclear-spin states (1
+/// without statistics; n⁴/12 for four equivalent nuclei of n spin states,
+/// an isomer's share with one selected).
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct SphericalLadder {
+    /// The rotational constant B.
+    pub b: BigRational,
+    /// The mean weight per rotational state (J, K, M).
+    pub weight: BigRational,
+}
+
 /// The exact structure of a spectrum.
 pub enum Structure<'a> {
     /// Nothing beyond the level list: summed level by level, with no
@@ -37,11 +49,19 @@ pub enum Structure<'a> {
     },
     /// A symmetric top: `E = b J(J+1) + (u − b) K²`, |K| ≤ J, with the
     /// unique-axis constant `u` (A prolate, C oblate); summed level by level.
+    /// With nuclear-spin statistics each (J, K, M) state weighs `weight` on
+    /// average (1 without; n³/3 for three equivalent nuclei of n spin
+    /// states, both inversion components together), and with an inversion
+    /// splitting Δ half of that weight lies Δ higher.
     Top {
         /// The J(J+1) constant B.
         b: BigRational,
         /// The unique-axis constant.
         unique: BigRational,
+        /// The mean weight per rotational state (J, K, M).
+        weight: BigRational,
+        /// The inversion splitting Δ (zero without one).
+        inversion: BigRational,
     },
     /// An asymmetric top with constants `a ≥ b ≥ c` and nuclear-spin
     /// weights per rotational symmetry class `[ee, eo, oe, oo]` (parities of
@@ -53,9 +73,10 @@ pub enum Structure<'a> {
         /// The weights of the four (Ka, Kc) parity classes.
         weights: [BigUint; 4],
     },
-    /// A spherical top: `E = b J(J+1)` with `(2J+1)²` states; summed level
-    /// by level.
-    Spherical(BigRational),
+    /// A spherical top: `E = b J(J+1)` with `(2J+1)²` rotational states,
+    /// each weighing on average the ladder's `weight`; summed level by
+    /// level.
+    Spherical(SphericalLadder),
     /// Independent parts, each with the size of its unit in the whole's
     /// unit: energies add, so ln q, U, Cv and S add.
     Parts(Vec<(&'a dyn Spectrum, BigRational)>),
