@@ -103,6 +103,8 @@ fn cases() -> Vec<Case> {
                 dj: Some(t("1e-5 cm-1")),
                 djk: None,
                 dk: None,
+                three_fold_spin: None,
+                inversion: None,
             }),
             cli: &["top", "--A", "5.28", "--B", "0.25", "--DJ", "1e-5"],
             up_to: "40",
@@ -116,6 +118,8 @@ fn cases() -> Vec<Case> {
                 dj: None,
                 djk: None,
                 dk: None,
+                three_fold_spin: None,
+                inversion: None,
             }),
             cli: &["top", "--C", "2", "--B", "3", "--unit", "K"],
             up_to: "60",
@@ -125,6 +129,7 @@ fn cases() -> Vec<Case> {
             spec: ModelSpec::SphericalTop(SphericalTopSpec {
                 b: t("5.24 cm-1"),
                 d: Some(t("1e-4 cm-1")),
+                tetrahedral_spin: None,
             }),
             cli: &["top", "--spherical", "--B", "5.24", "--DJ", "1e-4"],
             up_to: "200",
@@ -431,6 +436,7 @@ fn bad_cases() -> Vec<Bad> {
             spec: ModelSpec::SphericalTop(SphericalTopSpec {
                 b: t("5 cm-1"),
                 d: Some(t("-1 cm-1")),
+                tetrahedral_spin: None,
             }),
             toml: "kind = \"spherical_top\"\nB = \"5 cm-1\"\nD = \"-1 cm-1\"",
             line: 1,

@@ -353,6 +353,19 @@ pub struct TopModel {
     /// rotation exchanges the pair (b for water).
     #[arg(long, value_name = "AXIS", requires = "pair_spin")]
     pub pair_axis: Option<String>,
+    /// Symmetric top: nuclear spin I of three equivalent nuclei on the
+    /// three-fold axis (1/2 for ammonia's protons): weights by K mod 3
+    /// and, for K = 0, by J parity.
+    #[arg(long, value_name = "I")]
+    pub three_fold_spin: Option<String>,
+    /// Symmetric top with --three-fold-spin: the inversion splitting of
+    /// each level into its s and a components (e.g. 0.79; default none).
+    #[arg(long, value_name = "ENERGY", requires = "three_fold_spin")]
+    pub inversion: Option<String>,
+    /// Spherical top: nuclear spin I of four equivalent nuclei on a
+    /// tetrahedron (1/2 for methane's protons): A, E, F weights.
+    #[arg(long, value_name = "I", requires = "spherical")]
+    pub tetrahedral_spin: Option<String>,
     /// Unit of the typed constants, and so of the energies: cm-1, K, meV,
     /// eV, J or kJ/mol.
     #[arg(long, value_name = "UNIT", default_value = "cm-1")]

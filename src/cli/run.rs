@@ -283,6 +283,7 @@ fn top(a: &TopModel) -> Result<ModelSpec> {
         return Ok(ModelSpec::SphericalTop(SphericalTopSpec {
             b,
             d: opt_constant("--DJ", &a.dj, &unit)?,
+            tetrahedral_spin: a.tetrahedral_spin.as_ref().map(|v| Text::new(v.clone())),
         }));
     }
     let asymmetric_only = [&a.small_dj, &a.small_dk, &a.weights, &a.pair_spin]
@@ -325,6 +326,8 @@ fn top(a: &TopModel) -> Result<ModelSpec> {
         dj: opt_constant("--DJ", &a.dj, &unit)?,
         djk: opt_constant("--DJK", &a.djk, &unit)?,
         dk: opt_constant("--DK", &a.dk, &unit)?,
+        three_fold_spin: a.three_fold_spin.as_ref().map(|v| Text::new(v.clone())),
+        inversion: opt_constant("--inversion", &a.inversion, &unit)?,
     }))
 }
 

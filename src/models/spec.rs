@@ -517,6 +517,14 @@ pub struct TopSpec {
     /// Distortion constant D_K (default 0).
     #[serde(rename = "DK", default, skip_serializing_if = "Option::is_none")]
     pub dk: Option<Text>,
+    /// Nuclear spin I of three equivalent nuclei on the three-fold axis
+    /// (`"1/2"` for ammonia): spin weights by K mod 3 (none by default).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub three_fold_spin: Option<Text>,
+    /// With `three_fold_spin`: the inversion splitting of every level into
+    /// its s and a components (an energy; none by default).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub inversion: Option<Text>,
 }
 
 impl TopSpec {
@@ -542,7 +550,29 @@ impl TopSpec {
         let dj = e.optional("DJ", self.dj.as_ref())?;
         let djk = e.optional("DJK", self.djk.as_ref())?;
         let dk = e.optional("DK", self.dk.as_ref())?;
-        Ok(SymmetricTop::new(shape, unique, b, dj, djk, dk, e.unit())?)
+        let inversion = self
+            .inversion
+            .as_ref()
+            .map(|x| e.read("inversion", x))
+            .transpose()?;
+        let top = SymmetricTop::new(shape, unique, b, dj, djk, dk, e.unit())?;
+        match (&self.three_fold_spin, inversion) {
+            (None, None) => Ok(top),
+            (None, Some(_)) => Err(SpecError::at(
+                "inversion",
+                Error::invalid(
+                    "inversion splitting",
+                    "given alone",
+                    "the splitting needs the three-fold nuclei's spin (three_fold_spin)",
+                ),
+            )),
+            (Some(spin), inv) => {
+                let twice = parse_twice_spin(spin.as_str()).map_err(at("three_fold_spin"))?;
+                Ok(top
+                    .with_three_fold_spin(twice, inv)
+                    .map_err(at("three_fold_spin"))?)
+            }
+        }
     }
 }
 
@@ -676,6 +706,10 @@ pub struct SphericalTopSpec {
     /// Centrifugal distortion constant D (default 0).
     #[serde(rename = "D", default, skip_serializing_if = "Option::is_none")]
     pub d: Option<Text>,
+    /// Nuclear spin I of four equivalent nuclei on a tetrahedron (`"1/2"`
+    /// for methane): A, E and F spin weights (none by default).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub tetrahedral_spin: Option<Text>,
 }
 
 impl SphericalTopSpec {
@@ -684,7 +718,16 @@ impl SphericalTopSpec {
         let mut e = Energies::default();
         let b = e.read("B", &self.b)?;
         let d = e.optional("D", self.d.as_ref())?;
-        Ok(SphericalTop::new(b, d, e.unit())?)
+        let top = SphericalTop::new(b, d, e.unit())?;
+        match &self.tetrahedral_spin {
+            None => Ok(top),
+            Some(spin) => {
+                let twice = parse_twice_spin(spin.as_str()).map_err(at("tetrahedral_spin"))?;
+                Ok(top
+                    .with_spin_statistics(twice)
+                    .map_err(at("tetrahedral_spin"))?)
+            }
+        }
     }
 }
 

@@ -67,6 +67,16 @@ fn two_weights(ws: &[BigUint]) -> Vec<IsomerInfo> {
     }
 }
 
+/// The tops' isomer descriptions as the species layer names them.
+fn infos(list: Vec<crate::models::rotor::IsomerInfo>) -> Vec<IsomerInfo> {
+    list.into_iter()
+        .map(|i| IsomerInfo {
+            name: i.name.to_string(),
+            spin_functions: i.spin_functions,
+        })
+        .collect()
+}
+
 /// Keeps the classes whose weight equals `keep`, zeroing the others.
 fn keep_weight<const N: usize>(ws: &[BigUint; N], keep: u64) -> [BigUint; N] {
     std::array::from_fn(|i| {
@@ -107,7 +117,8 @@ impl Rotation {
                 two_weights(&[w.weight(0).clone(), w.weight(1).clone()])
             }
             Rotation::Asymmetric(t) => two_weights(t.weights()),
-            Rotation::Symmetric(_) | Rotation::Spherical(_) => Vec::new(),
+            Rotation::Symmetric(t) => infos(t.isomers()),
+            Rotation::Spherical(t) => infos(t.isomers()),
         }
     }
 
@@ -124,6 +135,7 @@ impl Rotation {
                 u64_of(w.weight(0).max(w.weight(1)))
             }
             Rotation::Asymmetric(t) => t.weights().iter().map(u64_of).max().unwrap_or(1),
+            // Tops without statistics (with them, the isomers above count).
             Rotation::Symmetric(_) | Rotation::Spherical(_) => 1,
         }
     }
@@ -140,7 +152,8 @@ impl Rotation {
                 mean(&[w.weight(0).clone(), w.weight(1).clone()])
             }
             Rotation::Asymmetric(t) => mean(t.weights()),
-            Rotation::Symmetric(_) | Rotation::Spherical(_) => BigRational::from_integer(1.into()),
+            Rotation::Symmetric(t) => t.mean_spin_weight(),
+            Rotation::Spherical(t) => t.mean_spin_weight(),
         }
     }
 
@@ -183,13 +196,8 @@ impl Rotation {
                     .clone()
                     .with_weights(keep_weight(t.weights(), w.spin_functions))?,
             ),
-            Rotation::Symmetric(_) | Rotation::Spherical(_) => {
-                return Err(Error::invalid(
-                    "isomer",
-                    name,
-                    "this top has no nuclear-spin statistics",
-                ))
-            }
+            Rotation::Symmetric(t) => Box::new(t.clone().with_isomer(name)?),
+            Rotation::Spherical(t) => Box::new(t.clone().with_isomer(name)?),
         })
     }
 }
