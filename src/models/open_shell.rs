@@ -49,8 +49,10 @@
 //! the exact eigenvalues of the spin–spin (2/3)λ(3S_z² − S²) and
 //! spin–rotation γ N·S Hamiltonian's 2×2 block of each J (derived here in
 //! the case (a) basis; the oracle diagonalises the 3×3 case (a) matrix
-//! numerically). To first order in γ these are Schlapp's formulas (from
-//! memory), which add γ(N+1) to F1 and −γN to F3; for N = 1, J = 0 the
+//! numerically). With γ = 0 these are Schlapp's formulas (from memory);
+//! Schlapp's spin–rotation terms, γ(N+1) for F1 and −γN for F3, are their
+//! first order in γ only at λ = 0, and otherwise differ from the exact
+//! roots by a fraction of γ (a sixth of it for oxygen's N = 2). For N = 1, J = 0 the
 //! block has a single row and the energy is 2B − 2λ − γ for every λ
 //! (Schlapp's square root, taken positive, would give −γ when λ > B).
 //! Each level holds 2J+1 states; for oxygen-16 only odd N occur.
