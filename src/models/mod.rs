@@ -6,6 +6,7 @@ pub mod asym_top;
 pub mod asymmetric;
 pub mod diatomic;
 pub mod level_file;
+pub mod open_shell;
 pub mod oscillator;
 pub mod particle_box;
 pub mod product;
