@@ -509,7 +509,7 @@ fn file_only_refusals_name_the_field_and_what_belongs() {
     assert_eq!(
         e("kind = \"top\"\nB = \"1 cm-1\"\nA = \"2 cm-1\"\nD = \"1e-5 cm-1\""),
         "test.toml, line 5: field `D` does not belong to part 1 (top); its fields are: B, A, C, \
-         DJ, DJK, DK"
+         DJ, DJK, DK, three_fold_spin, inversion"
     );
     assert_eq!(
         e("kind = \"morse\"\nwe = \"100 K\""),

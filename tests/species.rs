@@ -30,10 +30,8 @@ fn s_at(name: &str, model: VibModel) -> f64 {
 /// the molecules on our spectroscopic model: N2 within 0.05 with rigid-rotor
 /// harmonic constants (B_0 = B_e − α_e/2, fundamental we − 2wexe), and the
 /// vibrating rotor within 0.01 for N2, O2, CO, HCl and H2. D2 (144.96) and
-/// HD (143.80) are JANAF-style values from memory, to 0.05. NO is left out:
-/// our linear-rotor treatment of its 2Pi state gives 210.91 against the
-/// tabulated 210.76 (from memory), short of the Hund's-case rotational
-/// structure it needs.
+/// HD (143.80) are JANAF-style values from memory, to 0.05. NO (now a ²Π
+/// doublet) and the polyatomics are checked in tests/polyatomic.rs.
 #[test]
 fn standard_entropies_match_codata_key_values() {
     let cases = [

@@ -99,6 +99,17 @@ struct FileVibration {
     source: String,
 }
 
+/// A ²Π molecule's spin–orbit constant A (nitric oxide, hydroxyl): the
+/// rotation is then the ²Π doublet in intermediate coupling.
+#[derive(Debug, Clone, Deserialize, Serialize)]
+#[serde(deny_unknown_fields)]
+struct FileSpinOrbit {
+    #[serde(rename = "A")]
+    a: String,
+    unit: String,
+    source: String,
+}
+
 #[derive(Debug, Clone, Deserialize, Serialize)]
 #[serde(deny_unknown_fields)]
 struct FileLevel {
@@ -147,6 +158,7 @@ struct FileSpecies {
     rotation: Option<FileRotation>,
     vibration: Option<FileVibration>,
     symmetry_number: Option<u32>,
+    spin_orbit: Option<FileSpinOrbit>,
     top: Option<FileTop>,
     modes: Option<FileModes>,
     electronic: FileElectronic,
@@ -195,6 +207,10 @@ pub struct Molecule {
     pub weights: ParityWeights,
     /// Twice the nuclear spin of each nucleus, for homonuclear molecules.
     pub twice_spin: Option<u32>,
+    /// The spin–orbit constant A of a ²Π ground state, cm⁻¹: the rotation
+    /// is then the ²Π doublet in intermediate coupling (both Ω ladders,
+    /// Λ-doubling counted in the degeneracy).
+    pub spin_orbit: Option<BigRational>,
 }
 
 /// One validated species.
@@ -455,6 +471,13 @@ impl Species {
                     wexe: opt("vibration.wexe", &vib.wexe)? * &fv,
                     weights,
                     twice_spin,
+                    spin_orbit: match &f.spin_orbit {
+                        None => None,
+                        Some(so) => {
+                            let fs = cm1(&n, "spin_orbit.unit", &so.unit)?;
+                            Some(number(&n, "spin_orbit.A", &so.a)? * fs)
+                        }
+                    },
                 })
             }
         };
@@ -554,6 +577,55 @@ impl Species {
         self.internal(model, Some(w))
     }
 
+    /// A ²Π molecule: the doublet in intermediate coupling with B_0 =
+    /// B_e − α_e/2 and D_e, times a harmonic vibration with the
+    /// fundamental we − 2 wexe, times the electronic levels.
+    fn pi_internal(
+        &self,
+        m: &Molecule,
+        a: &BigRational,
+    ) -> Result<Box<dyn Spectrum + Send + Sync>> {
+        use crate::models::open_shell::{Coupling, PiDoublet};
+        let two = BigRational::from_integer(2.into());
+        let b0 = &m.b_e - &m.alpha_e / &two;
+        let rot = PiDoublet::new(
+            Coupling::Intermediate,
+            a.clone(),
+            b0,
+            m.d_e.clone(),
+            EnergyUnit::Wavenumber,
+        )?;
+        let ho = OscillatorSpec {
+            freq: vec![Text::energy(
+                &(&m.we - &two * &m.wexe),
+                &EnergyUnit::Wavenumber,
+            )],
+            zero_point: false,
+        }
+        .build()?;
+        self.rot_vib_el(Box::new(rot), Box::new(ho))
+    }
+
+    /// Rotation × vibration × the electronic levels, in cm⁻¹.
+    fn rot_vib_el(
+        &self,
+        rotation: Box<dyn Spectrum + Send + Sync>,
+        vibration: Box<dyn Spectrum + Send + Sync>,
+    ) -> Result<Box<dyn Spectrum + Send + Sync>> {
+        let part = |name: &str, spectrum| Part {
+            name: name.into(),
+            spectrum,
+        };
+        Ok(Box::new(Product::new(
+            vec![
+                part("rotation", rotation),
+                part("vibration", vibration),
+                part("electronic", Box::new(self.electronic.clone())),
+            ],
+            Some(EnergyUnit::Wavenumber),
+        )?))
+    }
+
     fn polyatomic_internal(
         &self,
         p: &Polyatomic,
@@ -564,23 +636,7 @@ impl Species {
             zero_point: false,
         }
         .build()?;
-        Ok(Box::new(Product::new(
-            vec![
-                Part {
-                    name: "rotation".into(),
-                    spectrum: p.rotation.spectrum(isomer)?,
-                },
-                Part {
-                    name: "vibration".into(),
-                    spectrum: Box::new(modes),
-                },
-                Part {
-                    name: "electronic".into(),
-                    spectrum: Box::new(self.electronic.clone()),
-                },
-            ],
-            Some(EnergyUnit::Wavenumber),
-        )?))
+        self.rot_vib_el(p.rotation.spectrum(isomer)?, Box::new(modes))
     }
 
     /// Molar mass in kg/mol, exact.
@@ -602,6 +658,9 @@ impl Species {
         let Some(m) = &self.molecule else {
             return Ok(el);
         };
+        if let Some(a) = &m.spin_orbit {
+            return self.pi_internal(m, a);
+        }
         let w = weights.unwrap_or_else(|| m.weights.clone());
         // The rotation and vibration are described as a system file would
         // describe them (exact constants in cm-1) and built the same way.

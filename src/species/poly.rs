@@ -25,7 +25,7 @@ pub enum Rotation {
     /// A linear molecule (carbon dioxide), weights by the parity of J.
     Linear(LinearRotor),
     /// A symmetric top (ammonia).
-    Symmetric(SymmetricTop),
+    Symmetric(Box<SymmetricTop>),
     /// A spherical top (methane).
     Spherical(SphericalTop),
     /// An asymmetric top (water), weights by the (Ka, Kc) parity class.
@@ -94,7 +94,7 @@ impl Rotation {
     pub fn from_spec(spec: &ModelSpec) -> Result<Self> {
         Ok(match spec {
             ModelSpec::Rotor(s) => Rotation::Linear(s.build()?),
-            ModelSpec::Top(s) => Rotation::Symmetric(s.build()?),
+            ModelSpec::Top(s) => Rotation::Symmetric(Box::new(s.build()?)),
             ModelSpec::SphericalTop(s) => Rotation::Spherical(s.build()?),
             ModelSpec::AsymmetricTop(s) => Rotation::Asymmetric(Box::new(s.build()?)),
             other => {
@@ -168,7 +168,7 @@ impl Rotation {
         let Some(name) = isomer else {
             return Ok(match self {
                 Rotation::Linear(r) => Box::new(r.clone()),
-                Rotation::Symmetric(t) => Box::new(t.clone()),
+                Rotation::Symmetric(t) => Box::new(t.as_ref().clone()),
                 Rotation::Spherical(t) => Box::new(t.clone()),
                 Rotation::Asymmetric(t) => Box::new(t.as_ref().clone()),
             });
@@ -196,7 +196,7 @@ impl Rotation {
                     .clone()
                     .with_weights(keep_weight(t.weights(), w.spin_functions))?,
             ),
-            Rotation::Symmetric(t) => Box::new(t.clone().with_isomer(name)?),
+            Rotation::Symmetric(t) => Box::new(t.as_ref().clone().with_isomer(name)?),
             Rotation::Spherical(t) => Box::new(t.clone().with_isomer(name)?),
         })
     }
