@@ -27,10 +27,12 @@ fn at(name: &str, t: &str, isomer: Option<Isomer>) -> zsum::species::MolarValues
 /// Ammonia 192.77 and methane 186.25 (JANAF-type tables, from memory):
 /// rigid tops with harmonic fundamentals, 0.2. Hydroxyl 183.74 (JANAF-type,
 /// from memory): the ²Π doublet in intermediate coupling, 0.02. Nitric
-/// oxide 210.76 (from memory) is matched only to 0.15: the ²Π model gives
-/// 210.90, as the plain rotor did (210.91); the 0.14 J/(mol K) gap (about R
-/// ln 1.017 in q) is not explained by the rotational structure and is left
-/// open.
+/// oxide 210.76 (from memory): the same model gives 210.733; a hand
+/// estimate from the same constants (Sackur–Tetrode 151.277, two rotational
+/// ladders R[ln(kT/B0) + 1] = 48.264, spin–orbit pair 11.17 to 11.19,
+/// vibration 0.01) gives 210.72 to 210.74, so the remaining 0.027 lies in
+/// the constants or the table value, both from memory: checked to 0.03,
+/// short of the 0.02 asked.
 #[test]
 fn standard_entropies_match_published_tables() {
     for (name, want, tol) in [
@@ -39,7 +41,7 @@ fn standard_entropies_match_published_tables() {
         ("NH3", 192.77, 0.2),
         ("CH4", 186.25, 0.2),
         ("OH", 183.74, 0.02),
-        ("NO", 210.76, 0.15),
+        ("NO", 210.76, 0.03),
     ] {
         let got = at(name, "298.15", None).s.to_f64();
         assert!((got - want).abs() < tol, "{name}: {got} vs {want}");
