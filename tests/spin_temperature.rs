@@ -1,5 +1,7 @@
 //! Spin temperatures and relaxation heats of the built-in species with
-//! nuclear-spin isomers.
+//! nuclear-spin isomers, through the library and `zsum spin`.
+
+mod common;
 
 use zsum::exact::parse_rational;
 use zsum::species::spin::{
@@ -113,4 +115,61 @@ fn relaxation_heats() {
     )
     .unwrap();
     assert!(w.to_f64() > 0.0);
+}
+
+/// `zsum spin`: the command gives the library's numbers; a value outside
+/// the attainable range, a species without isomers, an unknown isomer and
+/// a malformed composition exit with status 2 naming what is allowed, and
+/// write nothing.
+#[test]
+fn the_spin_command() {
+    let v = common::json(&[
+        "spin",
+        "H2O",
+        "--measured",
+        "ortho/para=2.5",
+        "--format",
+        "json",
+    ]);
+    let t: f64 = v["T_spin"].as_str().unwrap().parse().unwrap();
+    let db = Database::builtin().unwrap();
+    let st = spin_temperature(
+        db.find("H2O").unwrap(),
+        &Composition::parse("ortho/para=2.5").unwrap(),
+        10,
+    )
+    .unwrap();
+    assert_eq!(v["T_spin"].as_str().unwrap(), st.t.decimal(10).unwrap());
+    assert!(t > 20.0 && t < 40.0);
+    let v = common::json(&["spin", "H2", "--T", "20.28", "--format", "json"]);
+    let q: f64 = v["rows"][0]["heat_per_mole"]
+        .as_str()
+        .unwrap()
+        .parse()
+        .unwrap();
+    assert!((q - 1060.0).abs() < 15.0, "{q}");
+    let dir = tempfile::tempdir().unwrap();
+    let o = dir.path().join("x.txt");
+    let o = o.to_str().unwrap();
+    common::refused(
+        &["spin", "H2O", "--measured", "ortho/para=3.5", "-o", o],
+        "between 0",
+    );
+    common::refused(
+        &["spin", "CO", "--measured", "ortho/para=1", "-o", o],
+        "nuclear-spin isomers",
+    );
+    common::refused(
+        &["spin", "CH4", "--measured", "meta/cis=1", "-o", o],
+        "meta, para, ortho",
+    );
+    common::refused(
+        &["spin", "H2", "--measured", "ortho:para=1", "-o", o],
+        "A/B=X",
+    );
+    common::refused(
+        &["spin", "H2", "--T", "20", "--from", "fraction=2", "-o", o],
+        "between 0 and 1",
+    );
+    assert!(!std::path::Path::new(o).exists());
 }

@@ -104,6 +104,10 @@ pub enum Command {
     /// Hydrogen's spin isomers over a temperature grid: ortho fraction, Cp
     /// of normal, equilibrium and para, and the ortho–para conversion heat.
     Hydrogen(HydrogenArgs),
+    /// Spin isomers of any species: the spin temperature of a measured
+    /// composition (--measured), or the equilibrium fractions and the heat
+    /// a frozen composition releases relaxing at each T (--T).
+    Spin(SpinIsomerArgs),
     /// Count a model's states up to an energy exactly, without listing them.
     Count {
         /// The model.
@@ -719,6 +723,37 @@ pub struct HydrogenArgs {
     /// terminal.
     #[arg(long, value_name = "TIME", default_value = "5min")]
     pub time_budget: String,
+}
+
+/// `zsum spin`.
+#[derive(Debug, Args)]
+pub struct SpinIsomerArgs {
+    /// A built-in species with nuclear-spin isomers (H2, D2, N2, H2O, NH3,
+    /// CH4).
+    pub species: String,
+    /// A measured composition: A/B=X, the ratio of two isomers
+    /// (ortho/para=2.5), or A=X, one isomer's fraction (para=0.998).
+    #[arg(
+        long,
+        value_name = "A/B=X",
+        conflicts_with = "t",
+        required_unless_present = "t"
+    )]
+    pub measured: Option<String>,
+    /// Temperature(s) in kelvin for the relaxation table: a value, a grid
+    /// START:STOP:STEP, log:START:STOP:COUNT or a comma list.
+    #[arg(long = "T", value_name = "T", allow_hyphen_values = true)]
+    pub t: Option<String>,
+    /// With --T: the frozen composition that relaxes: normal (default), an
+    /// isomer's name, or fraction=X (ortho fraction).
+    #[arg(long, value_name = "STATE", default_value = "normal", requires = "t")]
+    pub from: String,
+    /// Significant digits of every printed value, each certified (1 to 30).
+    #[arg(long, value_parser = clap::value_parser!(u32).range(1..=30), value_name = "N", default_value_t = zsum::report::DEFAULT_DIGITS)]
+    pub digits: u32,
+    /// Output options.
+    #[command(flatten)]
+    pub out: Output,
 }
 
 /// Temperatures, precision and output for `sum` and `thermo`.

@@ -5,8 +5,8 @@ use super::args::{
     CompareArgs, CountModel, CrossoverArgs, DiatomicLevels, DiatomicModel, EnsembleArgs,
     FileLevels, FileModel, FormatArg, HydrogenArgs, LevelsModel, ListArgs, MicrostatesArgs,
     OnlyArg, OscillatorLevels, OscillatorModel, Output, PerArg, RotorLevels, RotorModel,
-    SpeciesCommand, SpeciesThermo, SpinArgs, SystemLevels, SystemThermo, TempArgs, ThermoModel,
-    TopLevels, TopModel, ZeemanLevels, ZeemanModel,
+    SpeciesCommand, SpeciesThermo, SpinArgs, SpinIsomerArgs, SystemLevels, SystemThermo, TempArgs,
+    ThermoModel, TopLevels, TopModel, ZeemanLevels, ZeemanModel,
 };
 use num_rational::BigRational;
 use zsum::budget::Meter;
@@ -53,6 +53,7 @@ pub fn run(cli: Cli) -> Result<Option<String>> {
         Command::Crossover { model, opts } => crossover(model, opts),
         Command::Species { command } => species(command),
         Command::Hydrogen(a) => hydrogen(a),
+        Command::Spin(a) => spin(a),
         Command::Census(a) => census(a),
         Command::Microstates(a) => microstates_cmd(a),
         Command::Ensemble(a) => ensemble_cmd(a),
@@ -906,6 +907,42 @@ fn species(c: SpeciesCommand) -> Result<Option<String>> {
             emit(render(&card, format(out.format))?, &out)
         }
     }
+}
+
+fn spin(a: SpinIsomerArgs) -> Result<Option<String>> {
+    use zsum::species::spin::{relaxation_grid, spin_temperature, Composition};
+    let db = Database::builtin()?;
+    let sp = db.find(&a.species)?;
+    let text = match (&a.measured, &a.t) {
+        (Some(m), _) => {
+            let st = spin_temperature(sp, &Composition::parse(m)?, a.digits)?;
+            render(
+                &zsum::report::SpinTemperatureReport::new(&st),
+                format(a.out.format),
+            )?
+        }
+        (None, Some(t)) => {
+            let from = Isomer::parse(&a.from)?;
+            let grid = parse_grid("--T", t)?;
+            let o = MolarOptions {
+                digits: a.digits,
+                ..MolarOptions::default()
+            };
+            let points = relaxation_grid(sp, &from, &grid, &o)?;
+            render(
+                &zsum::report::RelaxationTable::new(&sp.name, &a.from, &points, a.digits),
+                format(a.out.format),
+            )?
+        }
+        (None, None) => {
+            return Err(Error::invalid(
+                "spin",
+                "without --measured or --T",
+                "give a measured composition (--measured ortho/para=2.5) or temperatures (--T)",
+            ))
+        }
+    };
+    emit(text, &a.out)
 }
 
 fn hydrogen(a: HydrogenArgs) -> Result<Option<String>> {

@@ -21,6 +21,7 @@ mod micro;
 mod molar;
 mod point;
 mod species;
+mod spin;
 pub mod text;
 mod thermo;
 pub use compare::{ApproxRow, CompareReport, CompareRow, ExactRow, RelErrors};
@@ -42,6 +43,7 @@ pub use molar::{
 };
 pub use point::ThermoPoint;
 pub use species::{ConstantRow, SpeciesCard, SpeciesList, SpeciesSummary};
+pub use spin::{RelaxationRow, RelaxationTable, SpinTemperatureReport};
 
 pub use crate::exact::{check_digits, APPROX_DIGITS, DEFAULT_DIGITS};
 

@@ -375,14 +375,68 @@ pub fn spin_temperature(sp: &Species, c: &Composition, digits: u32) -> Result<Sp
     })
 }
 
+/// One temperature of a relaxation table: each isomer's equilibrium
+/// fraction and the heat the frozen composition releases relaxing to it.
+#[derive(Debug, Clone)]
+pub struct RelaxationPoint {
+    /// T in kelvin, exact.
+    pub t: BigRational,
+    /// Each isomer's name and equilibrium fraction q_i/q, in the species'
+    /// order.
+    pub fractions: Vec<(String, Certified)>,
+    /// Heat released per mole, J/mol.
+    pub per_mole: Certified,
+    /// Heat released per kilogram, kJ/kg.
+    pub per_kg: Certified,
+}
+
 /// The heat released when `sp`, frozen in the composition `from`, relaxes
 /// to equilibrium at `t` (K): `(J/mol, kJ/kg)`.
+///
+/// ```
+/// use zsum::species::{Database, Isomer, MolarOptions};
+/// use zsum::species::spin::relaxation_heat;
+/// use zsum::exact::parse_rational;
+/// let db = Database::builtin()?;
+/// let (mol, kg) = relaxation_heat(db.find("H2")?, &Isomer::Normal,
+///                                 &parse_rational("20.28")?, &MolarOptions::default())?;
+/// // About 1.06 kJ/mol (from memory); per kg it is that over 2.016 g/mol.
+/// assert!((mol.to_f64() - 1060.0).abs() < 15.0);
+/// assert!((kg.to_f64() * 2.01565 - mol.to_f64()).abs() < 1.0);
+/// # Ok::<(), zsum::Error>(())
+/// ```
 pub fn relaxation_heat(
     sp: &Species,
     from: &Isomer,
     t: &BigRational,
     o: &MolarOptions,
 ) -> Result<(Certified, Certified)> {
+    let spectra = Spectra::new(sp, o.model)?;
+    let p = relaxation_point(sp, &spectra, from, t, o)?;
+    Ok((p.per_mole, p.per_kg))
+}
+
+/// The relaxation of `sp` from `from` over a grid of temperatures (K),
+/// levels listed once for the grid.
+pub fn relaxation_grid(
+    sp: &Species,
+    from: &Isomer,
+    grid: &[BigRational],
+    o: &MolarOptions,
+) -> Result<Vec<RelaxationPoint>> {
+    let spectra = Spectra::new(sp, o.model)?;
+    grid.iter()
+        .map(|t| relaxation_point(sp, &spectra, from, t, o))
+        .collect()
+}
+
+fn relaxation_point(
+    sp: &Species,
+    spectra: &Spectra,
+    from: &Isomer,
+    t: &BigRational,
+    o: &MolarOptions,
+) -> Result<RelaxationPoint> {
     if !t.is_positive() {
         return Err(Error::invalid(
             "T",
@@ -390,7 +444,6 @@ pub fn relaxation_heat(
             "it must be greater than zero",
         ));
     }
-    let spectra = Spectra::new(sp, o.model)?;
     let ip = isomer_parts(sp, &spectra.cached(), t, o.digits)?;
     let p = prec(o.digits);
     let x: Vec<Ball> = match from {
@@ -426,5 +479,15 @@ pub fn relaxation_heat(
     let r = rational_ball(&(constants::boltzmann() * constants::avogadro()), p);
     let per_mole = frozen.sub(&ip.eq.h).mul(&r.mul(&rational_ball(t, p)));
     let per_kg = div(&per_mole, &rational_ball(&sp.molar_mass(), p)).div_int(1000);
-    Ok((Certified(per_mole), Certified(per_kg)))
+    Ok(RelaxationPoint {
+        t: t.clone(),
+        fractions: ip
+            .isomers
+            .iter()
+            .zip(&ip.eq_fractions)
+            .map(|(i, f)| (i.name.clone(), Certified(f.clone())))
+            .collect(),
+        per_mole: Certified(per_mole),
+        per_kg: Certified(per_kg),
+    })
 }
