@@ -46,5 +46,30 @@ fn all_species(c: &mut Criterion) {
     g.finish();
 }
 
-criterion_group!(benches, all_species);
+/// The standard tables of every built-in polyatomic species: 300
+/// temperatures from 10 to 1500 K (10:1500:5 without its last point is
+/// 299; this grid is 300), 12 digits, each species on its own.
+fn polyatomics(c: &mut Criterion) {
+    let db = Database::builtin().unwrap();
+    let grid = parse_grid("--T", "10:1505:5").unwrap();
+    assert_eq!(grid.len(), 300);
+    let o = MolarOptions {
+        digits: 12,
+        ..MolarOptions::default()
+    };
+    let mut g = c.benchmark_group("polyatomic");
+    g.sample_size(10);
+    for sp in db
+        .all()
+        .iter()
+        .filter(|s| s.kind == zsum::species::Kind::Polyatomic)
+    {
+        g.bench_function(format!("{}_300_temperatures_10_1500_k_12_digits", sp.name), |b| {
+            b.iter(|| black_box(MolarGrid::compute(sp, &grid, &o).unwrap()))
+        });
+    }
+    g.finish();
+}
+
+criterion_group!(benches, all_species, polyatomics);
 criterion_main!(benches);

@@ -395,8 +395,16 @@ const CASES: &[(&str, &[&str])] = &[
         ],
     ),
     ("hydrogen-table", &["hydrogen", "--T", "20.28,77,300"]),
-    ("spin-temperature-table", &["spin", "H2O", "--measured", "ortho/para=2.5"]),
-    ("spin-relaxation-json", &["spin", "CH4", "--T", "10,50", "--digits", "6", "--format", "json"]),
+    (
+        "spin-temperature-table",
+        &["spin", "H2O", "--measured", "ortho/para=2.5"],
+    ),
+    (
+        "spin-relaxation-json",
+        &[
+            "spin", "CH4", "--T", "10,50", "--digits", "6", "--format", "json",
+        ],
+    ),
     (
         "hydrogen-d2-json",
         &[

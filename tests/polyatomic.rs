@@ -196,3 +196,55 @@ fn methane_and_ammonia_isomer_limits() {
     let meta = at("CH4", "300", Some(Isomer::Named("meta".into())));
     assert!(meta.s.to_f64() > 150.0);
 }
+
+/// The rigid symmetric top's closed-form tail bound (Σ (2J+1)² states per
+/// J up to the last J with min(B, C)·J(J+1) ≤ E, times the largest weight
+/// of one K-state) bounds the exact count at every energy, with and
+/// without spin statistics and inversion, prolate and oblate.
+#[test]
+fn symmetric_top_tail_bound_bounds_the_count() {
+    use zsum::models::rotor::{SymmetricTop, TopShape};
+    use zsum::spectrum::Spectrum;
+    use zsum::units::EnergyUnit;
+    let r = |s: &str| parse_rational(s).unwrap();
+    let oblate = SymmetricTop::rigid(
+        TopShape::Oblate,
+        r("6.2284"),
+        r("9.9443"),
+        EnergyUnit::Wavenumber,
+    )
+    .unwrap();
+    let prolate = SymmetricTop::rigid(
+        TopShape::Prolate,
+        r("5.2"),
+        r("0.25"),
+        EnergyUnit::Wavenumber,
+    )
+    .unwrap();
+    let tops = [
+        oblate.clone(),
+        oblate
+            .clone()
+            .with_three_fold_spin(1, Some(r("0.793")))
+            .unwrap(),
+        oblate.clone().with_three_fold_spin(2, None).unwrap(),
+        oblate
+            .with_three_fold_spin(1, None)
+            .unwrap()
+            .with_isomer("para")
+            .unwrap(),
+        prolate.clone(),
+        prolate.with_three_fold_spin(1, Some(r("0.5"))).unwrap(),
+    ];
+    for top in &tops {
+        for e in ["0", "0.5", "10", "16.2", "100", "1234.5", "20000"] {
+            let e = r(e);
+            let (exact, bound) = (top.count_bound(&e), top.tail_bound(&e));
+            assert!(
+                bound >= exact,
+                "{}: at {e}: {bound} < {exact}",
+                top.describe()
+            );
+        }
+    }
+}

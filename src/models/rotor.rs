@@ -547,7 +547,59 @@ pub struct SymmetricTop {
     dk: BigRational,
     unit: EnergyUnit,
     spin: Option<ThreeFold>,
+    /// The widest weighted listing made for a count bound, shared by
+    /// clones: the engine asks for bounds at many energies per sum.
+    counted: TermMemo,
 }
+
+/// A memo of the widest weighted listing for each spin statistics (each
+/// isomer): the statistics, the cutoff and the counted terms. Equal for
+/// every two tops (it caches, it does not describe), shared by clones.
+#[derive(Debug, Clone, Default)]
+struct TermMemo(std::sync::Arc<std::sync::Mutex<Vec<MemoEntry>>>);
+
+type MemoEntry = (Option<ThreeFold>, BigRational, std::sync::Arc<Counted>);
+
+/// Weighted terms sorted by energy with the running count of states.
+#[derive(Debug)]
+struct Counted {
+    energies: Vec<BigRational>,
+    cumulative: Vec<BigUint>,
+}
+
+impl Counted {
+    fn new(mut terms: Vec<TopTerm>) -> Self {
+        terms.sort_by(|a, b| a.e.cmp(&b.e));
+        let mut n = BigUint::zero();
+        let cumulative = terms
+            .iter()
+            .map(|t| {
+                n += t.states();
+                n.clone()
+            })
+            .collect();
+        Counted {
+            energies: terms.into_iter().map(|t| t.e).collect(),
+            cumulative,
+        }
+    }
+
+    /// The states at or below `e`.
+    fn up_to(&self, e: &BigRational) -> BigUint {
+        match self.energies.partition_point(|x| x <= e) {
+            0 => BigUint::zero(),
+            k => self.cumulative[k - 1].clone(),
+        }
+    }
+}
+
+impl PartialEq for TermMemo {
+    fn eq(&self, _: &Self) -> bool {
+        true
+    }
+}
+
+impl Eq for TermMemo {}
 
 /// Nuclear-spin statistics of three equivalent nuclei on a symmetric top's
 /// axis: the spin-function counts, the inversion splitting (if the two
@@ -573,6 +625,7 @@ impl ThreeFold {
 
 /// One weighted (J, |K|) level of a symmetric top, or one inversion
 /// component of it: `w` states per M.
+#[derive(Debug)]
 struct TopTerm {
     e: BigRational,
     j: u64,
@@ -715,6 +768,7 @@ impl SymmetricTop {
             dk,
             unit,
             spin: None,
+            counted: TermMemo::default(),
         };
         if top.energy(1, 0) <= top.energy(0, 0) {
             return Err(Error::invalid(
@@ -1168,14 +1222,79 @@ impl Spectrum for SymmetricTop {
     }
 
     fn count_bound(&self, energy: &BigRational) -> BigUint {
-        // Exact: the weighted terms up to `energy`, each counted once.
+        // Exact: the weighted terms up to `energy`, each counted once. The
+        // widest listing is kept: a narrower one is the same terms with
+        // energy at most the cutoff (the rows and the turnovers do not
+        // depend on the cutoff beyond where each row stops).
         if energy.is_negative() {
             return BigUint::zero();
         }
-        match self.weighted(energy, &Budget::default()) {
-            Ok((terms, _)) => terms.iter().map(TopTerm::states).sum(),
-            Err(_) => BigUint::from(u64::MAX),
+        let memo = || {
+            self.counted
+                .0
+                .lock()
+                .unwrap_or_else(std::sync::PoisonError::into_inner)
+        };
+        let cached = memo()
+            .iter()
+            .find(|(spin, c, _)| spin == &self.spin && energy <= c)
+            .map(|(_, _, counted)| counted.clone());
+        let counted = match cached {
+            Some(t) => t,
+            None => match self.weighted(energy, &Budget::default()) {
+                Ok((terms, _)) => {
+                    let counted = std::sync::Arc::new(Counted::new(terms));
+                    let mut m = memo();
+                    m.retain(|(spin, _, _)| spin != &self.spin);
+                    m.push((self.spin.clone(), energy.clone(), counted.clone()));
+                    counted
+                }
+                Err(_) => return BigUint::from(u64::MAX),
+            },
+        };
+        counted.up_to(energy)
+    }
+
+    /// For a rigid top, a closed form: every level of J lies at or above
+    /// m·J(J+1) with m the smaller of B and the unique constant (|K| ≤ J),
+    /// so at most Σ_{J ≤ n} (2J+1)² = (n+1)(2n+1)(2n+3)/3 (K, M) states lie
+    /// at or below `energy`, n the last J with m·J(J+1) ≤ energy, each with
+    /// at most the largest spin weight of one K-state (the weights of both
+    /// inversion components together). With distortion, the exact count.
+    fn tail_bound(&self, energy: &BigRational) -> BigUint {
+        if energy.is_negative() {
+            return BigUint::zero();
         }
+        if !(self.dj.is_zero() && self.djk.is_zero() && self.dk.is_zero()) {
+            return self.count_bound(energy);
+        }
+        let m = if self.unique < self.b {
+            &self.unique
+        } else {
+            &self.b
+        };
+        let q = (energy / m).floor().to_integer();
+        let n: BigInt = ((q * 4u32 + 1u32).sqrt() - 1u32) / 2u32;
+        let n = BigUint::try_from(n).unwrap_or_default();
+        let states = (&n + 1u32) * (&n * 2u32 + 1u32) * (&n * 2u32 + 3u32) / 3u32;
+        // The largest weight of one K-state over the three classes (K = 0,
+        // K ≡ 0 mod 3, the rest; a ±K pair counts two K-states).
+        let per_k = [(0u64, 0u64), (1, 3), (1, 1)]
+            .iter()
+            .map(|&(j, k)| {
+                let (ws, wa) = self.component_weights(j.max(k), k);
+                let (ws, wa) = if k == 0 {
+                    let (s2, a2) = self.component_weights(1, 0);
+                    (ws.max(s2), wa.max(a2))
+                } else {
+                    (ws.div_ceil(2), wa.div_ceil(2))
+                };
+                ws + wa
+            })
+            .max()
+            .unwrap_or(1)
+            .max(1);
+        states * per_k
     }
 
     fn warnings(&self, cutoff: &BigRational) -> Vec<String> {
