@@ -9,13 +9,14 @@ use zsum::thermo::parse_grid;
 
 fn all_species(c: &mut Criterion) {
     let db = Database::builtin().unwrap();
-    // The 13 atoms and diatomics (the polyatomics have their own bench).
-    let species: Vec<_> = db
-        .all()
-        .iter()
-        .filter(|s| s.kind != zsum::species::Kind::Polyatomic)
-        .collect();
-    assert_eq!(species.len(), 13);
+    // The 13 atoms and diatomics of the speed target (OH and the
+    // polyatomics came later; the polyatomics have their own bench).
+    let species: Vec<_> = [
+        "He", "Ne", "Ar", "Kr", "Xe", "H2", "HD", "D2", "N2", "O2", "CO", "NO", "HCl",
+    ]
+    .iter()
+    .map(|n| db.find(n).unwrap())
+    .collect();
     // From 5 K: below about 2.8 K (H2) and 1.9 K (He) the gas at 1 bar is
     // quantum-degenerate (nΛ³ ≥ 1) and the classical rows are refused.
     let grid = parse_grid("--T", "5:304:1").unwrap();
@@ -64,9 +65,10 @@ fn polyatomics(c: &mut Criterion) {
         .iter()
         .filter(|s| s.kind == zsum::species::Kind::Polyatomic)
     {
-        g.bench_function(format!("{}_300_temperatures_10_1500_k_12_digits", sp.name), |b| {
-            b.iter(|| black_box(MolarGrid::compute(sp, &grid, &o).unwrap()))
-        });
+        g.bench_function(
+            format!("{}_300_temperatures_10_1500_k_12_digits", sp.name),
+            |b| b.iter(|| black_box(MolarGrid::compute(sp, &grid, &o).unwrap())),
+        );
     }
     g.finish();
 }

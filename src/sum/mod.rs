@@ -578,9 +578,12 @@ pub struct Cached<'a> {
     inner: &'a dyn Spectrum,
     /// The widest listing so far: its cutoff, its precision in bits and
     /// its levels.
-    store: std::sync::Arc<std::sync::Mutex<Option<(BigRational, u32, crate::level::LevelList)>>>,
+    store: std::sync::Arc<std::sync::Mutex<Option<Stored>>>,
     parts: Option<Vec<(Cached<'a>, BigRational)>>,
 }
+
+/// A stored listing: its cutoff, its precision in bits, its levels.
+type Stored = (BigRational, u32, std::sync::Arc<crate::level::LevelList>);
 
 impl<'a> Cached<'a> {
     /// Wraps `inner`.
@@ -626,15 +629,19 @@ impl Spectrum for Cached<'_> {
         bits: u32,
     ) -> Result<crate::level::LevelList> {
         // A poisoned lock only means another thread panicked mid-listing;
-        // the store then holds a whole earlier listing or none.
-        let mut store = self
-            .store
-            .lock()
-            .unwrap_or_else(std::sync::PoisonError::into_inner);
-        if let Some((c, b, list)) = store.as_ref() {
-            if cutoff <= c && bits <= *b {
-                return Ok(list.truncated(cutoff));
-            }
+        // the store then holds a whole earlier listing or none. The list
+        // is shared: it is truncated outside the lock, so the cores of a
+        // sweep do not wait on each other's copies.
+        let lock = || {
+            self.store
+                .lock()
+                .unwrap_or_else(std::sync::PoisonError::into_inner)
+        };
+        let stored = lock()
+            .as_ref()
+            .and_then(|(c, b, list)| (cutoff <= c && bits <= *b).then(|| list.clone()));
+        if let Some(list) = stored {
+            return Ok(list.truncated(cutoff));
         }
         let list = if bits == 0 {
             self.inner.levels_within(cutoff, budget)?
@@ -643,8 +650,18 @@ impl Spectrum for Cached<'_> {
         };
         // Exact listings serve every precision.
         let b = if list.is_exact() { u32::MAX } else { bits };
-        *store = Some((cutoff.clone(), b, list.clone()));
-        Ok(list)
+        let shared = std::sync::Arc::new(list);
+        let mut store = lock();
+        // Keep the wider of this listing and one another core stored
+        // meanwhile.
+        let wider = store
+            .as_ref()
+            .is_none_or(|(c, sb, _)| cutoff >= c && b >= *sb);
+        if wider {
+            *store = Some((cutoff.clone(), b, shared.clone()));
+        }
+        drop(store);
+        Ok(std::sync::Arc::unwrap_or_clone(shared))
     }
     fn states_at(&self, energy: &BigRational) -> Result<Vec<crate::spectrum::State>> {
         self.inner.states_at(energy)
