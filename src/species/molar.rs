@@ -604,7 +604,11 @@ pub(crate) fn isomer_parts(
             cv,
             ln_q,
         };
-        (eq, vec![x, one_x])
+        // The second fraction directly (not 1 − x, which loses it to
+        // rounding when it is tiny: para-D2 in the cold).
+        let e = exp(&d);
+        let x_second = div(&e, &e.add(&one));
+        (eq, vec![x, x_second])
     } else {
         // Any number of isomers: x_i = q_i/q from ln q_i − ln q_0, then
         // U = Σ x_i U_i, Cv = Σ x_i Cv_i + Σ x_i (U_i − U)².

@@ -330,7 +330,7 @@ pub fn spin_temperature(sp: &Species, c: &Composition, digits: u32) -> Result<Sp
             &c.label(),
             exact_decimal(target, 30),
             &format!(
-                "its spin temperature lies below {T_LOW} K, beyond the search range {T_LOW} to \
+                "its spin temperature lies below {T_LOW} K, outside the temperatures searched, {T_LOW} to \
                  {T_HIGH} K (the equilibrium value at {T_LOW} K is already past it)"
             ),
         ));
@@ -340,7 +340,7 @@ pub fn spin_temperature(sp: &Species, c: &Composition, digits: u32) -> Result<Sp
             &c.label(),
             exact_decimal(target, 30),
             &format!(
-                "its spin temperature lies above {T_HIGH} K, beyond the search range {T_LOW} to \
+                "its spin temperature lies above {T_HIGH} K, outside the temperatures searched, {T_LOW} to \
                  {T_HIGH} K: the value is too close to the statistical limit {}",
                 rational_string(&range.hot)
             ),
