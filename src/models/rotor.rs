@@ -1025,6 +1025,102 @@ impl SymmetricTop {
         }
     }
 
+    /// The rigid top's K ladders up to `cutoff` (see `poly_ladders`).
+    fn k_ladders(
+        &self,
+        cutoff: &BigRational,
+        budget: &Budget,
+    ) -> Result<Vec<crate::spectrum::PolyLadder>> {
+        use crate::spectrum::PolyLadder;
+        check_cutoff(self, cutoff)?;
+        let zero = BigRational::zero();
+        let delta = self.inversion().cloned().unwrap_or_else(BigRational::zero);
+        // One denominator for every constant.
+        let den = [&self.b, &self.unique, &delta, cutoff]
+            .iter()
+            .fold(BigInt::one(), |l, x| {
+                num_integer::Integer::lcm(&l, x.denom())
+            });
+        let num = |x: &BigRational| x.numer() * (&den / x.denom());
+        let d = BigRational::from_integer(den.clone());
+        let (b_num, cut_num) = (num(&self.b), num(cutoff));
+        let diff = &self.unique - &self.b;
+        // Rows of J for the work estimate: K up to where E(J = K) passes
+        // the cutoff.
+        let lowest = if self.unique < self.b {
+            &self.unique
+        } else {
+            &self.b
+        };
+        let j_est = j_estimate(cutoff, lowest);
+        budget.check_levels(
+            format_args!(
+                "listing the top's K ladders up to {}",
+                exact_decimal(cutoff, 30)
+            ),
+            (j_est + 1.0) * (j_est + 2.0) / 2.0,
+            LEVEL_BYTES,
+            "give a lower cutoff",
+        )?;
+        let components: Vec<(u8, BigRational)> = match self.inversion() {
+            None => vec![(2, zero.clone())],
+            Some(dl) => vec![(0, zero.clone()), (1, dl.clone())],
+        };
+        let mut out = Vec::new();
+        for k in 0u64.. {
+            let k2 = BigRational::from_integer(BigInt::from(k) * BigInt::from(k));
+            let base = &diff * &k2;
+            // The lowest rung J = K must lie at or below the cutoff.
+            let first_e =
+                &self.b * BigRational::from_integer(BigInt::from(k) * BigInt::from(k + 1)) + &base;
+            if &first_e > cutoff {
+                break;
+            }
+            for (which, shift) in &components {
+                let a0 = &base + shift;
+                // Last J: B·J(J+1) ≤ cutoff − a0, in integers over den.
+                let room = &cut_num - num(&a0);
+                if room.is_negative() {
+                    continue;
+                }
+                let q = &room / &b_num;
+                let last: BigInt = ((q * 4u32 + 1u32).sqrt() - 1u32) / 2u32;
+                let Some(last) = last.to_u64() else {
+                    return Err(Error::budget(format!(
+                        "listing the top's K ladders up to {} exceeds the memory budget: give a \
+                         lower cutoff",
+                        exact_decimal(cutoff, 30)
+                    )));
+                };
+                if last < k {
+                    continue;
+                }
+                let weight = |j: u64| -> BigUint {
+                    let (ws, wa) = self.component_weights(j, k);
+                    BigUint::from(match which {
+                        0 => ws,
+                        1 => wa,
+                        _ => ws + wa,
+                    })
+                };
+                // Weights of even and odd J (on rungs J ≥ K).
+                let (je, jo) = if k % 2 == 0 { (k, k + 1) } else { (k + 1, k) };
+                let weights = [weight(je), weight(jo)];
+                if weights.iter().all(Zero::is_zero) {
+                    continue;
+                }
+                out.push(PolyLadder {
+                    numerators: vec![(&a0 * &d).to_integer(), b_num.clone()],
+                    denominator: den.clone(),
+                    first: k,
+                    last,
+                    weights,
+                });
+            }
+        }
+        Ok(out)
+    }
+
     /// The weighted levels (or inversion components) up to `cutoff`, none
     /// of weight zero, in row order, and the listing's notes.
     fn weighted(
@@ -1253,6 +1349,22 @@ impl Spectrum for SymmetricTop {
             },
         };
         counted.up_to(energy)
+    }
+
+    /// For a rigid top, one ladder per |K| (and per inversion component):
+    /// E = B·J(J+1) + (u − B)K² (+ Δ) along J ≥ |K|, a polynomial in
+    /// J(J+1) whose weights per M depend on J only through its parity (the
+    /// K = 0 components of a three-fold top). A distorted top lists its
+    /// levels instead (its rows may turn over).
+    fn poly_ladders(
+        &self,
+        cutoff: &BigRational,
+        budget: &Budget,
+    ) -> Option<Result<Vec<crate::spectrum::PolyLadder>>> {
+        if !(self.dj.is_zero() && self.djk.is_zero() && self.dk.is_zero()) {
+            return None;
+        }
+        Some(self.k_ladders(cutoff, budget))
     }
 
     /// For a rigid top, a closed form: every level of J lies at or above
