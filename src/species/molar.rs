@@ -487,6 +487,53 @@ impl IsomerParts {
         self.isomers.iter().find(|i| i.name == name)
     }
 
+    /// The isomer fractions of the composition `state` of `sp`: the
+    /// equilibrium ones, the statistical ones (normal), one isomer alone,
+    /// or an ortho fraction (species with ortho and para alone); an
+    /// unknown isomer is refused naming the species' isomers.
+    pub fn fractions(&self, sp: &Species, state: &Isomer, prec: u32) -> Result<Vec<Ball>> {
+        Ok(match state {
+            Isomer::Equilibrium => self.eq_fractions.clone(),
+            Isomer::Normal => self.normal_fractions(prec),
+            Isomer::Fraction(x) => {
+                if self.isomers.len() != 2 || self.isomers[0].name != "ortho" {
+                    return Err(Error::invalid(
+                        "isomer",
+                        format!("fraction={}", exact_decimal(x, 20)),
+                        &format!(
+                            "an ortho fraction needs a species with ortho and para alone; {} \
+                             has {} isomers: give one of them by name, equilibrium or normal",
+                            sp.name,
+                            self.isomers.len()
+                        ),
+                    ));
+                }
+                let x = rational_ball(x, prec);
+                let one_x = exact(prec, 1u32).sub(&x);
+                vec![x, one_x]
+            }
+            single => {
+                let name = single.single().unwrap_or_default();
+                if self.get(name).is_none() {
+                    let names: Vec<&str> = self.isomers.iter().map(|i| i.name.as_str()).collect();
+                    return Err(Error::invalid(
+                        "isomer",
+                        name,
+                        &format!(
+                            "{} has the isomers {}; or give equilibrium or normal",
+                            sp.name,
+                            names.join(", ")
+                        ),
+                    ));
+                }
+                self.isomers
+                    .iter()
+                    .map(|i| exact(prec, u32::from(i.name == name)))
+                    .collect()
+            }
+        })
+    }
+
     /// The high-temperature (statistical) fractions w_i / Σ w.
     pub fn normal_fractions(&self, prec: u32) -> Vec<Ball> {
         let total: u64 = self.isomers.iter().map(|i| i.w).sum();
@@ -797,25 +844,6 @@ pub(crate) fn molar_with(
                 let ortho = ortho_at(&x);
                 (conv, total, h, cv, ortho)
             };
-            let only = |name: &str| -> Result<Vec<Ball>> {
-                if ip.get(name).is_none() {
-                    let names: Vec<&str> = ip.isomers.iter().map(|i| i.name.as_str()).collect();
-                    return Err(Error::invalid(
-                        "isomer",
-                        name,
-                        &format!(
-                            "{} has the isomers {}; or give equilibrium or normal",
-                            sp.name,
-                            names.join(", ")
-                        ),
-                    ));
-                }
-                Ok(ip
-                    .isomers
-                    .iter()
-                    .map(|i| exact(p, u32::from(i.name == name)))
-                    .collect())
-            };
             match iso.clone().unwrap_or_default() {
                 Isomer::Equilibrium => {
                     let g = ln(&exact(p, sp.spin_states()));
@@ -828,26 +856,7 @@ pub(crate) fn molar_with(
                         ortho_at(&ip.eq_fractions),
                     )
                 }
-                Isomer::Normal => frozen(ip.normal_fractions(p)),
-                Isomer::Fraction(x) => {
-                    if ip.isomers.len() != 2 || ip.isomers[0].name != "ortho" {
-                        return Err(Error::invalid(
-                            "isomer",
-                            format!("fraction={}", exact_decimal(&x, 20)),
-                            &format!(
-                                "an ortho fraction needs a species with ortho and para alone; \
-                                 {} has {} isomers: give one of them by name, equilibrium or \
-                                 normal",
-                                sp.name,
-                                ip.isomers.len()
-                            ),
-                        ));
-                    }
-                    let x = rational_ball(&x, p);
-                    let one_x = one.sub(&x);
-                    frozen(vec![x, one_x])
-                }
-                single => frozen(only(single.single().unwrap_or_default())?),
+                frozen_state => frozen(ip.fractions(sp, &frozen_state, p)?),
             }
         }
     };

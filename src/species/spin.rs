@@ -21,7 +21,7 @@
 //!   relaxes to equilibrium at T: `Σ x_i H_i(T) − H_eq(T)`, internal
 //!   enthalpies from the common zero.
 
-use super::molar::{div, exact, isomer_parts, prec, IsomerParts, MolarOptions, Spectra};
+use super::molar::{div, isomer_parts, prec, IsomerParts, MolarOptions, Spectra};
 use super::{Isomer, Species};
 use crate::error::{Error, Result};
 use crate::exact::{exact_decimal, rational_string};
@@ -446,29 +446,7 @@ fn relaxation_point(
     }
     let ip = isomer_parts(sp, &spectra.cached(), t, o.digits)?;
     let p = prec(o.digits);
-    let x: Vec<Ball> = match from {
-        Isomer::Normal => ip.normal_fractions(p),
-        Isomer::Equilibrium => ip.eq_fractions.clone(),
-        Isomer::Fraction(f) if ip.isomers.len() == 2 && ip.isomers[0].name == "ortho" => {
-            let x = rational_ball(f, p);
-            vec![x.clone(), exact(p, 1u32).sub(&x)]
-        }
-        Isomer::Fraction(f) => {
-            return Err(Error::invalid(
-                "isomer",
-                format!("fraction={}", exact_decimal(f, 20)),
-                "an ortho fraction needs a species with ortho and para alone",
-            ))
-        }
-        single => {
-            let name = single.single().unwrap_or_default();
-            spin_functions(sp, name)?;
-            ip.isomers
-                .iter()
-                .map(|i| exact(p, u32::from(i.name == name)))
-                .collect()
-        }
-    };
+    let x = ip.fractions(sp, from, p)?;
     let frozen = ip
         .isomers
         .iter()
