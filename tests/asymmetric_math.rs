@@ -11,8 +11,6 @@ use num_bigint::BigInt;
 use num_rational::BigRational;
 use num_traits::{One, Signed, ToPrimitive, Zero};
 use proptest::prelude::*;
-use std::path::Path;
-use std::process::{Command, Stdio};
 use zsum::error::ErrorKind;
 use zsum::exact::parse_rational;
 use zsum::models::asymmetric::{
@@ -269,22 +267,7 @@ fn spawn_oracle(
         r#"{{"sets":[{{"name":"{name}","A":"{}","B":"{}","C":"{}","quartic":{quartic},"j":{js:?}}}]}}"#,
         abc[0], abc[1], abc[2]
     );
-    let script = Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/crosscheck/asym_oracle.py");
-    let mut child = Command::new("python3")
-        .arg(script)
-        .stdin(Stdio::piped())
-        .stdout(Stdio::piped())
-        .stderr(Stdio::piped())
-        .spawn()
-        .expect("failed to start python3 on tests/crosscheck/asym_oracle.py");
-    use std::io::Write;
-    child
-        .stdin
-        .take()
-        .unwrap()
-        .write_all(doc.as_bytes())
-        .unwrap();
-    child
+    common::spawn_oracle("asym_oracle.py", &doc)
 }
 
 /// An oracle case: name, A:B:C, quartic constants, the J to compare.

@@ -13,9 +13,6 @@ use num_bigint::BigInt;
 use num_rational::BigRational;
 use num_traits::{One, Signed, ToPrimitive, Zero};
 use rug::Float;
-use std::io::Write;
-use std::path::Path;
-use std::process::{Command, Stdio};
 use zsum::error::ErrorKind;
 use zsum::exact::parse_rational;
 use zsum::level::Enclosure;
@@ -86,21 +83,7 @@ fn oracle(test: &str, doc: &str) -> Option<Vec<String>> {
     if !common::mpmath_available(test) {
         return None;
     }
-    let script =
-        Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/crosscheck/open_shell_oracle.py");
-    let mut child = Command::new("python3")
-        .arg(script)
-        .stdin(Stdio::piped())
-        .stdout(Stdio::piped())
-        .stderr(Stdio::piped())
-        .spawn()
-        .expect("failed to start python3 on tests/crosscheck/open_shell_oracle.py");
-    child
-        .stdin
-        .take()
-        .unwrap()
-        .write_all(doc.as_bytes())
-        .unwrap();
+    let child = common::spawn_oracle("open_shell_oracle.py", doc);
     let out = child.wait_with_output().unwrap();
     assert!(
         out.status.success(),

@@ -305,33 +305,6 @@ fn inversion_components_split_and_merge() {
     assert_eq!(spinless.ground_energy(), delta);
 }
 
-/// The terms of each level are the distinct projections of its states
-/// (as in tests/terms.rs).
-fn terms_match_states(s: &dyn Spectrum, cutoff: &str) {
-    let cut = r(cutoff);
-    let names = s.quantum_numbers();
-    let pos: Vec<usize> = s
-        .term_numbers()
-        .iter()
-        .map(|t| names.iter().position(|n| n == t).unwrap())
-        .collect();
-    let terms = s.terms_within(&cut, &Budget::default()).unwrap();
-    for l in s.levels_up_to(&cut).unwrap().iter() {
-        let got: BTreeSet<Vec<i64>> = terms
-            .iter()
-            .filter(|(e, _)| e == &l.energy)
-            .map(|(_, t)| t.clone())
-            .collect();
-        let want: BTreeSet<Vec<i64>> = s
-            .states_at(&l.energy)
-            .unwrap()
-            .iter()
-            .map(|st| pos.iter().map(|&i| st.0[i].abs()).collect())
-            .collect();
-        assert_eq!(got, want, "{} at {}", s.describe(), l.energy);
-    }
-}
-
 #[test]
 fn weighted_tops_pass_the_generic_checks() {
     let ch4 = methane();
@@ -372,7 +345,7 @@ fn weighted_tops_pass_the_generic_checks() {
     }
     for m in &models {
         common::check_spectrum(m.as_ref(), &r("150"), 40);
-        terms_match_states(m.as_ref(), "150");
+        common::terms_are_projected_states(m.as_ref(), "150");
         assert_eq!(
             m.levels_up_to(&r("150")).unwrap().levels()[0].energy,
             m.ground_energy()

@@ -3,6 +3,8 @@
 //! distinct projections of the level's states onto those quantum numbers
 //! (the defining property), and match the textbook term formulas.
 
+mod common;
+
 use num_bigint::BigUint;
 use num_rational::BigRational;
 use std::collections::BTreeSet;
@@ -18,42 +20,10 @@ fn r(s: &str) -> BigRational {
     parse_rational(s).unwrap()
 }
 
-/// For every level up to `cutoff`: the terms equal the distinct states
-/// projected onto the term numbers (a symmetric top's K taken as |K|).
-fn terms_are_projected_states(s: &dyn Spectrum, cutoff: &str) -> usize {
-    let cut = r(cutoff);
-    let names = s.quantum_numbers();
-    let pos: Vec<usize> = s
-        .term_numbers()
-        .iter()
-        .map(|t| names.iter().position(|n| n == t).unwrap())
-        .collect();
-    let terms = s.terms_within(&cut, &Budget::default()).unwrap();
-    let levels = s.levels_up_to(&cut).unwrap();
-    let mut seen = 0;
-    for l in levels.iter() {
-        let got: BTreeSet<Vec<i64>> = terms
-            .iter()
-            .filter(|(e, _)| e == &l.energy)
-            .map(|(_, t)| t.clone())
-            .collect();
-        let want: BTreeSet<Vec<i64>> = s
-            .states_at(&l.energy)
-            .unwrap()
-            .iter()
-            .map(|st| pos.iter().map(|&i| st.0[i].abs()).collect())
-            .collect();
-        assert_eq!(got, want, "{} at E = {}", s.describe(), l.energy);
-        seen += got.len();
-    }
-    assert_eq!(seen, terms.len(), "a term lies on no level");
-    seen
-}
-
 #[test]
 fn rotor_terms_are_j() {
     let rotor = LinearRotor::rigid(r("2"), EnergyUnit::Wavenumber).unwrap();
-    assert_eq!(terms_are_projected_states(&rotor, "30"), 4);
+    assert_eq!(common::terms_are_projected_states(&rotor, "30"), 4);
     // E = B J(J+1): 0, 4, 12, 24 for J = 0..3.
     let rep = LevelsReport::build("rotor", &rotor, &r("30"), &ListOptions::default()).unwrap();
     let js: Vec<i64> = rep.levels.iter().map(|l| l.terms[0][0]).collect();
@@ -64,24 +34,24 @@ fn rotor_terms_are_j() {
     let terms = para.terms_within(&r("40"), &Budget::default()).unwrap();
     let js: Vec<i64> = terms.iter().map(|(_, t)| t[0]).collect();
     assert_eq!(js, [0, 2, 4]);
-    terms_are_projected_states(&para, "100");
+    common::terms_are_projected_states(&para, "100");
     let nonrigid = LinearRotor::new(r("1.9"), r("6e-6"), r("0"), EnergyUnit::Wavenumber).unwrap();
-    terms_are_projected_states(&nonrigid, "500");
+    common::terms_are_projected_states(&nonrigid, "500");
     let sph = SphericalTop::new(r("5.24"), r("0"), EnergyUnit::Wavenumber).unwrap();
-    assert_eq!(terms_are_projected_states(&sph, "200"), 6);
+    assert_eq!(common::terms_are_projected_states(&sph, "200"), 6);
 }
 
 #[test]
 fn symmetric_top_terms_are_j_and_k() {
     let top =
         SymmetricTop::rigid(TopShape::Prolate, r("3"), r("1"), EnergyUnit::Wavenumber).unwrap();
-    terms_are_projected_states(&top, "60");
+    common::terms_are_projected_states(&top, "60");
     // E = B J(J+1) + (A − B) K²: (J, K) = (1, 1) at 2 + 2 = 4.
     let t = top.terms_within(&r("4"), &Budget::default()).unwrap();
     assert!(t.contains(&(r("4"), vec![1, 1])), "{t:?}");
     let oblate =
         SymmetricTop::rigid(TopShape::Oblate, r("1/2"), r("1"), EnergyUnit::Wavenumber).unwrap();
-    terms_are_projected_states(&oblate, "40");
+    common::terms_are_projected_states(&oblate, "40");
 }
 
 #[test]
@@ -105,7 +75,7 @@ fn oscillator_terms_are_quanta_per_mode() {
     let anh = AnharmonicOscillator::new(r("2358.57"), r("14.324"), r("0"), EnergyUnit::Wavenumber)
         .unwrap();
     // G(v) = we(v+1/2) − wexe(v+1/2)²: v = 3 at 8079.5, v = 4 at 10323.
-    assert_eq!(terms_are_projected_states(&anh, "10000"), 4);
+    assert_eq!(common::terms_are_projected_states(&anh, "10000"), 4);
 }
 
 /// Harmonic modes: a degenerate mode's states list one number per
@@ -149,7 +119,7 @@ fn vibrating_rotor_terms_are_v_and_j() {
         AnharmonicOscillator::new(r("4401"), r("121"), r("0"), EnergyUnit::Wavenumber).unwrap();
     let h2 =
         RovibDiatomic::new(vib, r("60.8"), r("3"), r("0.047"), ParityWeights::uniform()).unwrap();
-    terms_are_projected_states(&h2, "9000");
+    common::terms_are_projected_states(&h2, "9000");
     // The lowest term is (v, J) = (0, 0), the next (0, 1).
     let mut t = h2.terms_within(&r("2400"), &Budget::default()).unwrap();
     t.sort();

@@ -145,3 +145,62 @@ pub fn mpmath_available(test: &str) -> bool {
     );
     false
 }
+
+/// Starts `python3 tests/crosscheck/<script>` with the JSON document `doc`
+/// on its standard input (the oracles read their cases that way); the
+/// caller collects its output.
+pub fn spawn_oracle(script: &str, doc: &str) -> std::process::Child {
+    use std::io::Write;
+    use std::process::{Command, Stdio};
+    let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR"))
+        .join("tests/crosscheck")
+        .join(script);
+    let mut child = Command::new("python3")
+        .arg(&path)
+        .stdin(Stdio::piped())
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped())
+        .spawn()
+        .unwrap_or_else(|e| panic!("failed to start python3 on {}: {e}", path.display()));
+    child
+        .stdin
+        .take()
+        .unwrap()
+        .write_all(doc.as_bytes())
+        .unwrap();
+    child
+}
+
+/// For every level up to `cutoff`: the terms equal the distinct states
+/// projected onto the term numbers (a symmetric top's K taken as |K|).
+pub fn terms_are_projected_states(s: &dyn Spectrum, cutoff: &str) -> usize {
+    let cut = zsum::exact::parse_rational(cutoff).unwrap();
+    let names = s.quantum_numbers();
+    let pos: Vec<usize> = s
+        .term_numbers()
+        .iter()
+        .map(|t| names.iter().position(|n| n == t).unwrap())
+        .collect();
+    let terms = s
+        .terms_within(&cut, &zsum::spectrum::Budget::default())
+        .unwrap();
+    let levels = s.levels_up_to(&cut).unwrap();
+    let mut seen = 0;
+    for l in levels.iter() {
+        let got: std::collections::BTreeSet<Vec<i64>> = terms
+            .iter()
+            .filter(|(e, _)| e == &l.energy)
+            .map(|(_, t)| t.clone())
+            .collect();
+        let want: std::collections::BTreeSet<Vec<i64>> = s
+            .states_at(&l.energy)
+            .unwrap()
+            .iter()
+            .map(|st| pos.iter().map(|&i| st.0[i].abs()).collect())
+            .collect();
+        assert_eq!(got, want, "{} at E = {}", s.describe(), l.energy);
+        seen += got.len();
+    }
+    assert_eq!(seen, terms.len(), "a term lies on no level");
+    seen
+}
