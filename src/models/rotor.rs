@@ -1055,8 +1055,9 @@ impl SymmetricTop {
         let j_est = j_estimate(cutoff, lowest);
         budget.check_levels(
             format_args!(
-                "listing the top's K ladders up to {}",
-                exact_decimal(cutoff, 30)
+                "listing the top's K ladders up to {} {}",
+                crate::exact::format_sig(cutoff, 6),
+                self.unit
             ),
             (j_est + 1.0) * (j_est + 2.0) / 2.0,
             LEVEL_BYTES,
@@ -1087,9 +1088,10 @@ impl SymmetricTop {
                 let last: BigInt = ((q * 4u32 + 1u32).sqrt() - 1u32) / 2u32;
                 let Some(last) = last.to_u64() else {
                     return Err(Error::budget(format!(
-                        "listing the top's K ladders up to {} exceeds the memory budget: give a \
-                         lower cutoff",
-                        exact_decimal(cutoff, 30)
+                        "listing the top's K ladders up to {} {} exceeds the memory budget: give \
+                         a lower cutoff",
+                        crate::exact::format_sig(cutoff, 6),
+                        self.unit
                     )));
                 };
                 if last < k {
