@@ -415,3 +415,25 @@ pub fn check_digits(digits: u32) -> Result<u32> {
         ))
     }
 }
+
+/// An exact integer as a GMP integer (the crate's one door from
+/// num-bigint into `rug`).
+pub(crate) fn to_rug_int(b: &BigInt) -> rug::Integer {
+    let (sign, digits) = b.to_u32_digits();
+    let i = rug::Integer::from_digits(&digits, rug::integer::Order::Lsf);
+    if sign == num_bigint::Sign::Minus {
+        -i
+    } else {
+        i
+    }
+}
+
+/// An exact rational as a GMP rational.
+pub(crate) fn to_rug(r: &BigRational) -> rug::Rational {
+    rug::Rational::from((to_rug_int(r.numer()), to_rug_int(r.denom())))
+}
+
+/// A big natural number as a GMP integer.
+pub(crate) fn to_rug_uint(b: &BigUint) -> rug::Integer {
+    rug::Integer::from_digits(&b.to_u32_digits(), rug::integer::Order::Lsf)
+}

@@ -287,6 +287,64 @@ fn on_common_denominator<const N: usize>(values: [&BigRational; N]) -> (BigInt, 
     (den, nums)
 }
 
+/// The quadratic bound α n² − β n − γ (α > 0) of a model, fixed when the
+/// model is made, with its coefficients as integers over one denominator
+/// so that [`Quadratic::last`] compares integers instead of reducing
+/// rationals (a sweep asks for it at every temperature).
+#[derive(Debug, Clone, PartialEq, Eq)]
+struct Quadratic {
+    coefficients: [BigRational; 3],
+    den: BigInt,
+    nums: [BigInt; 3],
+}
+
+impl Quadratic {
+    fn new(alpha: BigRational, beta: BigRational, gamma: BigRational) -> Self {
+        let (den, nums) = on_common_denominator([&alpha, &beta, &gamma]);
+        Quadratic {
+            coefficients: [alpha, beta, gamma],
+            den,
+            nums,
+        }
+    }
+
+    /// As [`quadratic_last`] (without its rounding slack): the largest
+    /// integer n with n at most the larger root, `None` when that is
+    /// negative. An `f64` estimate is corrected by exact integer steps
+    /// (n ≤ root ⇔ 2αn ≤ β or α n² − β n − γ ≤ q, monotone in n); far
+    /// from `f64` range, the rational root is taken instead.
+    fn last(&self, q: &BigRational) -> Option<BigUint> {
+        let [a, b, g] = &self.nums;
+        let below_root = |n: &BigInt| -> bool {
+            if (a * n) * 2 <= *b {
+                return true;
+            }
+            let f = (a * n - b) * n - g;
+            f * q.denom() <= &self.den * q.numer()
+        };
+        let f = |v: &BigInt| v.to_f64().unwrap_or(f64::NAN);
+        let d = f(&self.den);
+        let (af, bf, gf) = (f(a) / d, f(b) / d, f(g) / d);
+        let qf = q.to_f64().unwrap_or(f64::NAN);
+        let root = (bf + (bf * bf + 4.0 * af * (gf + qf)).sqrt()) / (2.0 * af);
+        if root.is_finite() && root.abs() < 1e15 {
+            let mut n = BigInt::from(root.floor() as i64);
+            for _ in 0..8 {
+                let up = &n + 1;
+                if below_root(&up) {
+                    n = up;
+                } else if !below_root(&n) {
+                    n -= 1;
+                } else {
+                    return n.to_biguint();
+                }
+            }
+        }
+        let [alpha, beta, gamma] = &self.coefficients;
+        quadratic_last(alpha, beta, gamma, q)
+    }
+}
+
 /// The largest integer n ≥ 0 with α n² − β n − γ ≤ q (α > 0), or `None`
 /// when no n ≥ 0 qualifies: the larger root of the quadratic, rounded up
 /// through a rational square root above it, then floored.
@@ -481,6 +539,10 @@ pub struct PiDoublet {
     /// A, B, D as integers over `den`; energies share the denominator m.
     ints: [BigInt; 3],
     m: BigInt,
+    /// `ground`'s upper end, and the quadratic below every level: both
+    /// fixed once the model is made.
+    ground_upper: BigRational,
+    lower: Option<Quadratic>,
 }
 
 impl PiDoublet {
@@ -527,6 +589,8 @@ impl PiDoublet {
             ground: Surd::rational(BigInt::zero(), &em),
             ints,
             m: em,
+            ground_upper: BigRational::zero(),
+            lower: None,
         };
         for ladder in 0..2 {
             if !m.rises(ladder, m.start[ladder]) {
@@ -548,6 +612,8 @@ impl PiDoublet {
         }
         let candidates = [m.surd(0, m.start[0]), m.surd(1, m.start[1])];
         m.ground = candidates[lowest(&candidates)].clone();
+        m.ground_upper = m.ground.upper();
+        m.lower = m.lower_quadratic();
         Ok(m)
     }
 
@@ -695,7 +761,7 @@ impl PiDoublet {
     /// A rational lower bound α x² − β x − γ on every level of x (both
     /// ladders), on the formulas' scale: `(α, β, γ)`, or `None` when D
     /// leaves no positive α (the turnover then bounds the count).
-    fn lower_quadratic(&self) -> Option<(BigRational, BigRational, BigRational)> {
+    fn lower_quadratic(&self) -> Option<Quadratic> {
         let (a, b, d) = (&self.a, &self.b, &self.d);
         // Every listed level has x ≤ x_t, so D u² ≤ D u·x_t² for 0 ≤ u ≤ x_t².
         let b_eff = match self.last.iter().flatten().max() {
@@ -707,7 +773,7 @@ impl PiDoublet {
         }
         match self.coupling {
             // E ≥ −|A|/2 + B*·u and u = J(J+1) − Ω² ≥ x² − 5/2 > 0.
-            Coupling::CaseA => Some((
+            Coupling::CaseA => Some(Quadratic::new(
                 b_eff.clone(),
                 BigRational::zero(),
                 b_eff * BigRational::new(5.into(), 2.into()) + a.abs() * half(),
@@ -720,7 +786,7 @@ impl PiDoublet {
                 } else {
                     BigRational::zero()
                 };
-                Some((b_eff.clone(), b.clone(), b_eff + c0))
+                Some(Quadratic::new(b_eff.clone(), b.clone(), b_eff + c0))
             }
         }
     }
@@ -729,11 +795,9 @@ impl PiDoublet {
     /// the lowest level); `None` when none can.
     fn x_last(&self, energy: &BigRational) -> Option<u64> {
         let cap = self.last.iter().flatten().max().copied();
-        let q = energy + self.ground.upper();
-        let x = match self.lower_quadratic() {
-            Some((alpha, beta, gamma)) => quadratic_last(&alpha, &beta, &gamma, &q)?
-                .to_u64()
-                .unwrap_or(u64::MAX),
+        let q = energy + &self.ground_upper;
+        let x = match &self.lower {
+            Some(quadratic) => quadratic.last(&q)?.to_u64().unwrap_or(u64::MAX),
             None => cap.unwrap_or(u64::MAX),
         };
         let x = cap.map_or(x, |c| x.min(c));
@@ -1335,6 +1399,43 @@ mod tests {
         .bounds(40);
         assert!(&lo * &lo * rat(4) < rat(2) && &hi * &hi * rat(4) > rat(2));
         assert_eq!(hi - lo, BigRational::new(1.into(), BigInt::one() << 41));
+    }
+
+    #[test]
+    fn quadratic_on_integers_agrees_with_the_rational_root() {
+        // Integer roots (n² − n − 6 = q at n = 3 + k), negative roots,
+        // no roots, and a spread of rational coefficients and levels q.
+        let r = |n: i64, d: i64| BigRational::new(n.into(), d.into());
+        let q = Quadratic::new(rat(1), rat(1), rat(6));
+        for k in 0..50i64 {
+            let at = rat((3 + k) * (3 + k) - (3 + k) - 6);
+            assert_eq!(q.last(&at), Some(BigUint::from((3 + k) as u64)));
+            let below = &at - r(1, 1_000_000_007);
+            assert_eq!(q.last(&below), Some(BigUint::from((2 + k) as u64)));
+        }
+        assert_eq!(q.last(&rat(-7)), None);
+        let shifted = Quadratic::new(rat(1), rat(-5), rat(-6));
+        assert_eq!(shifted.last(&rat(0)), None);
+        assert_eq!(shifted.last(&rat(7)), Some(BigUint::from(0u32)));
+        let mut seed = 12345u64;
+        let mut next = |m: i64| {
+            seed = seed
+                .wrapping_mul(6364136223846793005)
+                .wrapping_add(1442695040888963407);
+            ((seed >> 33) as i64 % m) + 1
+        };
+        for _ in 0..2000 {
+            let alpha = r(next(1000), next(97));
+            let beta = r(next(2000) - 1000, next(89));
+            let gamma = r(next(2000) - 1000, next(83));
+            let level = r(next(1_000_000), next(7));
+            let fast = Quadratic::new(alpha.clone(), beta.clone(), gamma.clone()).last(&level);
+            assert_eq!(
+                fast,
+                quadratic_last(&alpha, &beta, &gamma, &level),
+                "{alpha} {beta} {gamma} {level}"
+            );
+        }
     }
 
     #[test]

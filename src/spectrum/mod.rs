@@ -8,9 +8,11 @@
 
 mod ladder;
 mod structure;
+mod summands;
 
 pub use ladder::PolyLadder;
 pub use structure::{SphericalLadder, Structure};
+pub use summands::Summands;
 
 use crate::error::{Error, Result};
 use crate::level::LevelList;
@@ -57,6 +59,23 @@ pub trait Spectrum: Send + Sync {
         _bits: u32,
     ) -> Result<LevelList> {
         self.levels_within(cutoff, budget)
+    }
+
+    /// The levels of [`Spectrum::levels_within_bits`] in the summation
+    /// engine's form, possibly reaching past `cutoff` (the engine keeps
+    /// only those at or below it). Default: that listing, converted when
+    /// first summed; a caching wrapper shares one conversion between the
+    /// temperatures of a sweep.
+    fn summands_within_bits(
+        &self,
+        cutoff: &BigRational,
+        budget: &Budget,
+        bits: u32,
+    ) -> Result<std::sync::Arc<Summands>> {
+        let list = self.levels_within_bits(cutoff, budget, bits)?;
+        Ok(std::sync::Arc::new(Summands::new(std::sync::Arc::new(
+            list,
+        ))))
     }
 
     /// All levels with energy at most `cutoff`, within the default budget.

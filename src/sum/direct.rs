@@ -8,7 +8,7 @@ use crate::error::{Error, Result};
 use crate::spectrum::Spectrum;
 use num_rational::BigRational;
 use num_traits::{ToPrimitive, Zero};
-use rug::{Float, Integer};
+use rug::{Float, Integer, Rational};
 
 /// a + b as an unreduced ratio over the product of the (positive)
 /// denominators: the same value, compared and converted exactly as the
@@ -143,11 +143,13 @@ fn first_excitation(
                 Some(l) => lowest_above(&l?, e0),
                 // At the sum's precision, so that a spectrum of enclosed
                 // energies is listed once for both.
-                None => s
-                    .levels_within_bits(&cut, &crate::spectrum::Budget::default(), prec)?
-                    .levels()
-                    .get(1)
-                    .map(|l| l.energy.clone()),
+                None => {
+                    let sm =
+                        s.summands_within_bits(&cut, &crate::spectrum::Budget::default(), prec)?;
+                    let cut_r = to_rug(&cut);
+                    let second = sm.up_to(&cut_r).nth(1).map(|(i, _)| i);
+                    second.map(|i| sm.list().levels()[i].energy.clone())
+                }
             };
             if let Some(e1) = e1 {
                 let x1 = ((&e1 - e0) * beta).to_f64().unwrap_or(f64::INFINITY);
@@ -265,12 +267,14 @@ fn stats_from(
     let (g0, [e, m1, m2]) = match by_ladders {
         Some((g0, sums)) => (g0, with_tails(sums, tails)),
         None => {
-            let levels = s.levels_within_bits(&cut, &budget, prec)?;
-            let mut it = levels.iter();
-            let ground = it.next().ok_or_else(|| {
+            let sm = s.summands_within_bits(&cut, &budget, prec)?;
+            let cut_r = to_rug(&cut);
+            let mut it = sm.up_to(&cut_r);
+            let (first, ground) = it.next().ok_or_else(|| {
                 Error::invalid("spectrum", s.describe(), "it has no levels to sum")
             })?;
-            if ground.energy != e0 || !ground.is_exact() {
+            let listed = &sm.list().levels()[first];
+            if listed.energy != e0 || !listed.is_exact() {
                 return Err(Error::invalid(
                     "spectrum",
                     s.describe(),
@@ -278,20 +282,16 @@ fn stats_from(
                 ));
             }
             let beta_r = Float::with_val(prec, &to_rug(beta));
-            // The excitation E − E0 exactly in GMP (far cheaper than a
-            // reduced big-rational difference), then rounded once to the
-            // working precision.
-            let e0_r = to_rug(&e0);
+            // The excitation E − E0 exactly in GMP (the levels converted
+            // once per listing), then rounded once to the working precision.
+            let e0_r = &ground.energy;
             // An enclosed energy moves x by at most β·(half-width).
             let beta_f = beta.to_f64().unwrap_or(f64::INFINITY);
-            let terms = it.map(|l| {
-                let excitation = to_rug(&l.energy) - &e0_r;
+            let terms = it.map(|(_, l)| {
+                let excitation = Rational::from(&l.energy - e0_r);
                 let x = Float::with_val(prec, &excitation) * &beta_r;
-                let shift = match &l.enclosure {
-                    None => 0.0,
-                    Some(e) => (e.radius_f64() * beta_f) * 1.01,
-                };
-                (x, big(&l.degeneracy), shift)
+                let shift = l.radius.map_or(0.0, |r| (r * beta_f) * 1.01);
+                (x, &l.degeneracy, shift)
             });
             let sums = enclosed_sums(terms, tails, prec).ok_or_else(|| {
                 Error::invalid(
@@ -300,7 +300,7 @@ fn stats_from(
                     "an enclosed level is not separated from the ground level at this precision",
                 )
             })?;
-            (big(&ground.degeneracy), sums)
+            (big(&listed.degeneracy), sums)
         }
     };
     if g0 == 0 {
@@ -330,8 +330,8 @@ fn stats_from(
 /// d) + d` when s ≤ 1/2; each sum takes the largest such bound of its
 /// terms. An enclosure reaching down to the ground (x ≤ 2d) or too wide
 /// for that bound makes the sum unbounded (`None`).
-pub(crate) fn enclosed_sums(
-    terms: impl Iterator<Item = (Float, Integer, f64)>,
+pub(crate) fn enclosed_sums<G: std::borrow::Borrow<Integer>>(
+    terms: impl Iterator<Item = (Float, G, f64)>,
     tails: [Float; 3],
     prec: u32,
 ) -> Option<[Ball; 3]> {
@@ -358,7 +358,7 @@ pub(crate) fn enclosed_sums(
         use rug::Assign;
         w.assign(-&x);
         w.exp_mut();
-        w *= &g;
+        w *= g.borrow();
         e += &w;
         w *= &x;
         m1 += &w;

@@ -582,8 +582,91 @@ pub struct Cached<'a> {
     parts: Option<Vec<(Cached<'a>, BigRational)>>,
 }
 
-/// A stored listing: its cutoff, its precision in bits, its levels.
-type Stored = (BigRational, u32, std::sync::Arc<crate::level::LevelList>);
+/// A stored listing: its cutoff, its precision in bits, its levels, and
+/// how many listings the store has been outgrown by.
+type Stored = (
+    BigRational,
+    u32,
+    std::sync::Arc<crate::spectrum::Summands>,
+    u32,
+);
+
+impl Cached<'_> {
+    /// The stored listing when it reaches `cutoff` at `bits` or more, else
+    /// a new one reaching at least as far (stored when wider than what is
+    /// stored). A poisoned lock only means another thread panicked
+    /// mid-listing; the store then holds a whole earlier listing or none. The listing is shared: callers truncate
+    /// outside the lock, so the cores of a sweep do not wait on each
+    /// other's copies.
+    fn shared(
+        &self,
+        cutoff: &BigRational,
+        budget: &crate::spectrum::Budget,
+        bits: u32,
+    ) -> Result<std::sync::Arc<crate::spectrum::Summands>> {
+        let lock = || {
+            self.store
+                .lock()
+                .unwrap_or_else(std::sync::PoisonError::into_inner)
+        };
+        let (stored, outgrown) = match lock().as_ref() {
+            Some((c, b, list, n)) if bits <= *b => {
+                if cutoff <= c {
+                    (Some(list.clone()), 0)
+                } else {
+                    (None, n + 1)
+                }
+            }
+            Some((.., n)) => (None, *n),
+            None => (None, 0),
+        };
+        if let Some(list) = stored {
+            return Ok(list);
+        }
+        // A sweep asks for ever higher cutoffs as its temperature rises:
+        // once the stored listing is outgrown a second time, list half as
+        // far again beyond the ground (within the budget), so that the
+        // listings of a whole grid number a few rather than one per
+        // temperature, while a call at one or two temperatures lists no
+        // more than it sums.
+        let ahead = (outgrown >= 2).then(|| {
+            let e0 = self.inner.ground_energy();
+            &e0 + (cutoff - &e0) * BigRational::new(3.into(), 2.into())
+        });
+        let list_at = |c: &BigRational| -> Result<std::sync::Arc<crate::spectrum::Summands>> {
+            if bits == 0 {
+                let list = self.inner.levels_within(c, budget)?;
+                Ok(std::sync::Arc::new(crate::spectrum::Summands::new(
+                    std::sync::Arc::new(list),
+                )))
+            } else {
+                self.inner.summands_within_bits(c, budget, bits)
+            }
+        };
+        let (reach, shared) = match ahead.map(|a| list_at(&a).map(|l| (a, l))) {
+            Some(Ok(far)) => far,
+            _ => (cutoff.clone(), list_at(cutoff)?),
+        };
+        let cutoff = &reach;
+        // Exact listings serve every precision.
+        let b = if shared.list().is_exact() {
+            u32::MAX
+        } else {
+            bits
+        };
+        let mut store = lock();
+        // Keep the wider of this listing and one another core stored
+        // meanwhile.
+        let wider = store
+            .as_ref()
+            .is_none_or(|(c, sb, ..)| cutoff >= c && b >= *sb);
+        if wider {
+            *store = Some((cutoff.clone(), b, shared.clone(), outgrown));
+        }
+        drop(store);
+        Ok(shared)
+    }
+}
 
 impl<'a> Cached<'a> {
     /// Wraps `inner`.
@@ -628,40 +711,15 @@ impl Spectrum for Cached<'_> {
         budget: &crate::spectrum::Budget,
         bits: u32,
     ) -> Result<crate::level::LevelList> {
-        // A poisoned lock only means another thread panicked mid-listing;
-        // the store then holds a whole earlier listing or none. The list
-        // is shared: it is truncated outside the lock, so the cores of a
-        // sweep do not wait on each other's copies.
-        let lock = || {
-            self.store
-                .lock()
-                .unwrap_or_else(std::sync::PoisonError::into_inner)
-        };
-        let stored = lock()
-            .as_ref()
-            .and_then(|(c, b, list)| (cutoff <= c && bits <= *b).then(|| list.clone()));
-        if let Some(list) = stored {
-            return Ok(list.truncated(cutoff));
-        }
-        let list = if bits == 0 {
-            self.inner.levels_within(cutoff, budget)?
-        } else {
-            self.inner.levels_within_bits(cutoff, budget, bits)?
-        };
-        // Exact listings serve every precision.
-        let b = if list.is_exact() { u32::MAX } else { bits };
-        let shared = std::sync::Arc::new(list);
-        let mut store = lock();
-        // Keep the wider of this listing and one another core stored
-        // meanwhile.
-        let wider = store
-            .as_ref()
-            .is_none_or(|(c, sb, _)| cutoff >= c && b >= *sb);
-        if wider {
-            *store = Some((cutoff.clone(), b, shared.clone()));
-        }
-        drop(store);
-        Ok(std::sync::Arc::unwrap_or_clone(shared))
+        Ok(self.shared(cutoff, budget, bits)?.list().truncated(cutoff))
+    }
+    fn summands_within_bits(
+        &self,
+        cutoff: &BigRational,
+        budget: &crate::spectrum::Budget,
+        bits: u32,
+    ) -> Result<std::sync::Arc<crate::spectrum::Summands>> {
+        self.shared(cutoff, budget, bits)
     }
     fn states_at(&self, energy: &BigRational) -> Result<Vec<crate::spectrum::State>> {
         self.inner.states_at(energy)
