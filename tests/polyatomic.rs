@@ -2,6 +2,8 @@
 //! nuclear-spin isomers' high-temperature limits, and the symmetry number
 //! checked against the statistics.
 
+mod common;
+
 use zsum::exact::parse_rational;
 use zsum::species::{molar, Database, Isomer, MolarOptions};
 use zsum::sum::{thermo, Temperature};
@@ -200,6 +202,16 @@ fn methane_and_ammonia_isomer_limits() {
 /// Rigid symmetric tops for the checks below: an ammonia-like oblate top
 /// and a prolate one, with and without three-fold statistics (protons,
 /// deuterons) and inversion, and one isomer alone.
+/// The engine's cached K ladders of every symmetric top are the top's own
+/// at each cutoff of a rising and falling run.
+#[test]
+fn cached_top_ladders_are_the_models_own() {
+    let above = ["0", "1", "30", "200", "700", "1500", "4000", "12000"];
+    for top in symmetric_tops() {
+        assert_eq!(common::cached_ladders_match(&top, &above), 16);
+    }
+}
+
 fn symmetric_tops() -> Vec<zsum::models::rotor::SymmetricTop> {
     use zsum::models::rotor::{SymmetricTop, TopShape};
     use zsum::units::EnergyUnit;

@@ -1,6 +1,8 @@
 //! The summation engine against closed forms, published expansions, its own
 //! fast paths, and its precision promise.
 
+mod common;
+
 use num_rational::BigRational;
 use proptest::prelude::*;
 use zsum::exact::parse_rational;
@@ -459,6 +461,17 @@ proptest! {
         prop_assert_eq!(&a.u_over_kt, &b.u_over_kt);
         prop_assert_eq!(&a.cv_over_k, &b.cv_over_k);
         prop_assert_eq!(&a.s_over_k, &b.s_over_k);
+    }
+}
+
+#[test]
+fn cached_rovib_ladders_are_the_models_own() {
+    for w in [[1, 1], [0, 3], [6, 0]] {
+        let m = rovib("2358.57", "14.324", "1.99824", "0.017318", "5.76e-6", w);
+        let above = [
+            "0", "3.9", "124.3", "500", "900", "2000", "9000", "40000", "1e6",
+        ];
+        assert_eq!(common::cached_ladders_match(&m, &above), 18);
     }
 }
 

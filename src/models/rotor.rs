@@ -1742,6 +1742,28 @@ impl Spectrum for SphericalTop {
     }
 
     fn count_bound(&self, energy: &BigRational) -> BigUint {
+        // Rigid: the rungs are J(J+1) ≤ ⌊E/B⌋, found by one integer root
+        // instead of stepping the ladder in rationals (the tail bounds ask
+        // at dozens of energies per temperature); the same rungs and
+        // refusals as the listing.
+        if self.d.is_zero() {
+            if energy.is_negative() {
+                return BigUint::zero();
+            }
+            let budget = Budget::default();
+            let est = j_estimate(energy, &self.b);
+            let n = (energy / &self.b).floor().to_integer();
+            let j_end = (((n * 4u32) + 1u32).sqrt() - 1u32) / 2u32;
+            return match j_end.to_u64() {
+                Some(j)
+                    if check_rungs("spherical top", est, energy, &budget).is_ok()
+                        && j < max_rungs(&budget) =>
+                {
+                    (0..=j).map(|j| self.degeneracy(j)).sum()
+                }
+                _ => BigUint::from(u64::MAX),
+            };
+        }
         match self.rungs(energy, &Budget::default()) {
             Ok((rungs, _)) => rungs.iter().map(|(j, _)| self.degeneracy(*j)).sum(),
             Err(_) => BigUint::from(u64::MAX),
@@ -1757,6 +1779,40 @@ impl Spectrum for SphericalTop {
                 &self.unit,
             )],
             _ => Vec::new(),
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// The rigid spherical top's count bound by the integer root equals the
+    /// sum of degeneracies over the rungs the listing steps to, at every
+    /// level's energy, just below it, and between levels.
+    #[test]
+    fn spherical_count_by_root_equals_the_stepped_rungs() {
+        let r = |n: i64, d: i64| BigRational::new(n.into(), d.into());
+        let plain = SphericalTop::new(r(52410, 10000), r(0, 1), EnergyUnit::Wavenumber).unwrap();
+        let spins = plain.clone().with_spin_statistics(1).unwrap();
+        let meta = spins.clone().with_isomer("meta").unwrap();
+        for top in [plain, spins, meta] {
+            let stepped = |e: &BigRational| -> BigUint {
+                match top.rungs(e, &Budget::default()) {
+                    Ok((rungs, _)) => rungs.iter().map(|(j, _)| top.degeneracy(*j)).sum(),
+                    Err(_) => BigUint::from(u64::MAX),
+                }
+            };
+            let mut energies = vec![r(-1, 3), r(0, 1)];
+            for j in 0..120u64 {
+                let e = top.energy(j);
+                energies.push(&e - r(1, 1_000_000_007));
+                energies.push(e.clone());
+                energies.push(&e + r(7, 3));
+            }
+            for e in &energies {
+                assert_eq!(top.count_bound(e), stepped(e), "at {e}");
+            }
         }
     }
 }

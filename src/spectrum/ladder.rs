@@ -50,4 +50,29 @@ impl PolyLadder {
     pub fn degeneracy(&self, j: u64) -> BigUint {
         BigUint::from(2 * u128::from(j) + 1) * &self.weights[(j % 2) as usize]
     }
+
+    /// The rungs at or below `cutoff` (energy rises along the ladder, so
+    /// they are a prefix), found by bisection on the integer numerators;
+    /// `None` when the first rung lies above it.
+    pub fn truncated(&self, cutoff: &BigRational) -> Option<PolyLadder> {
+        use num_integer::Integer;
+        // E(J) ≤ c ⇔ num(J) ≤ ⌊c·den⌋.
+        let bound = (cutoff.numer() * &self.denominator).div_floor(cutoff.denom());
+        if self.numerator(self.first) > bound {
+            return None;
+        }
+        let (mut lo, mut hi) = (self.first, self.last);
+        while lo < hi {
+            let mid = lo + (hi - lo).div_ceil(2);
+            if self.numerator(mid) <= bound {
+                lo = mid;
+            } else {
+                hi = mid - 1;
+            }
+        }
+        Some(PolyLadder {
+            last: lo,
+            ..self.clone()
+        })
+    }
 }

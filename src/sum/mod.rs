@@ -580,7 +580,17 @@ pub struct Cached<'a> {
     /// its levels.
     store: std::sync::Arc<std::sync::Mutex<Option<Stored>>>,
     parts: Option<Vec<(Cached<'a>, BigRational)>>,
+    /// The widest J ladders so far, as `store` keeps listings.
+    ladders: std::sync::Arc<std::sync::Mutex<Option<StoredLadders>>>,
 }
+
+/// Stored ladders: their cutoff, the ladders, and how many times the store
+/// has been outgrown.
+type StoredLadders = (
+    BigRational,
+    std::sync::Arc<Vec<crate::spectrum::PolyLadder>>,
+    u32,
+);
 
 /// A stored listing: its cutoff, its precision in bits, its levels, and
 /// how many listings the store has been outgrown by.
@@ -681,6 +691,7 @@ impl<'a> Cached<'a> {
             inner,
             store: std::sync::Arc::new(std::sync::Mutex::new(None)),
             parts,
+            ladders: std::sync::Arc::new(std::sync::Mutex::new(None)),
         }
     }
 }
@@ -760,6 +771,52 @@ impl Spectrum for Cached<'_> {
         cutoff: &BigRational,
         budget: &crate::spectrum::Budget,
     ) -> Option<Result<Vec<crate::spectrum::PolyLadder>>> {
-        self.inner.poly_ladders(cutoff, budget)
+        let lock = || {
+            self.ladders
+                .lock()
+                .unwrap_or_else(std::sync::PoisonError::into_inner)
+        };
+        let (stored, outgrown) = match lock().as_ref() {
+            Some((c, l, n)) => {
+                if cutoff <= c {
+                    (Some(l.clone()), 0)
+                } else {
+                    (None, n + 1)
+                }
+            }
+            None => (None, 0),
+        };
+        let ladders = match stored {
+            Some(l) => l,
+            None => {
+                // As the listings: ahead of a rising sweep once outgrown
+                // twice, falling back to the cutoff itself.
+                let ahead = (outgrown >= 2).then(|| {
+                    let e0 = self.inner.ground_energy();
+                    &e0 + (cutoff - &e0) * BigRational::new(3.into(), 2.into())
+                });
+                let far = ahead.and_then(|a| match self.inner.poly_ladders(&a, budget) {
+                    Some(Ok(l)) => Some((a, l)),
+                    _ => None,
+                });
+                let (reach, list) = match far {
+                    Some(f) => f,
+                    None => match self.inner.poly_ladders(cutoff, budget)? {
+                        Ok(l) => (cutoff.clone(), l),
+                        Err(e) => return Some(Err(e)),
+                    },
+                };
+                let list = std::sync::Arc::new(list);
+                let mut store = lock();
+                if store.as_ref().is_none_or(|(c, ..)| reach >= *c) {
+                    *store = Some((reach, list.clone(), outgrown));
+                }
+                list
+            }
+        };
+        Some(Ok(ladders
+            .iter()
+            .filter_map(|l| l.truncated(cutoff))
+            .collect()))
     }
 }

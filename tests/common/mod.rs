@@ -204,3 +204,23 @@ pub fn terms_are_projected_states(s: &dyn Spectrum, cutoff: &str) -> usize {
     assert_eq!(seen, terms.len(), "a term lies on no level");
     seen
 }
+
+/// The engine's cached J ladders (kept at the widest cutoff asked so far,
+/// listed ahead of a rising sweep, cut by bisection) equal the model's own
+/// ladders at every cutoff of a rising then falling run of `above`
+/// (excitations past the ground). Returns the number of cutoffs checked.
+pub fn cached_ladders_match(m: &dyn Spectrum, above: &[&str]) -> usize {
+    use zsum::spectrum::Budget;
+    let cached = zsum::sum::Cached::new(m);
+    let mut run: Vec<&str> = above.to_vec();
+    run.extend(above.iter().rev());
+    for a in &run {
+        let cut = m.ground_energy() + zsum::exact::parse_rational(a).unwrap();
+        let own = m.poly_ladders(&cut, &Budget::default()).map(|l| l.unwrap());
+        let via = cached
+            .poly_ladders(&cut, &Budget::default())
+            .map(|l| l.unwrap());
+        assert_eq!(via, own, "{} at {} past the ground", m.describe(), a);
+    }
+    run.len()
+}
