@@ -101,6 +101,9 @@
 //! - [`classical`]: classical limits, error maps and where they fail, in
 //!   numbers.
 //! - [`species`]: built-in gases and their standard molar functions.
+//! - [`assign`]: measured levels with assigned quantum numbers: checked
+//!   against a model, and how complete they are for thermodynamics.
+//! - [`fit`]: model constants fitted to assigned levels, exactly.
 //! - [`microstates`]: collections: Ω(E, N), Q_N, vibrational state counts.
 //! - [`report`]: every answer as a serde struct, written from the numbers
 //!   above: the only place text is made.
@@ -111,12 +114,14 @@
 #![forbid(unsafe_code)]
 #![warn(missing_docs)]
 
+pub mod assign;
 pub mod budget;
 pub mod classical;
 pub mod counting;
 pub mod error;
 pub mod exact;
 pub mod export;
+pub mod fit;
 pub mod input;
 pub mod level;
 pub mod microstates;
