@@ -396,6 +396,19 @@ const CASES: &[(&str, &[&str])] = &[
     ),
     ("hydrogen-table", &["hydrogen", "--T", "20.28,77,300"]),
     (
+        "assign-check-table",
+        &[
+            "assign",
+            "check",
+            "examples/assignments/kestrel_co.assign",
+            "rotor",
+            "--B",
+            "1.9225288",
+            "--D",
+            "6.1215e-6",
+        ],
+    ),
+    (
         "spin-temperature-table",
         &["spin", "H2O", "--measured", "ortho/para=2.5"],
     ),

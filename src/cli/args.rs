@@ -108,12 +108,60 @@ pub enum Command {
     /// composition (--measured), or the equilibrium fractions and the heat
     /// a frozen composition releases relaxing at each T (--T).
     Spin(SpinIsomerArgs),
+    /// Measured levels with assigned quantum numbers: check them against a
+    /// model (allowed numbers, nuclear-spin statistics, degeneracies,
+    /// duplicates, residuals, missing levels).
+    Assign {
+        /// What to do with the assignments.
+        #[command(subcommand)]
+        command: AssignCommand,
+    },
     /// Count a model's states up to an energy exactly, without listing them.
     Count {
         /// The model.
         #[command(subcommand)]
         model: CountModel,
     },
+}
+
+/// `zsum assign` commands.
+#[derive(Debug, Subcommand)]
+pub enum AssignCommand {
+    /// Check every row against a model: are its quantum numbers a level of
+    /// the model (ranges, nuclear-spin statistics), does a given degeneracy
+    /// match, which rows repeat a level, which residuals exceed the
+    /// threshold, and which allowed levels have no row. Give the options,
+    /// then a model (rotor, top, oscillator, diatomic) or --system FILE.
+    Check {
+        /// The assignments file (format in the README).
+        file: PathBuf,
+        /// The model.
+        #[command(subcommand)]
+        model: Option<ClassicalModel>,
+        /// Check options.
+        #[command(flatten)]
+        opts: AssignCheckArgs,
+    },
+}
+
+/// Options of `zsum assign check`.
+#[derive(Debug, Args)]
+pub struct AssignCheckArgs {
+    /// A system file (TOML) instead of a model: its one part that labels
+    /// its levels is checked against.
+    #[arg(long, value_name = "FILE")]
+    pub system: Option<PathBuf>,
+    /// Flag rows whose |o-c|/sigma exceeds this (and duplicates this far
+    /// apart).
+    #[arg(long, value_name = "SIGMAS", default_value = "3")]
+    pub threshold: String,
+    /// Judge completeness up to this term value (with unit, e.g. "500
+    /// cm-1"); default the highest measured one.
+    #[arg(long, value_name = "E")]
+    pub up_to: Option<String>,
+    /// Output options.
+    #[command(flatten)]
+    pub out: Output,
 }
 
 /// Models for `levels`.

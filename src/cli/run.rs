@@ -1,12 +1,12 @@
 //! Validates raw arguments into library objects, runs the library, renders.
 
 use super::args::{
-    BasisArg, BoxCount, BoxLevels, BoxPhysical, BoxShape, CensusArgs, ClassicalModel, Cli, Command,
-    CompareArgs, CountModel, CrossoverArgs, DiatomicLevels, DiatomicModel, EnsembleArgs,
-    FileLevels, FileModel, FormatArg, HydrogenArgs, LevelsModel, ListArgs, MicrostatesArgs,
-    OnlyArg, OscillatorLevels, OscillatorModel, Output, PerArg, RotorLevels, RotorModel,
-    SpeciesCommand, SpeciesThermo, SpinArgs, SpinIsomerArgs, SystemLevels, SystemThermo, TempArgs,
-    ThermoModel, TopLevels, TopModel, ZeemanLevels, ZeemanModel,
+    AssignCommand, BasisArg, BoxCount, BoxLevels, BoxPhysical, BoxShape, CensusArgs,
+    ClassicalModel, Cli, Command, CompareArgs, CountModel, CrossoverArgs, DiatomicLevels,
+    DiatomicModel, EnsembleArgs, FileLevels, FileModel, FormatArg, HydrogenArgs, LevelsModel,
+    ListArgs, MicrostatesArgs, OnlyArg, OscillatorLevels, OscillatorModel, Output, PerArg,
+    RotorLevels, RotorModel, SpeciesCommand, SpeciesThermo, SpinArgs, SpinIsomerArgs, SystemLevels,
+    SystemThermo, TempArgs, ThermoModel, TopLevels, TopModel, ZeemanLevels, ZeemanModel,
 };
 use num_rational::BigRational;
 use zsum::budget::Meter;
@@ -54,6 +54,7 @@ pub fn run(cli: Cli) -> Result<Option<String>> {
         Command::Species { command } => species(command),
         Command::Hydrogen(a) => hydrogen(a),
         Command::Spin(a) => spin(a),
+        Command::Assign { command } => assign(command),
         Command::Census(a) => census(a),
         Command::Microstates(a) => microstates_cmd(a),
         Command::Ensemble(a) => ensemble_cmd(a),
@@ -905,6 +906,51 @@ fn species(c: SpeciesCommand) -> Result<Option<String>> {
             let db = database(&species_file)?;
             let card = SpeciesCard::new(db.find(&name)?)?;
             emit(render(&card, format(out.format))?, &out)
+        }
+    }
+}
+
+fn assign(command: AssignCommand) -> Result<Option<String>> {
+    match command {
+        AssignCommand::Check { file, model, opts } => {
+            let a = zsum::assign::Assignments::read(&file)?;
+            let threshold: f64 = opts
+                .threshold
+                .trim()
+                .parse()
+                .ok()
+                .filter(|t: &f64| t.is_finite() && *t > 0.0)
+                .ok_or_else(|| {
+                    Error::invalid(
+                        "--threshold",
+                        &opts.threshold,
+                        "give a positive number of standard deviations, e.g. 3",
+                    )
+                })?;
+            let up_to = match &opts.up_to {
+                Some(text) => {
+                    let (v, u) = zsum::units::parse_energy(text)?;
+                    Some(u.convert(&v, &a.unit)?)
+                }
+                None => None,
+            };
+            let spectrum = classical_model(model, &opts.system, "assign check")?;
+            let c = zsum::assign::check(
+                &a,
+                spectrum.as_ref(),
+                &zsum::assign::CheckOptions {
+                    threshold,
+                    up_to,
+                    ..Default::default()
+                },
+            )?;
+            emit(
+                render(
+                    &zsum::report::CheckReport::new(&c, &file.display().to_string()),
+                    format(opts.out.format),
+                )?,
+                &opts.out,
+            )
         }
     }
 }

@@ -5,6 +5,7 @@
 //! only place text is made from numbers; it stands above every computing
 //! module and none of them imports it.
 
+mod assign;
 mod census;
 mod compare;
 mod count;
@@ -24,6 +25,7 @@ mod species;
 mod spin;
 pub mod text;
 mod thermo;
+pub use assign::{CheckReport, CheckRow, MissingRow};
 pub use compare::{ApproxRow, CompareReport, CompareRow, ExactRow, RelErrors};
 pub use count::CountReport;
 pub use crossover::{CrossingRow, CrossoverReport};
