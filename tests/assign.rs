@@ -242,3 +242,36 @@ fn the_cli_check_exits_2_on_bad_input_and_writes_nothing() {
     assert_eq!(v["missing"][0]["numbers"], serde_json::json!([10]));
     std::fs::remove_dir_all(&dir).ok();
 }
+
+#[test]
+fn measured_levels_merge_duplicates_and_take_the_models_degeneracies() {
+    let b = r("1.9225288");
+    let rotor = LinearRotor::new(b, r("6.1215e-6"), r("0"), EnergyUnit::Wavenumber).unwrap();
+    let a = Assignments::read(std::path::Path::new(
+        "examples/assignments/kestrel_co.assign",
+    ))
+    .unwrap();
+    let o = CheckOptions {
+        with_states: true,
+        ..CheckOptions::default()
+    };
+    let c = check(&a, &rotor, &o).unwrap();
+    let list = c.measured_levels().unwrap();
+    // 13 rows: J = 0..12 without 10, J = 5 twice.
+    assert_eq!(list.len(), 12);
+    let j5 = list.iter().find(|l| l.degeneracy == 11u32.into()).unwrap();
+    assert_eq!(j5.energy, (r("57.670351") + r("57.670363")) / r("2"));
+    // The J = 4 row's wrong g=8 gives way to the model's 9 states.
+    assert!(list
+        .iter()
+        .any(|l| l.degeneracy == 9u32.into() && l.energy == r("38.448108")));
+    let total: num_bigint::BigUint = list.iter().map(|l| l.degeneracy.clone()).sum();
+    assert_eq!(total, (169u32 - 21).into());
+    // Without the states counted there is no degeneracy for unlabelled rows.
+    let bare = check(&a, &rotor, &CheckOptions::default()).unwrap();
+    assert!(bare
+        .measured_levels()
+        .unwrap_err()
+        .to_string()
+        .contains("degeneracy is unknown"));
+}

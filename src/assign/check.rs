@@ -31,6 +31,9 @@ pub struct CheckOptions {
     pub up_to: Option<BigRational>,
     /// Work budget for listing the model's terms.
     pub budget: Budget,
+    /// Also count the model's states on every allowed row
+    /// ([`RowCheck::states`]), as [`Check::measured_levels`] needs.
+    pub with_states: bool,
 }
 
 impl Default for CheckOptions {
@@ -39,6 +42,7 @@ impl Default for CheckOptions {
             threshold: 3.0,
             up_to: None,
             budget: Budget::default(),
+            with_states: false,
         }
     }
 }
@@ -75,6 +79,10 @@ pub struct RowCheck {
     pub suspect: bool,
     /// The model's degeneracy when the row gives one that differs.
     pub degeneracy_mismatch: Option<BigUint>,
+    /// The model's number of states with these numbers, when asked for
+    /// ([`CheckOptions::with_states`]) and the model's states carry the
+    /// numbers plainly.
+    pub states: Option<BigUint>,
 }
 
 /// The same quantum numbers on several rows.
@@ -142,6 +150,59 @@ pub struct Check {
 }
 
 impl Check {
+    /// The measured levels as a level list (file unit, from the lowest
+    /// level) for summing on their own: each allowed level once, at its
+    /// row's term value (the weighted mean of consistent duplicates; an
+    /// inconsistent set is refused, naming its lines), with the model's
+    /// count of its states (else the row's `g=`). Needs a check made with
+    /// [`CheckOptions::with_states`].
+    pub fn measured_levels(&self) -> Result<crate::level::LevelList> {
+        let mut seen = std::collections::HashSet::new();
+        let mut levels = Vec::new();
+        for r in self.rows.iter().filter(|r| r.model.is_ok()) {
+            if !seen.insert(r.row.numbers.clone()) {
+                continue;
+            }
+            let dup = self
+                .duplicates
+                .iter()
+                .find(|d| d.lines.contains(&r.row.line));
+            let energy = match dup {
+                Some(d) if !d.consistent => {
+                    return Err(Error::invalid(
+                        "duplicate rows",
+                        format!("on lines {:?}", d.lines),
+                        "they disagree beyond the threshold; keep the right one before \
+                         summing the measured levels",
+                    ))
+                }
+                Some(d) => d.mean.clone(),
+                None => r.row.term.clone(),
+            };
+            let g = r
+                .states
+                .clone()
+                .or_else(|| r.row.degeneracy.clone())
+                .ok_or_else(|| {
+                    Error::invalid(
+                        "row",
+                        format!("line {}", r.row.line),
+                        "its degeneracy is unknown: give g=N on the row (the model's states do \
+                     not carry the file's quantum numbers)",
+                    )
+                })?;
+            levels.push(crate::level::Level::new(energy, g));
+        }
+        if levels.is_empty() {
+            return Err(Error::invalid(
+                "assignments",
+                "with no allowed row",
+                "at least one row must be a level of the model",
+            ));
+        }
+        Ok(crate::level::LevelList::new(self.unit.clone(), levels))
+    }
+
     /// Rows whose numbers are not a level of the model.
     pub fn not_allowed(&self) -> impl Iterator<Item = &RowCheck> {
         self.rows.iter().filter(|r| r.model.is_err())
@@ -350,12 +411,15 @@ pub fn check(a: &Assignments, model: &dyn Spectrum, opts: &CheckOptions) -> Resu
             .as_ref()
             .map(|d| (d / &r.sigma).to_f64().unwrap_or(f64::INFINITY));
         let suspect = normalised.is_some_and(|z| z.abs() > opts.threshold);
-        let degeneracy_mismatch = match (&r.degeneracy, &model) {
-            (Some(g), Ok(e)) => {
+        let states = match &model {
+            Ok(e) if r.degeneracy.is_some() || opts.with_states => {
                 let energy = &e0 + e * &to_model;
-                let own = term_degeneracy(s, &energy, &model_names, &index, &r.numbers, k_col)?;
-                own.filter(|m| m != g)
+                term_degeneracy(s, &energy, &model_names, &index, &r.numbers, k_col)?
             }
+            _ => None,
+        };
+        let degeneracy_mismatch = match (&r.degeneracy, &states) {
+            (Some(g), Some(own)) if own != g => Some(own.clone()),
             _ => None,
         };
         rows.push(RowCheck {
@@ -365,6 +429,7 @@ pub fn check(a: &Assignments, model: &dyn Spectrum, opts: &CheckOptions) -> Resu
             normalised,
             suspect,
             degeneracy_mismatch,
+            states: states.filter(|_| opts.with_states),
         });
     }
     let duplicates = duplicates(a, &key, opts.threshold);
